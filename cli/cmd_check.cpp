@@ -1,0 +1,22 @@
+// oxystrat check CASE: validate a case and print the geometry it describes; writes nothing.
+#include <fmt/format.h>
+
+#include "common.hpp"
+#include "text_summary.hpp"
+#include "zone_network.hpp"
+
+namespace oxystrat::cli {
+
+void add_check_command(CLI::App& app) {
+  auto* cmd = app.add_subcommand("check", "Validate a case file and print the derived geometry (writes nothing)");
+  auto opts = std::make_shared<CaseOptions>();
+  add_case_options(*cmd, *opts);
+  cmd->callback([opts] {
+    const auto loaded = load_case(*opts);
+    const auto net = build_zone_geometry(loaded.data);
+    fmt::print("{}", geometry_summary(loaded, net));
+    fmt::print("Case is valid.\n");
+  });
+}
+
+}  // namespace oxystrat::cli

@@ -1,0 +1,43 @@
+// oxystrat run CASE --out DIR: the main job on one case.
+#include <fmt/format.h>
+
+#include "common.hpp"
+#include "h5_writer.hpp"
+#include "network_output.hpp"
+#include "run_folder.hpp"
+#include "text_summary.hpp"
+#include "vtk_writer.hpp"
+#include "zone_network.hpp"
+
+namespace oxystrat::cli {
+
+struct RunOptions {
+  CaseOptions case_opts;
+  OutputOptions out;
+};
+
+void add_run_command(CLI::App& app) {
+  auto* cmd = app.add_subcommand("run", "Build the zone network of a case, solve it and write the results");
+  auto opts = std::make_shared<RunOptions>();
+  add_case_options(*cmd, opts->case_opts);
+  add_output_options(*cmd, opts->out);
+  cmd->callback([opts] {
+    const auto loaded = load_case(opts->case_opts);
+    RunFolder folder(opts->out.out_dir, opts->out.force);
+    const auto net = build_zone_geometry(loaded.data);
+    fmt::print("{}", geometry_summary(loaded, net));
+    {
+      H5Writer h5(folder.file("result.h5").string());
+      write_case_h5(h5, loaded);
+      write_network_h5(h5, net);
+      h5.close();
+    }
+    const auto arrays = network_cell_arrays(net);
+    write_zones_vtu(folder.file("zones.vtu").string(), net, loaded.data.output.sectors, arrays);
+    write_section_vtu(folder.file("section.vtu").string(), net, arrays);
+    folder.commit();
+    fmt::print("Wrote {}/result.h5, zones.vtu, section.vtu\n", folder.target().string());
+  });
+}
+
+}  // namespace oxystrat::cli

@@ -1,0 +1,29 @@
+#include "common.hpp"
+
+#include <fmt/format.h>
+
+namespace oxystrat::cli {
+
+void add_case_options(CLI::App& cmd, CaseOptions& o) {
+  cmd.add_option("CASE", o.case_path, "Case file (TOML)")->required()->check(CLI::ExistingFile);
+  cmd.add_option("--set", o.sets,
+                 "Override a case key, KEY=VALUE with the units of the case file, e.g. "
+                 "--set operation.speed=\"110 rpm\" --set impeller.1.type=hydrofoil-up (repeatable)")
+      ->take_all()
+      ->allow_extra_args(false);
+}
+
+void add_output_options(CLI::App& cmd, OutputOptions& o) {
+  cmd.add_option("--out", o.out_dir, "Output folder (created; must not exist unless --force)")->required();
+  cmd.add_flag("--force", o.force, "Replace an existing output folder once the new result is complete");
+}
+
+LoadedCase load_case(const CaseOptions& o) {
+  std::vector<Override> overrides;
+  for (const auto& s : o.sets) overrides.push_back(parse_override(s));
+  auto loaded = read_case_file(o.case_path, overrides);
+  for (const auto& note : loaded.notes) fmt::print(stderr, "warning: {}\n", note);
+  return loaded;
+}
+
+}  // namespace oxystrat::cli

@@ -1,0 +1,34 @@
+// Pieces every command shares: the case argument with --set overrides, and the output folder.
+#pragma once
+
+#include <CLI/CLI.hpp>
+
+#include <string>
+#include <vector>
+
+#include "case/case_reader.hpp"
+
+namespace oxystrat::cli {
+
+struct CaseOptions {
+  std::string case_path;
+  std::vector<std::string> sets;
+};
+
+struct OutputOptions {
+  std::string out_dir;
+  bool force = false;
+};
+
+//! Adds CASE and --set to a command.
+void add_case_options(CLI::App& cmd, CaseOptions& o);
+//! Adds --out (required) and --force to a command.
+void add_output_options(CLI::App& cmd, OutputOptions& o);
+
+//! Reads the case with its overrides; prints the reader's notes to stderr as warnings.
+LoadedCase load_case(const CaseOptions& o);
+
+void add_run_command(CLI::App& app);
+void add_check_command(CLI::App& app);
+
+}  // namespace oxystrat::cli

@@ -1,0 +1,28 @@
+// oxystrat: oxygen supply zone by zone in stirred bioreactors. This file only wires the commands.
+#include <fmt/format.h>
+
+#include <CLI/CLI.hpp>
+#include <exception>
+
+#include "common.hpp"
+
+#ifndef OXYSTRAT_VERSION
+#define OXYSTRAT_VERSION "0.0.0"
+#endif
+
+int main(int argc, char** argv) {
+  CLI::App app{"oxystrat: where a stirred, sparged vessel runs short of oxygen, zone by zone"};
+  app.set_version_flag("--version", std::string("oxystrat ") + OXYSTRAT_VERSION);
+  app.require_subcommand(1, 1);
+  oxystrat::cli::add_run_command(app);
+  oxystrat::cli::add_check_command(app);
+  try {
+    app.parse(argc, argv);
+  } catch (const CLI::ParseError& e) {
+    return app.exit(e);
+  } catch (const std::exception& e) {
+    fmt::print(stderr, "oxystrat: error: {}\n", e.what());
+    return 1;
+  }
+  return 0;
+}

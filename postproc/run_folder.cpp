@@ -1,0 +1,55 @@
+#include "run_folder.hpp"
+
+#include <unistd.h>
+
+#include <stdexcept>
+#include <system_error>
+
+namespace oxystrat {
+namespace fs = std::filesystem;
+
+RunFolder::RunFolder(fs::path target, bool force) : target_(std::move(target)), force_(force) {
+  if (target_.empty()) throw std::runtime_error("no output folder given (--out DIR)");
+  if (fs::exists(target_) && !force_) {
+    throw std::runtime_error("output folder " + target_.string() +
+                             " exists; choose another --out or add --force to replace it");
+  }
+  if (fs::exists(target_) && !fs::is_directory(target_)) {
+    throw std::runtime_error(target_.string() + " exists and is not a folder");
+  }
+  const fs::path parent = target_.has_parent_path() ? target_.parent_path() : fs::path(".");
+  std::error_code ec;
+  fs::create_directories(parent, ec);
+  if (ec) throw std::runtime_error("cannot create " + parent.string() + ": " + ec.message());
+  staging_ = parent / (target_.filename().string() + ".partial-" + std::to_string(::getpid()));
+  fs::remove_all(staging_, ec);
+  fs::create_directory(staging_, ec);
+  if (ec) throw std::runtime_error("cannot create " + staging_.string() + ": " + ec.message());
+}
+
+RunFolder::~RunFolder() {
+  if (!committed_) {
+    std::error_code ec;
+    fs::remove_all(staging_, ec);
+  }
+}
+
+void RunFolder::commit() {
+  std::error_code ec;
+  fs::path old;
+  if (fs::exists(target_)) {
+    if (!force_) throw std::runtime_error("output folder " + target_.string() + " appeared during the run");
+    old = target_.string() + ".old-" + std::to_string(::getpid());
+    fs::rename(target_, old, ec);
+    if (ec) throw std::runtime_error("cannot move the old " + target_.string() + " aside: " + ec.message());
+  }
+  fs::rename(staging_, target_, ec);
+  if (ec) {
+    if (!old.empty()) fs::rename(old, target_);  // put the previous result back
+    throw std::runtime_error("cannot move the result into " + target_.string() + ": " + ec.message());
+  }
+  committed_ = true;
+  if (!old.empty()) fs::remove_all(old, ec);
+}
+
+}  // namespace oxystrat

@@ -1,0 +1,132 @@
+// The case: everything a run needs, as plain data in SI units. It knows nothing about files;
+// case_reader.hpp fills it from TOML and checks it.
+#pragma once
+
+#include <map>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace oxystrat {
+
+enum class BottomShape { flat, ellipsoidal, hemispherical };
+
+enum class ImpellerType {
+  rushton,
+  pitched_blade_down,
+  pitched_blade_up,
+  hydrofoil_down,
+  hydrofoil_up,
+  hollow_blade,
+};
+
+enum class SpargerType { ring, pipe };
+
+enum class Coalescence { coalescing, non_coalescing };
+
+enum class KlaModel { local_correlation, mechanistic };
+
+struct Vessel {
+  double diameter_m = 0.0;          //!< Inner diameter T [m]
+  double liquid_height_m = 0.0;     //!< Liquid height H above the lowest point, ungassed [m]
+  double working_volume_m3 = 0.0;   //!< Liquid volume V, ungassed [m3] (derived from H or given)
+  BottomShape bottom = BottomShape::ellipsoidal;
+  int baffles = 4;                  //!< Number of wall baffles [-]
+  double baffle_width_m = 0.0;      //!< Radial baffle width [m]
+  double head_pressure_pa = 101325; //!< Absolute pressure in the head space [Pa]
+  double pressure_rating_pa = 0.0;  //!< Absolute design pressure of the vessel [Pa]; 0 = not given
+  double temperature_k = 310.15;    //!< Broth temperature [K]
+};
+
+struct Impeller {
+  ImpellerType type = ImpellerType::rushton;
+  double diameter_m = 0.0;        //!< Impeller diameter D [m]
+  double elevation_m = 0.0;       //!< Height of the impeller plane above the lowest point [m]
+  int blades = 6;                 //!< Number of blades [-]
+  double blade_height_m = 0.0;    //!< Axial extent of the swept band [m]
+  std::optional<double> power_number;       //!< User's turbulent Np [-]
+  std::optional<double> flow_number;        //!< User's pumping number Nq [-]
+  std::optional<double> gassed_power_factor;  //!< User's Pg/P0 [-], replaces the correlation
+  std::optional<double> circulation_factor;   //!< User's Qc/Qp entrainment ratio [-]
+};
+
+struct Sparger {
+  SpargerType type = SpargerType::ring;
+  double elevation_m = 0.0;  //!< Height above the lowest point [m]
+  double diameter_m = 0.0;   //!< Ring diameter, or outlet diameter of a pipe [m]
+};
+
+struct Operation {
+  double speed_rps = 0.0;          //!< Agitator speed N [1/s]
+  //! Dry inlet gas flow as normal volume (0 degC, 101325 Pa) [m3/s]; vvm refers to this basis.
+  double gas_flow_normal_m3_s = 0.0;
+  double oxygen_fraction = 0.20946;  //!< O2 mole fraction of the dry inlet gas [-]
+  double co2_fraction = 0.00042;     //!< CO2 mole fraction of the dry inlet gas [-]
+};
+
+struct Broth {
+  double density_kg_m3 = 1000.0;
+  double viscosity_pa_s = 1e-3;
+  Coalescence coalescence = Coalescence::coalescing;
+  std::map<std::string, double> ions_mol_m3;  //!< Ion concentrations for salting-out [mol/m3]
+};
+
+struct Culture {
+  double biomass_kg_m3 = 0.0;          //!< Dry biomass X [kg/m3]
+  double q_o2_max_mol_kg_s = 0.0;      //!< Maximum specific O2 uptake [mol/(kg s)]
+  double k_o2_mol_m3 = 0.0;            //!< Monod constant for O2 [mol/m3]
+  double critical_do_mol_m3 = 0.0;     //!< Critical dissolved O2 [mol/m3]
+  double rq = 1.0;                     //!< Respiratory quotient CER/OUR [-]
+};
+
+struct Grid {
+  int radial = 12;  //!< Requested radial zone count (alignment may add a few)
+  int axial = 40;   //!< Requested axial zone count
+};
+
+struct Output {
+  int sectors = 24;  //!< Angular sectors when the network is revolved for VTK
+};
+
+//! Model constants a user may calibrate; defaults and sources in README "Method".
+struct ModelConstants {
+  double exchange_constant = 0.0;       //!< c_t in D_t = c_t eps^(1/3) l^(4/3) [-]; 0 = default
+  double mixing_length_ratio = 0.0;     //!< l / T [-]; 0 = default
+  double discharge_power_share = 0.4;   //!< Share of an impeller's power dissipated in its swept volume [-]
+  double upper_gas_share = 0.5;         //!< Share of the local gas flow an upper impeller is loaded with [-]
+  double slip_velocity_m_s = 0.25;      //!< Bubble slip velocity in the drift-flux holdup [m/s]
+  KlaModel kla_model = KlaModel::local_correlation;
+  double kla_prefactor = 0.0;           //!< van 't Riet prefactor (SI); 0 = default for coalescence
+  double kla_power_exponent = 0.0;      //!< exponent on P/V; 0 = default
+  double kla_gas_exponent = 0.0;        //!< exponent on vs; 0 = default
+  double bubble_diameter_m = 0.0;       //!< Sauter mean diameter for the mechanistic model; 0 = default
+  double kla_factor = 1.0;              //!< User multiplier (antifoam, viscosity, particles) [-]
+  double multiple_impeller_factor = 1.0;  //!< Power-sum factor for close spacing [-]
+};
+
+struct Case {
+  std::string title;
+  Vessel vessel;
+  std::vector<Impeller> impellers;  //!< Bottom to top
+  Sparger sparger;
+  bool has_sparger = false;
+  Operation operation;
+  Broth broth;
+  Culture culture;
+  Grid grid;
+  Output output;
+  ModelConstants model;
+};
+
+std::string to_string(BottomShape s);
+std::string to_string(ImpellerType t);
+std::string to_string(SpargerType t);
+std::string to_string(Coalescence c);
+std::string to_string(KlaModel m);
+
+//! Radial impellers discharge outwards (two loops); axial ones pump through their disc (one loop).
+bool is_radial(ImpellerType t);
+//! -1 for impellers that pump down through their disc, +1 up, 0 for radial ones.
+int pumping_direction(ImpellerType t);
+
+}  // namespace oxystrat

@@ -1,0 +1,46 @@
+// Reads a TOML case file (plus --set overrides) into a checked Case. Every error names the file
+// and line (or the --set argument), the key, the value and what was expected.
+#pragma once
+
+#include <stdexcept>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "case/case.hpp"
+
+namespace oxystrat {
+
+//! Bad input; the message is complete and meant for the user as it is.
+class CaseError : public std::runtime_error {
+ public:
+  using std::runtime_error::runtime_error;
+};
+
+//! One `--set KEY=VALUE` argument.
+struct Override {
+  std::string key;    //!< dotted path, array elements by 0-based index: "impeller.2.type"
+  std::string value;  //!< as typed; parsed as a TOML value when it is one, else taken as a string
+  std::string raw;    //!< the whole argument, for messages
+};
+
+//! Splits "KEY=VALUE"; throws CaseError when there is no '=' or the key is empty.
+Override parse_override(std::string_view argument);
+
+struct LoadedCase {
+  Case data;
+  std::string file_name;
+  std::string source_text;     //!< the file as given
+  std::string effective_text;  //!< the case with overrides applied, as TOML
+  std::vector<std::string> overrides;  //!< the --set arguments, in order
+  std::vector<std::string> notes;      //!< warnings about the input (not errors)
+};
+
+//! Reads and checks a case file.
+LoadedCase read_case_file(const std::string& path, const std::vector<Override>& overrides = {});
+
+//! Reads and checks case text; `file_name` is used in messages only.
+LoadedCase read_case_text(const std::string& text, const std::string& file_name,
+                          const std::vector<Override>& overrides = {});
+
+}  // namespace oxystrat
