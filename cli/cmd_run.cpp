@@ -3,6 +3,8 @@
 
 #include "common.hpp"
 #include "h5_writer.hpp"
+#include "hydro_output.hpp"
+#include "hydrodynamics.hpp"
 #include "network_output.hpp"
 #include "run_folder.hpp"
 #include "text_summary.hpp"
@@ -25,14 +27,18 @@ void add_run_command(CLI::App& app) {
     const auto loaded = load_case(opts->case_opts);
     RunFolder folder(opts->out.out_dir, opts->out.force);
     const auto net = build_zone_geometry(loaded.data);
+    const auto hydro = compute_hydrodynamics(loaded.data, net);
     fmt::print("{}", geometry_summary(loaded, net));
+    fmt::print("{}", power_table(loaded.data, hydro));
     {
       H5Writer h5(folder.file("result.h5").string());
       write_case_h5(h5, loaded);
       write_network_h5(h5, net);
+      write_hydrodynamics_h5(h5, loaded.data, hydro);
       h5.close();
     }
-    const auto arrays = network_cell_arrays(net);
+    auto arrays = network_cell_arrays(net);
+    for (auto& a : hydrodynamics_cell_arrays(hydro)) arrays.push_back(std::move(a));
     write_zones_vtu(folder.file("zones.vtu").string(), net, loaded.data.output.sectors, arrays);
     write_section_vtu(folder.file("section.vtu").string(), net, arrays);
     folder.commit();

@@ -30,5 +30,6 @@ LoadedCase load_case(const CaseOptions& o);
 
 void add_run_command(CLI::App& app);
 void add_check_command(CLI::App& app);
+void add_mixing_command(CLI::App& app);
 
 }  // namespace oxystrat::cli

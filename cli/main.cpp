@@ -16,6 +16,7 @@ int main(int argc, char** argv) {
   app.require_subcommand(1, 1);
   oxystrat::cli::add_run_command(app);
   oxystrat::cli::add_check_command(app);
+  oxystrat::cli::add_mixing_command(app);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
