@@ -4,7 +4,8 @@
 #include "common.hpp"
 #include "h5_writer.hpp"
 #include "hydro_output.hpp"
-#include "hydrodynamics.hpp"
+#include "case_run.hpp"
+#include "oxygen_output.hpp"
 #include "network_output.hpp"
 #include "run_folder.hpp"
 #include "text_summary.hpp"
@@ -26,23 +27,28 @@ void add_run_command(CLI::App& app) {
   cmd->callback([opts] {
     const auto loaded = load_case(opts->case_opts);
     RunFolder folder(opts->out.out_dir, opts->out.force);
-    const auto net = build_zone_geometry(loaded.data);
-    const auto hydro = compute_hydrodynamics(loaded.data, net);
+    const auto run = run_case(loaded.data);
+    const auto& net = run.net;
+    const auto& hydro = run.hydro;
     fmt::print("{}", geometry_summary(loaded, net));
     fmt::print("{}", power_table(loaded.data, hydro));
+    fmt::print("{}", oxygen_summary(loaded.data, run));
     {
       H5Writer h5(folder.file("result.h5").string());
       write_case_h5(h5, loaded);
       write_network_h5(h5, net);
       write_hydrodynamics_h5(h5, loaded.data, hydro);
+      write_oxygen_h5(h5, loaded.data, run);
       h5.close();
     }
     auto arrays = network_cell_arrays(net);
     for (auto& a : hydrodynamics_cell_arrays(hydro)) arrays.push_back(std::move(a));
+    for (auto& a : oxygen_cell_arrays(run)) arrays.push_back(std::move(a));
+    write_profile_csv(folder.file("profile.csv").string(), run);
     write_zones_vtu(folder.file("zones.vtu").string(), net, loaded.data.output.sectors, arrays);
     write_section_vtu(folder.file("section.vtu").string(), net, arrays);
     folder.commit();
-    fmt::print("Wrote {}/result.h5, zones.vtu, section.vtu\n", folder.target().string());
+    fmt::print("Wrote {}/result.h5, zones.vtu, section.vtu, profile.csv\n", folder.target().string());
   });
 }
 

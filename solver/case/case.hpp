@@ -101,6 +101,8 @@ struct ModelConstants {
   double kla_gas_exponent = 0.0;        //!< exponent on vs; 0 = default
   double bubble_diameter_m = 0.0;       //!< Sauter mean diameter for the mechanistic model; 0 = default
   double kla_factor = 1.0;              //!< User multiplier (antifoam, viscosity, particles) [-]
+  //! Scale the local correlation so its volume mean equals the vessel-level correlation.
+  bool kla_normalise = true;
   double multiple_impeller_factor = 1.0;  //!< Power-sum factor for close spacing [-]
 };
 

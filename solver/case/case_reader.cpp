@@ -271,6 +271,7 @@ void read_numerics(TomlSource& src, Case& c) {
   m.kla_gas_exponent = src.number("model.kla_gas_exponent", {0.0, 1.5}).value_or(0.0);
   m.bubble_diameter_m = src.quantity_or("model.bubble_diameter", Dimension::length, {1e-4, 0.02}, 0.0);
   m.kla_factor = src.number("model.kla_factor", {0.01, 10.0}).value_or(1.0);
+  m.kla_normalise = src.boolean("model.kla_normalise").value_or(true);
   m.multiple_impeller_factor = src.number("model.multiple_impeller_factor", {0.3, 1.0}).value_or(1.0);
 }
 

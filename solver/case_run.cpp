@@ -1,0 +1,58 @@
+#include "case_run.hpp"
+
+#include <algorithm>
+#include <limits>
+
+#include "cautions.hpp"
+
+namespace oxystrat {
+
+CaseRun run_case(const Case& c, const CaseRunOptions& opts) {
+  CaseRun run;
+  run.net = build_zone_geometry(c);
+  run.hydro = compute_hydrodynamics(c, run.net);
+  run.routing = route_gas(c, run.net, run.hydro);
+  if (run.hydro.gas_molar_flow_mol_s <= 0.0) {
+    run.notes.push_back("no gas is sparged: hydrodynamics and mixing only; the oxygen field is not solved");
+    run.cautions = cautions(c, run.hydro, nullptr);
+    return run;
+  }
+  const OxygenContext ctx{c, run.net, run.hydro, run.routing};
+  run.field = solve_oxygen_field(ctx);
+
+  Case lumped = c;
+  lumped.grid.radial = lumped.grid.axial = 1;
+  const auto net1 = build_zone_geometry(lumped);
+  const auto hydro1 = compute_hydrodynamics(lumped, net1);
+  const auto routing1 = route_gas(lumped, net1, hydro1);
+  const OxygenContext ctx1{lumped, net1, hydro1, routing1};
+  run.single_zone = solve_oxygen_field(ctx1);
+  if (opts.supportable_biomass && c.culture.q_o2_max_mol_kg_s > 0.0) {
+    run.max_biomass_kg_m3 = max_supportable_biomass(ctx, *run.field);
+    run.max_biomass_single_zone_kg_m3 = max_supportable_biomass(ctx1, *run.single_zone);
+  }
+  run.cautions = cautions(c, run.hydro, &*run.field);
+  return run;
+}
+
+HeightProfile height_profile(const ZoneNetwork& net, const std::vector<double>& field) {
+  HeightProfile p;
+  const int rows = net.rows();
+  p.z.resize(rows);
+  p.min.assign(rows, std::numeric_limits<double>::infinity());
+  p.max.assign(rows, -std::numeric_limits<double>::infinity());
+  p.mean.assign(rows, 0.0);
+  std::vector<double> vol(rows, 0.0);
+  for (int j = 0; j < rows; ++j) p.z[j] = 0.5 * (net.z_lines[j] + net.z_lines[j + 1]);
+  for (int k = 0; k < net.size(); ++k) {
+    const int j = net.row[k];
+    p.min[j] = std::min(p.min[j], field[k]);
+    p.max[j] = std::max(p.max[j], field[k]);
+    p.mean[j] += field[k] * net.volume[k];
+    vol[j] += net.volume[k];
+  }
+  for (int j = 0; j < rows; ++j) p.mean[j] /= vol[j];
+  return p;
+}
+
+}  // namespace oxystrat

@@ -1,0 +1,71 @@
+// The steady oxygen field of a case: gas holdup, pressure, kLa and C* per zone, dissolved O2 and
+// CO2, uptake, off-gas; with the summary an engineer reads, and the largest biomass the
+// configuration carries with every zone above critical DO.
+#pragma once
+
+#include <Eigen/Core>
+#include <string>
+#include <vector>
+
+#include "case/case.hpp"
+#include "gas_routing.hpp"
+#include "hydrodynamics.hpp"
+#include "steady_problem.hpp"
+#include "zone_network.hpp"
+
+namespace oxystrat {
+
+//! Thrown when the steady solve fails; the message says what to try.
+class SolveError : public std::runtime_error {
+ public:
+  using std::runtime_error::runtime_error;
+};
+
+struct OxygenField {
+  // Per zone
+  std::vector<double> do_mol_m3;        //!< dissolved O2 [mol/m3]
+  std::vector<double> co2_mol_m3;       //!< dissolved CO2 [mol/m3]
+  std::vector<double> cstar_mol_m3;     //!< O2 saturation at the zone's gas [mol/m3]
+  std::vector<double> kla_1_s;          //!< O2 kLa [1/s]
+  std::vector<double> otr_mol_m3_s;     //!< O2 transfer rate [mol/(m3 s)]
+  std::vector<double> our_mol_m3_s;     //!< O2 uptake rate [mol/(m3 s)]
+  std::vector<double> holdup;           //!< gas holdup [-]
+  std::vector<double> superficial_gas_m_s;
+  std::vector<double> y_o2, y_co2;      //!< dry gas mole fractions [-]
+  std::vector<double> pco2_pa;          //!< CO2 partial pressure in equilibrium with the liquid [Pa]
+  std::vector<double> pressure_pa;      //!< absolute pressure with gas holdup [Pa]
+  std::vector<double> do_saturation;    //!< DO / air saturation at 1 atm and broth temperature [-]
+  // Summary
+  double kla_mean_1_s = 0.0;            //!< volume-average kLa [1/s]
+  double kla_vessel_1_s = 0.0;          //!< vessel-level correlation at Pg/V and mid-height vs [1/s]
+  double do_min = 0.0, do_mean = 0.0;   //!< [mol/m3]
+  int do_min_zone = 0;
+  double volume_fraction_below_critical = 0.0;
+  double offgas_y_o2 = 0.0, offgas_y_co2 = 0.0;
+  double otr_total_mol_s = 0.0;
+  double our_total_mol_s = 0.0;
+  double o2_in_mol_s = 0.0, o2_out_mol_s = 0.0;
+  double o2_balance_error = 0.0;        //!< (in - out - sum OTR V) / in [-]
+  double pco2_max_pa = 0.0;
+  double air_saturation_mol_m3 = 0.0;   //!< C* of air at 1 atm, broth temperature and salts
+  int newton_iterations = 0;
+  int outer_iterations = 0;
+  Eigen::VectorXd state;                //!< solver state, for warm starts
+};
+
+struct OxygenContext {
+  const Case& c;
+  const ZoneNetwork& net;
+  const Hydrodynamics& hydro;
+  const GasRouting& routing;
+};
+
+//! Steady field at biomass `biomass_kg_m3` (the case's own when negative). `warm` may hold a
+//! previous field of the same network to start from. Throws SolveError on failure.
+OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3 = -1.0, const OxygenField* warm = nullptr);
+
+//! Largest biomass [kg/m3] with every zone at or above culture.critical_do (0 when even no
+//! culture fails, +inf capped at 1000 kg/m3 when nothing limits). `field_at_case` seeds the search.
+double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& field_at_case);
+
+}  // namespace oxystrat

@@ -1,0 +1,66 @@
+// The steady O2 / CO2 balances of every zone, liquid and gas, as one SteadyProblem.
+// State per zone k (4 unknowns, interleaved): C_O2, C_CO2 [mol/m3] in the liquid; n_O2, n_CO2
+// [mol/s] of gas leaving the zone. The inert gas flow of each zone is fixed by the routing.
+//   liquid O2:  sum_j L_kj C_j + T_k (K_k y_k - C_k) - OUR(C_k) V_k = 0
+//   liquid CO2: sum_j L_kj D_j + S_k (Q_k x_k - D_k) + RQ OUR(C_k) V_k = 0
+//   gas O2:     n_O2,in,k - n_O2,k - T_k (K_k y_k - C_k) = 0
+//   gas CO2:    n_CO2,in,k - n_CO2,k - S_k (Q_k x_k - D_k) = 0
+// with T = kLa V, K = C* per unit O2 mole fraction (Henry x salting-out x (p - p_water)),
+// y = n_O2 / (n_O2 + n_CO2 + n_inert), and likewise for CO2 (S, Q, x, D).
+#pragma once
+
+#include <vector>
+
+#include "gas_routing.hpp"
+#include "steady_problem.hpp"
+#include "transport.hpp"
+#include "zone_network.hpp"
+
+namespace oxystrat {
+
+//! Everything the balances need per zone, fixed during one Newton solve.
+struct TransferCoefficients {
+  std::vector<double> transfer_o2;       //!< kLa_O2 V [m3/s]
+  std::vector<double> transfer_co2;      //!< kLa_CO2 V [m3/s]
+  std::vector<double> cstar_per_y_o2;    //!< C*_O2 per unit dry-gas O2 fraction [mol/m3]
+  std::vector<double> cstar_per_y_co2;   //!< C*_CO2 per unit dry-gas CO2 fraction [mol/m3]
+  std::vector<double> inert_flow;        //!< inert gas leaving each zone [mol/s]
+};
+
+struct Uptake {
+  double rate_mol_m3_s = 0.0;  //!< q_O2,max X [mol/(m3 s)]
+  double k_o2_mol_m3 = 0.0;
+  double rq = 1.0;
+  //! OUR at dissolved O2 c [mol/(m3 s)] (Monod; zero for c <= 0).
+  double our(double c) const { return c > 0.0 ? rate_mol_m3_s * c / (k_o2_mol_m3 + c) : 0.0; }
+  double dour(double c) const {
+    return c > 0.0 ? rate_mol_m3_s * k_o2_mol_m3 / ((k_o2_mol_m3 + c) * (k_o2_mol_m3 + c)) : 0.0;
+  }
+};
+
+class OxygenProblem : public SteadyProblem {
+ public:
+  OxygenProblem(const ZoneNetwork& net, const GasRouting& routing, const SparseMatrix& transport,
+                const TransferCoefficients& coeff, const Uptake& uptake, double inlet_o2_mol_s,
+                double inlet_co2_mol_s);
+  int size() const override { return 4 * n_; }
+  void residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const override;
+  void jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const override;
+  double residual_scale() const override { return scale_; }
+
+ private:
+  struct Inflow {
+    int from;
+    double share;
+  };
+  const ZoneNetwork& net_;
+  const SparseMatrix& transport_;
+  const TransferCoefficients& coeff_;
+  Uptake uptake_;
+  double inlet_o2_, inlet_co2_;
+  int n_;
+  double scale_;
+  std::vector<std::vector<Inflow>> inflows_;  //!< gas links into each zone
+};
+
+}  // namespace oxystrat

@@ -1,0 +1,38 @@
+// The narrow boundary between physics and the Newton solver: a steady problem is its size, its
+// residual and its analytic Jacobian. The solver sees nothing else.
+#pragma once
+
+#include <Eigen/Core>
+#include <Eigen/Sparse>
+#include <vector>
+
+namespace oxystrat {
+
+class SteadyProblem {
+ public:
+  virtual ~SteadyProblem() = default;
+  virtual int size() const = 0;
+  virtual void residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const = 0;
+  virtual void jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const = 0;
+  //! Residual magnitude that counts as zero for each equation (same units as the residual).
+  virtual double residual_scale() const = 0;
+};
+
+struct NewtonOptions {
+  int max_iterations = 60;
+  double tolerance = 1e-12;  //!< max |r_i| / residual_scale() at convergence
+};
+
+struct NewtonReport {
+  bool converged = false;
+  int iterations = 0;
+  double residual = 0.0;  //!< final max |r_i| / residual_scale()
+};
+
+//! Damped Newton with the variables kept >= 0 (projection and backtracking on max |r|).
+NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const NewtonOptions& opts = {});
+
+//! Central finite-difference Jacobian, for tests of the analytic one only.
+Eigen::MatrixXd finite_difference_jacobian(const SteadyProblem& p, const Eigen::VectorXd& x, double rel_step = 1e-6);
+
+}  // namespace oxystrat
