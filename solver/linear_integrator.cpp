@@ -41,7 +41,7 @@ void LinearImplicitIntegrator::run(Eigen::VectorXd& c, double t_end,
       const double tol = atol_ * scale_ + rtol_ * std::abs(half[i]);
       err = std::max(err, std::abs(half[i] - full[i]) / tol);
     }
-    if (err > 1.0 && level > min_level) {
+    if (!fixed_ && err > 1.0 && level > min_level) {
       --level;
       ++stats_.rejected;
       continue;
@@ -50,7 +50,7 @@ void LinearImplicitIntegrator::run(Eigen::VectorXd& c, double t_end,
     t += step_size(level);
     ++stats_.steps;
     if (!on_step(t, c)) return;
-    if (err < 0.2 && level < max_level) ++level;  // error ~ h^2: doubling h keeps it below 0.8
+    if (!fixed_ && err < 0.2 && level < max_level) ++level;  // error ~ h^2: doubling h keeps it below 0.8
   }
 }
 

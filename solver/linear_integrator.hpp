@@ -28,6 +28,8 @@ class LinearImplicitIntegrator {
   void run(Eigen::VectorXd& c, double t_end, const std::function<bool(double, const Eigen::VectorXd&)>& on_step);
 
   const IntegratorStats& stats() const { return stats_; }
+  //! Keep the initial step size throughout (for order-of-accuracy tests).
+  void fix_step(bool fixed) { fixed_ = fixed; }
 
  private:
   using Lu = Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>>;
@@ -40,6 +42,7 @@ class LinearImplicitIntegrator {
   double rtol_, atol_, scale_;
   std::map<int, std::unique_ptr<Lu>> lu_;
   IntegratorStats stats_;
+  bool fixed_ = false;
 };
 
 }  // namespace oxystrat

@@ -1,0 +1,24 @@
+// Prints our property functions and unit conversions as CSV, for tests/scripts/reference_libraries.py
+// to compare with independent libraries (TEOS-10 gsw, IAPWS-IF97 iapws, pint).
+#include <fmt/format.h>
+
+#include "case/units.hpp"
+#include "physics/solubility.hpp"
+
+int main() {
+  using namespace oxystrat;
+  fmt::print("# properties: temperature [K], O2 saturation with air at 1 atm [mol/m3], water vapour pressure [Pa]\n");
+  for (double t_c = 0.0; t_c <= 40.0; t_c += 5.0) {
+    const double t = t_c + 273.15;
+    fmt::print("property,{:.2f},{:.10g},{:.10g}\n", t, physics::o2_saturation_air_1atm(t), physics::water_vapour_pressure(t));
+  }
+  fmt::print("# units: text, SI value, SI unit\n");
+  const std::pair<const char*, units::Dimension> quantities[] = {
+      {"14.7 psi(a)", units::Dimension::pressure}, {"760 mmHg(a)", units::Dimension::pressure},
+      {"0.5 bar(g)", units::Dimension::pressure},  {"3 ft", units::Dimension::length},
+      {"40 in", units::Dimension::length},         {"120 rpm", units::Dimension::speed},
+      {"2.5 cP", units::Dimension::viscosity},     {"300 L", units::Dimension::volume},
+      {"8 mmol/g/h", units::Dimension::specific_rate}, {"37 degC", units::Dimension::temperature},
+      {"1.2 g/cm3", units::Dimension::density}};
+  for (const auto& [text, dim] : quantities) fmt::print("unit,{},{:.12g}\n", text, units::parse(dim, text));
+}
