@@ -48,7 +48,7 @@ void add_run_command(CLI::App& app) {
     write_zones_vtu(folder.file("zones.vtu").string(), net, loaded.data.output.sectors, arrays);
     write_section_vtu(folder.file("section.vtu").string(), net, arrays);
     folder.commit();
-    fmt::print("Wrote {}/result.h5, zones.vtu, section.vtu, profile.csv\n", folder.target().string());
+    fmt::print("Wrote {}/result.h5, zones.vtu, section.vtu{}\n", folder.target().string(), run.field ? ", profile.csv" : "");
   });
 }
 

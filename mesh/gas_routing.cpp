@@ -17,38 +17,37 @@ GasRouting route_gas(const Case& /*c*/, const ZoneNetwork& net, const Hydrodynam
     const int above = net.row[k] + 1 < net.rows() ? net.zone_at(net.column[k], net.row[k] + 1) : -1;
     g.out[k].push_back({above, 1.0});
   }
-  // Swept zones of non-flooded impellers spread their gas uniformly (by area) over their row out
-  // to the impeller's reach; the swept columns' part keeps rising from the swept zones themselves.
+  // A non-flooded impeller (loaded or completely dispersed) draws the gas rising into its lowest
+  // blade row and disperses it to the wall: every zone of that row sends its gas to the row above,
+  // spread uniformly by area. The recirculation below a completely dispersing impeller is not
+  // routed (a conservative choice for the bottom region).
+  std::vector<int> lowest_row(h.impellers.size(), net.rows());
   for (int k = 0; k < nz; ++k) {
     const int m = net.region[k].discharge;
-    if (m < 0) continue;
+    if (m >= 0) lowest_row[m] = std::min(lowest_row[m], net.row[k]);
+  }
+  for (size_t m = 0; m < h.impellers.size(); ++m) {
     const auto regime = h.impellers[m].regime;
-    if (regime == GasRegime::flooded || regime == GasRegime::ungassed) continue;
-    // Loaded and completely dispersed both carry the gas to the wall above the impeller; the
-    // recirculation below it in complete dispersion is not routed (a conservative choice).
-    const double reach = net.shape.radius();
-    std::vector<GasLink> links{{g.out[k].front().to, 0.0}};
+    const int row = lowest_row[m];
+    if (regime == GasRegime::flooded || regime == GasRegime::ungassed || row + 1 >= net.rows()) continue;
+    std::vector<GasLink> spread;
     double total = 0.0;
     for (int col = 0; col < net.columns(); ++col) {
-      const int z = net.zone_at(col, net.row[k]);
-      if (z < 0 || net.r0[z] >= reach - 1e-12) continue;
-      total += g.area[z];
-      if (net.region[z].discharge == m) {
-        links.front().share += g.area[z];
-      } else {
-        links.push_back({z, g.area[z]});
-      }
+      const int above = net.zone_at(col, row + 1);
+      if (above < 0) continue;
+      spread.push_back({above, g.area[above]});
+      total += g.area[above];
     }
-    for (auto& l : links) l.share /= total;
-    g.out[k] = links;
+    for (auto& l : spread) l.share /= total;
+    for (int col = 0; col < net.columns(); ++col) {
+      const int k = net.zone_at(col, row);
+      if (k >= 0) g.out[k] = spread;
+    }
   }
-  // Order: rows from the bottom; within a row, swept zones (which feed their row) first.
+  // Order: rows from the bottom (gas only moves up).
   g.order.resize(nz);
   std::iota(g.order.begin(), g.order.end(), 0);
-  std::stable_sort(g.order.begin(), g.order.end(), [&](int a, int b) {
-    if (net.row[a] != net.row[b]) return net.row[a] < net.row[b];
-    return (net.region[a].discharge >= 0) > (net.region[b].discharge >= 0);
-  });
+  std::stable_sort(g.order.begin(), g.order.end(), [&](int a, int b) { return net.row[a] < net.row[b]; });
   return g;
 }
 

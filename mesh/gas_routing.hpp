@@ -1,6 +1,7 @@
 // Where the gas goes: sparged gas enters the sparger zones and rises column by column; an impeller
-// that is not flooded (loaded or completely dispersed) spreads the gas reaching its swept volume
-// across its blade rows out to the wall, by area. A flooded impeller lets it rise as a plume. The routing is a directed acyclic graph, listed in
+// that is not flooded (loaded or completely dispersed) takes the gas rising into its lowest blade
+// row and spreads it over the row above out to the wall, by area. A flooded impeller lets it rise
+// as a plume. The routing is a directed acyclic graph, listed in
 // an order in which every zone comes after all zones that send it gas.
 #pragma once
 

@@ -8,8 +8,12 @@
 namespace oxystrat {
 namespace fs = std::filesystem;
 
-RunFolder::RunFolder(fs::path target, bool force) : target_(std::move(target)), force_(force) {
+RunFolder::RunFolder(fs::path target, bool force) : target_(target.lexically_normal()), force_(force) {
   if (target_.empty()) throw std::runtime_error("no output folder given (--out DIR)");
+  if (!target_.has_filename()) target_ = target_.parent_path();  // "res/" names the folder "res"
+  if (target_.empty() || target_ == "." || target_ == "..") {
+    throw std::runtime_error("output folder '" + target.string() + "' must name a new folder, not the current or parent one");
+  }
   if (fs::exists(target_) && !force_) {
     throw std::runtime_error("output folder " + target_.string() +
                              " exists; choose another --out or add --force to replace it");
@@ -21,7 +25,8 @@ RunFolder::RunFolder(fs::path target, bool force) : target_(std::move(target)), 
   std::error_code ec;
   fs::create_directories(parent, ec);
   if (ec) throw std::runtime_error("cannot create " + parent.string() + ": " + ec.message());
-  staging_ = parent / (target_.filename().string() + ".partial-" + std::to_string(::getpid()));
+  static int counter = 0;  // several run folders in one process (sweeps) get their own staging
+  staging_ = parent / (target_.filename().string() + ".partial-" + std::to_string(::getpid()) + "-" + std::to_string(counter++));
   fs::remove_all(staging_, ec);
   fs::create_directory(staging_, ec);
   if (ec) throw std::runtime_error("cannot create " + staging_.string() + ": " + ec.message());

@@ -44,7 +44,8 @@ void write_grid(const std::string& path, vtkUnstructuredGrid* grid) {
   writer->SetInputData(grid);
   writer->SetDataModeToAppended();
   writer->SetCompressorTypeToZLib();
-  if (writer->Write() != 1) throw std::runtime_error("cannot write " + path);
+  // VTK 9.1 returns 1 from Write() even when the file could not be opened: check the error code.
+  if (writer->Write() != 1 || writer->GetErrorCode() != 0) throw std::runtime_error("cannot write " + path);
 }
 
 }  // namespace

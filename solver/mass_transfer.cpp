@@ -1,12 +1,13 @@
 #include "mass_transfer.hpp"
 
+#include <algorithm>
 #include <cmath>
 
 #include "physics/solubility.hpp"
 
 namespace oxystrat {
 
-double drift_flux_holdup(double j, double u_slip) { return j > 0.0 ? j / (j + u_slip) : 0.0; }
+double drift_flux_holdup(double j, double u_slip) { return j > 0.0 ? std::min(max_holdup, j / (j + u_slip)) : 0.0; }
 
 VantRietConstants vant_riet_constants(Coalescence c, const ModelConstants& m) {
   VantRietConstants k = c == Coalescence::coalescing ? VantRietConstants{0.026, 0.4, 0.5}

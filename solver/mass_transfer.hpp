@@ -6,8 +6,11 @@
 namespace oxystrat {
 
 //! Drift-flux gas holdup eps_G = j_G / (j_G + u_slip) [-] for superficial gas velocity j_G [m/s]
-//! (Zuber & Findlay 1965 form with distribution parameter 1 and zero net liquid flux).
+//! (Zuber & Findlay 1965 form with distribution parameter 1 and zero net liquid flux), capped at
+//! max_holdup: beyond ~0.3 bubbly flow gives way to churning plumes that spread sideways, which a
+//! zone column cannot represent (our modelling choice; typical stirred-tank holdups are 0.05-0.25).
 double drift_flux_holdup(double superficial_gas_m_s, double slip_velocity_m_s);
+inline constexpr double max_holdup = 0.3;
 
 struct VantRietConstants {
   double prefactor;       //!< SI: kLa [1/s], P/V [W/m3], vs [m/s]

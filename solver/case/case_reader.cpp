@@ -2,6 +2,7 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 #include <fstream>
 #include <numbers>
@@ -68,7 +69,7 @@ double read_gas_flow(TomlSource& src, const std::string& path, const Vessel& v) 
                                   {"Nm3/s", 1.0, true},          {"NL/min", 1e-3 / 60, true},
                                   {"m3/h", 1.0 / 3600, false},   {"m3/min", 1.0 / 60, false},
                                   {"m3/s", 1.0, false},          {"L/min", 1e-3 / 60, false}};
-  double normal_m3_s = -1.0;
+  double normal_m3_s = 0.0;
   if (q.unit == "vvm") normal_m3_s = q.value * v.working_volume_m3 / 60.0;
   for (const auto& u : table) {
     if (q.unit != u.name) continue;
@@ -77,7 +78,8 @@ double read_gas_flow(TomlSource& src, const std::string& path, const Vessel& v) 
                            : flow * (v.head_pressure_pa / units::standard_atmosphere_pa) *
                                  (units::zero_celsius_k / v.temperature_k);
   }
-  if (normal_m3_s < 0.0 && q.value >= 0.0) {
+  const bool known = q.unit == "vvm" || std::any_of(std::begin(table), std::end(table), [&](const GasUnit& u) { return q.unit == u.name; });
+  if (!known) {
     src.fail(path, fmt::format("{} unit '{}'; expected vvm, Nm3/h, Nm3/min, Nm3/s, NL/min (normal: 0 degC, "
                                "1 atm), or m3/h, m3/min, m3/s, L/min (actual, at head pressure and broth "
                                "temperature)",
@@ -304,7 +306,7 @@ void check_geometry(const TomlSource& src, const Case& c, std::vector<std::strin
     const double floor = shape.bottom_height(0.5 * imp.diameter_m);
     if (band_lo <= floor) {
       src.fail(p + "elevation", fmt::format("the impeller blades reach down to {:.4g} m, into the vessel bottom "
-                                            "(at {:.4g} m below the blade tips); raise it",
+                                            "(the head surface is {:.4g} m high at the blade-tip radius); raise it",
                                             band_lo, floor));
     }
     if (i > 0) {
@@ -329,6 +331,10 @@ void check_geometry(const TomlSource& src, const Case& c, std::vector<std::strin
   }
   if (c.has_sparger) {
     const double rs = 0.5 * c.sparger.diameter_m;
+    if (c.sparger.elevation_m >= c.vessel.liquid_height_m) {
+      src.fail("sparger.elevation", fmt::format("the sparger at {:.4g} m is not below the liquid surface at {:.4g} m",
+                                                c.sparger.elevation_m, c.vessel.liquid_height_m));
+    }
     if (c.sparger.elevation_m <= shape.bottom_height(rs)) {
       src.fail("sparger.elevation", fmt::format("the sparger at {:.4g} m lies in the vessel bottom (the head surface "
                                                 "is at {:.4g} m at its radius {:.4g} m)",

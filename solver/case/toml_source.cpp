@@ -30,6 +30,11 @@ bool is_index(const std::string& s) {
 
 std::string value_text(const toml::node& n) {
   if (const auto* s = n.as_string()) return fmt::format("\"{}\"", s->get());
+  if (const auto* f = n.as_floating_point()) {  // shortest round trip, still reading as a float
+    auto t = fmt::format("{}", f->get());
+    if (t.find_first_of(".eEn") == std::string::npos) t += ".0";
+    return t;
+  }
   std::ostringstream os;
   n.visit([&](auto&& v) { os << v; });
   return os.str();
@@ -87,9 +92,10 @@ void TomlSource::apply(const Override& o) {
   std::string walked;
   for (size_t i = 0; i + 1 < parts.size(); ++i) {
     const auto& p = parts[i];
+    const std::string parent = walked;
     walked += (walked.empty() ? "" : ".") + p;
     if (auto* arr = container->as_array()) {
-      if (!is_index(p)) throw CaseError(fmt::format("--set '{}': '{}' is a list; give an index (0-based)", o.raw, walked));
+      if (!is_index(p)) throw CaseError(fmt::format("--set '{}': '{}' is a list; give an index (0-based)", o.raw, parent));
       const size_t idx = std::stoul(p);
       if (idx >= arr->size()) {
         throw CaseError(fmt::format("--set '{}': '{}' does not exist; the case has {} entries (0 to {})",
@@ -100,11 +106,19 @@ void TomlSource::apply(const Override& o) {
       if (!tbl->contains(p)) tbl->insert(p, toml::table{});
       container = tbl->get(p);
     } else {
-      throw CaseError(fmt::format("--set '{}': '{}' is a value, not a table", o.raw, walked));
+      throw CaseError(fmt::format("--set '{}': '{}' is a value, not a table", o.raw, parent));
     }
   }
+  const std::string parent = o.key.substr(0, o.key.size() - parts.back().size() - (parts.size() > 1 ? 1 : 0));
+  if (container->is_array()) {
+    if (is_index(parts.back())) {
+      throw CaseError(fmt::format("--set '{}': cannot set an element of a list by value; set its keys, e.g. {}.type",
+                                  o.raw, o.key));
+    }
+    throw CaseError(fmt::format("--set '{}': '{}' is a list; give an index (0-based)", o.raw, parent));
+  }
   auto* tbl = container->as_table();
-  if (tbl == nullptr) throw CaseError(fmt::format("--set '{}': cannot set an element of a list by value", o.raw));
+  if (tbl == nullptr) throw CaseError(fmt::format("--set '{}': '{}' is a value, not a table", o.raw, parent));
   if (is_toml) {
     parsed.get("v")->visit([&](auto&& v) { tbl->insert_or_assign(parts.back(), v); });
   } else {
@@ -163,7 +177,22 @@ void TomlSource::fail(const std::string& path, const std::string& message) const
 }
 
 void TomlSource::missing(const std::string& path, const std::string& what) const {
-  throw CaseError(fmt::format("{}: missing key {} ({})", file_, path, what));
+  // Name the table's line, and a sibling key that looks like a misspelling of the missing one.
+  const auto dot = path.rfind('.');
+  const std::string parent = dot == std::string::npos ? "" : path.substr(0, dot);
+  const std::string leaf = dot == std::string::npos ? path : path.substr(dot + 1);
+  std::string place = file_;
+  std::string hint;
+  if (const auto* t = parent.empty() ? &root_ : (find(parent) ? find(parent)->as_table() : nullptr); t != nullptr) {
+    if (!parent.empty() && t->source().begin.line > 0) place = fmt::format("{}:{}", file_, t->source().begin.line);
+    for (const auto& [k, v] : *t) {
+      const std::string key(k.str());
+      if (key != leaf && edit_distance(key, leaf) <= 3) {
+        hint = fmt::format("; line {} has '{}': a misspelling?", v.source().begin.line, key);
+      }
+    }
+  }
+  throw CaseError(fmt::format("{}: missing key {} ({}){}", place, path, what, hint));
 }
 
 void TomlSource::range_check(const std::string& path, double si, units::Dimension dim, Range range) const {
@@ -281,7 +310,15 @@ void TomlSource::walk_unknown(const toml::table& t, const std::string& prefix) c
       const auto d = edit_distance(g, known);
       if (d < best_d) best_d = d, best = known;
     }
-    std::string hint = best.empty() ? "" : fmt::format("; did you mean {}?", best);
+    // Put the element's own index back where the known key has '#'.
+    const auto actual = split_path(path);
+    auto known_parts = split_path(best);
+    for (size_t i = 0; i < known_parts.size() && i < actual.size(); ++i) {
+      if (known_parts[i] == "#") known_parts[i] = actual[i];
+    }
+    std::string suggestion;
+    for (const auto& p : known_parts) suggestion += (suggestion.empty() ? "" : ".") + p;
+    std::string hint = best.empty() ? "" : fmt::format("; did you mean {}?", suggestion);
     fail(path, "unknown key" + hint + " (README.md, 'Case-file reference', lists every key)");
   }
 }

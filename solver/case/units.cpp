@@ -122,14 +122,15 @@ double to_si(Dimension dim, const Split& q, double molar_mass_kg_mol) {
   std::string unit = q.unit;
   double offset_pa = 0.0;
   if (dim == Dimension::pressure) {
-    const bool absolute = unit.size() > 3 && unit.compare(unit.size() - 3, 3, "(a)") == 0;
-    const bool gauge = unit.size() > 3 && unit.compare(unit.size() - 3, 3, "(g)") == 0;
+    const bool absolute = unit.size() >= 3 && unit.compare(unit.size() - 3, 3, "(a)") == 0;
+    const bool gauge = unit.size() >= 3 && unit.compare(unit.size() - 3, 3, "(g)") == 0;
     if (!absolute && !gauge) {
       throw UnitError(fmt::format("pressure unit '{}' must say (a) for absolute or (g) for gauge, "
                                   "e.g. '1.5 bar(a)' or '0.5 bar(g)'",
                                   unit));
     }
     unit = fold_spaces(std::string_view(unit).substr(0, unit.size() - 3));
+    if (unit.empty()) throw UnitError(fmt::format("missing unit before '{}'; expected one of {}", q.unit, accepted(dim)));
     if (gauge) offset_pa = standard_atmosphere_pa;
   }
   if (dim == Dimension::concentration && (unit == "mg/L" || unit == "g/m3")) {
@@ -152,14 +153,14 @@ std::string display_unit(Dimension dim) {
   return dim == Dimension::pressure ? name + "(a)" : name;
 }
 
-double to_display(Dimension dim, double si_value) {
+double to_display(Dimension dim, double value_in_si) {
   const auto& u = table(dim).front();
-  return (si_value - u.offset) / u.factor;
+  return (value_in_si - u.offset) / u.factor;
 }
 
-std::string format(Dimension dim, double si_value, int digits) {
+std::string format(Dimension dim, double value_in_si, int digits) {
   const std::string unit = display_unit(dim);
-  const double v = to_display(dim, si_value);
+  const double v = to_display(dim, value_in_si);
   return unit.empty() ? fmt::format("{:.{}g}", v, digits) : fmt::format("{:.{}g} {}", v, digits, unit);
 }
 

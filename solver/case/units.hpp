@@ -58,10 +58,10 @@ std::string accepted(Dimension dim);
 std::string display_unit(Dimension dim);
 
 //! SI value converted to display_unit(dim).
-double to_display(Dimension dim, double si_value);
+double to_display(Dimension dim, double value_in_si);
 
 //! "12.3 rpm": SI value formatted in the display unit with `digits` significant digits.
-std::string format(Dimension dim, double si_value, int digits = 4);
+std::string format(Dimension dim, double value_in_si, int digits = 4);
 
 //! Standard atmosphere [Pa]; the reference for gauge pressures.
 inline constexpr double standard_atmosphere_pa = 101325.0;
