@@ -6,6 +6,7 @@
 #include "hydro_output.hpp"
 #include "case_run.hpp"
 #include "oxygen_output.hpp"
+#include "report.hpp"
 #include "network_output.hpp"
 #include "run_folder.hpp"
 #include "text_summary.hpp"
@@ -45,10 +46,12 @@ void add_run_command(CLI::App& app) {
     for (auto& a : hydrodynamics_cell_arrays(hydro)) arrays.push_back(std::move(a));
     for (auto& a : oxygen_cell_arrays(run)) arrays.push_back(std::move(a));
     write_profile_csv(folder.file("profile.csv").string(), run);
+    write_text_file(folder.file("report.html").string(),
+                    report_page("oxystrat: " + loaded.data.title, run_report_body(loaded.data, run, std::nullopt)));
     write_zones_vtu(folder.file("zones.vtu").string(), net, loaded.data.output.sectors, arrays);
     write_section_vtu(folder.file("section.vtu").string(), net, arrays);
     folder.commit();
-    fmt::print("Wrote {}/result.h5, zones.vtu, section.vtu{}\n", folder.target().string(), run.field ? ", profile.csv" : "");
+    fmt::print("Wrote {}/result.h5, zones.vtu, section.vtu, report.html{}\n", folder.target().string(), run.field ? ", profile.csv" : "");
   });
 }
 

@@ -31,5 +31,7 @@ LoadedCase load_case(const CaseOptions& o);
 void add_run_command(CLI::App& app);
 void add_check_command(CLI::App& app);
 void add_mixing_command(CLI::App& app);
+void add_compare_command(CLI::App& app);
+void add_sweep_command(CLI::App& app);
 
 }  // namespace oxystrat::cli

@@ -17,6 +17,8 @@ int main(int argc, char** argv) {
   oxystrat::cli::add_run_command(app);
   oxystrat::cli::add_check_command(app);
   oxystrat::cli::add_mixing_command(app);
+  oxystrat::cli::add_compare_command(app);
+  oxystrat::cli::add_sweep_command(app);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

@@ -61,7 +61,7 @@ void H5Writer::close() {
 void H5Writer::write_numeric(const std::string& path, hid_t type, const void* data, int rank, const hsize_t* dims,
                              const std::string& units) {
   const hid_t space = rank == 0 ? H5Screate(H5S_SCALAR) : H5Screate_simple(rank, dims, nullptr);
-  const hid_t set = checked(H5Dcreate2(file_, path.c_str(), type, space, link_props_, H5P_DEFAULT, H5P_DEFAULT),
+  const hid_t set = checked(H5Dcreate2(file_, full(path).c_str(), type, space, link_props_, H5P_DEFAULT, H5P_DEFAULT),
                             "create dataset " + path);
   bool empty = false;
   for (int i = 0; i < rank; ++i) empty = empty || dims[i] == 0;
@@ -95,7 +95,7 @@ void H5Writer::write(const std::string& path, double value, const std::string& u
 void H5Writer::write(const std::string& path, const std::string& text) {
   const hid_t type = string_type();
   const hid_t space = H5Screate(H5S_SCALAR);
-  const hid_t set = checked(H5Dcreate2(file_, path.c_str(), type, space, link_props_, H5P_DEFAULT, H5P_DEFAULT),
+  const hid_t set = checked(H5Dcreate2(file_, full(path).c_str(), type, space, link_props_, H5P_DEFAULT, H5P_DEFAULT),
                             "create dataset " + path);
   const char* p = text.c_str();
   check(H5Dwrite(set, type, H5S_ALL, H5S_ALL, H5P_DEFAULT, &p), "write " + path);
@@ -109,7 +109,7 @@ void H5Writer::write(const std::string& path, const std::vector<std::string>& te
   const hid_t type = string_type();
   const hsize_t n = texts.size();
   const hid_t space = H5Screate_simple(1, &n, nullptr);
-  const hid_t set = checked(H5Dcreate2(file_, path.c_str(), type, space, link_props_, H5P_DEFAULT, H5P_DEFAULT),
+  const hid_t set = checked(H5Dcreate2(file_, full(path).c_str(), type, space, link_props_, H5P_DEFAULT, H5P_DEFAULT),
                             "create dataset " + path);
   std::vector<const char*> ptrs;
   for (const auto& t : texts) ptrs.push_back(t.c_str());
@@ -121,7 +121,7 @@ void H5Writer::write(const std::string& path, const std::vector<std::string>& te
 }
 
 void H5Writer::attribute(const std::string& object, const std::string& name, const std::string& value) {
-  const hid_t obj = checked(H5Oopen(file_, object.c_str(), H5P_DEFAULT), "open " + object);
+  const hid_t obj = checked(H5Oopen(file_, full(object).c_str(), H5P_DEFAULT), "open " + full(object));
   string_attribute(obj, name, value);
   H5Oclose(obj);
 }

@@ -29,11 +29,15 @@ class H5Writer {
   void attribute(const std::string& object, const std::string& name, const std::string& value);
   //! Closes the file; errors surface here rather than in the destructor.
   void close();
+  //! Puts every following path under `group` (e.g. "/cases/pilot"); "" for the file root.
+  void set_prefix(const std::string& group) { prefix_ = group; }
 
  private:
   hid_t file_ = -1;
   hid_t link_props_ = -1;
   std::string path_;
+  std::string prefix_;
+  std::string full(const std::string& path) const { return prefix_ + path; }
   void write_numeric(const std::string& path, hid_t type, const void* data, int rank, const hsize_t* dims,
                      const std::string& units);
 };

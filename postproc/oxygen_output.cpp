@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <cmath>
 #include <fstream>
 #include <stdexcept>
 
@@ -12,6 +13,11 @@ namespace oxystrat {
 namespace {
 
 constexpr double kMmHg = 133.322387415;
+
+std::vector<double> zero_where_nan(std::vector<double> v) {
+  for (auto& x : v) x = std::isnan(x) ? 0.0 : x;
+  return v;
+}
 
 std::vector<double> scaled(const std::vector<double>& v, double factor) {
   std::vector<double> out(v.size());
@@ -92,8 +98,11 @@ void write_oxygen_h5(H5Writer& h5, const Case& c, const CaseRun& run) {
   h5.write("/profile/do_min", p.min, "mol/m3");
   h5.write("/profile/do_mean", p.mean, "mol/m3");
   h5.write("/profile/do_max", p.max, "mol/m3");
-  const auto ps = height_profile(run.net, f.cstar_mol_m3);
-  h5.write("/profile/cstar_mean", ps.mean, "mol/m3");
+  std::vector<bool> gassed(f.holdup.size());
+  for (size_t k = 0; k < gassed.size(); ++k) gassed[k] = f.holdup[k] > 0.0;
+  const auto ps = height_profile(run.net, f.cstar_mol_m3, gassed);
+  h5.write("/profile/cstar_mean", zero_where_nan(ps.mean), "mol/m3");
+  h5.attribute("/profile/cstar_mean", "meaning", "mean over the gassed zones of each level (0 where none is gassed)");
   const auto pk = height_profile(run.net, f.kla_1_s);
   h5.write("/profile/kla_mean", pk.mean, "1/s");
 }
@@ -102,14 +111,17 @@ void write_profile_csv(const std::string& path, const CaseRun& run) {
   if (!run.field) return;
   const auto& f = *run.field;
   const auto p = height_profile(run.net, f.do_mol_m3);
-  const auto ps = height_profile(run.net, f.cstar_mol_m3);
+  std::vector<bool> gassed(f.holdup.size());
+  for (size_t k = 0; k < gassed.size(); ++k) gassed[k] = f.holdup[k] > 0.0;
+  const auto ps = height_profile(run.net, f.cstar_mol_m3, gassed);
   const auto pk = height_profile(run.net, f.kla_1_s);
   const auto pe = height_profile(run.net, run.hydro.epsilon);
   std::ofstream out(path);
-  out << "z [m],DO min [mmol/L],DO mean [mmol/L],DO max [mmol/L],C* mean [mmol/L],kLa mean [1/h],epsilon mean [W/kg]\n";
+  out << "z [m],DO min [mmol/L],DO mean [mmol/L],DO max [mmol/L],C* mean over gassed zones [mmol/L],kLa mean [1/h],"
+         "epsilon mean [W/kg]\n";
   for (size_t j = 0; j < p.z.size(); ++j) {
     out << fmt::format("{:.5g},{:.6g},{:.6g},{:.6g},{:.6g},{:.6g},{:.6g}\n", p.z[j], p.min[j], p.mean[j], p.max[j],
-                       ps.mean[j], 3600.0 * pk.mean[j], pe.mean[j]);
+                       std::isnan(ps.mean[j]) ? 0.0 : ps.mean[j], 3600.0 * pk.mean[j], pe.mean[j]);
   }
   if (!out) throw std::runtime_error("cannot write " + path);
 }

@@ -35,7 +35,7 @@ CaseRun run_case(const Case& c, const CaseRunOptions& opts) {
   return run;
 }
 
-HeightProfile height_profile(const ZoneNetwork& net, const std::vector<double>& field) {
+HeightProfile height_profile(const ZoneNetwork& net, const std::vector<double>& field, const std::vector<bool>& include) {
   HeightProfile p;
   const int rows = net.rows();
   p.z.resize(rows);
@@ -45,13 +45,21 @@ HeightProfile height_profile(const ZoneNetwork& net, const std::vector<double>& 
   std::vector<double> vol(rows, 0.0);
   for (int j = 0; j < rows; ++j) p.z[j] = 0.5 * (net.z_lines[j] + net.z_lines[j + 1]);
   for (int k = 0; k < net.size(); ++k) {
+    if (!include.empty() && !include[k]) continue;
     const int j = net.row[k];
     p.min[j] = std::min(p.min[j], field[k]);
     p.max[j] = std::max(p.max[j], field[k]);
     p.mean[j] += field[k] * net.volume[k];
     vol[j] += net.volume[k];
   }
-  for (int j = 0; j < rows; ++j) p.mean[j] /= vol[j];
+  const double nan = std::numeric_limits<double>::quiet_NaN();
+  for (int j = 0; j < rows; ++j) {
+    if (vol[j] > 0.0) {
+      p.mean[j] /= vol[j];
+    } else {  // no zone of this level counts
+      p.mean[j] = p.min[j] = p.max[j] = nan;
+    }
+  }
   return p;
 }
 

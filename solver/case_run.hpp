@@ -36,6 +36,8 @@ CaseRun run_case(const Case& c, const CaseRunOptions& opts = {});
 struct HeightProfile {
   std::vector<double> z, min, mean, max;
 };
-HeightProfile height_profile(const ZoneNetwork& net, const std::vector<double>& field);
+//! `include` (optional) selects the zones that count, e.g. only gassed zones for C*.
+HeightProfile height_profile(const ZoneNetwork& net, const std::vector<double>& field,
+                             const std::vector<bool>& include = {});
 
 }  // namespace oxystrat

@@ -9,6 +9,7 @@
 // y = n_O2 / (n_O2 + n_CO2 + n_inert), and likewise for CO2 (S, Q, x, D).
 #pragma once
 
+#include <algorithm>
 #include <vector>
 
 #include "gas_routing.hpp"
@@ -31,10 +32,16 @@ struct Uptake {
   double rate_mol_m3_s = 0.0;  //!< q_O2,max X [mol/(m3 s)]
   double k_o2_mol_m3 = 0.0;
   double rq = 1.0;
-  //! OUR at dissolved O2 c [mol/(m3 s)] (Monod; zero for c <= 0).
-  double our(double c) const { return c > 0.0 ? rate_mol_m3_s * c / (k_o2_mol_m3 + c) : 0.0; }
+  //! OUR at dissolved O2 c [mol/(m3 s)]: Monod for c >= 0, continued linearly below 0 so Newton
+  //! sees a smooth function (the steady solution itself is positive). A Monod constant below
+  //! 1e-9 mol/m3 (zero order) is treated as 1e-9 mol/m3.
+  double our(double c) const {
+    const double k = std::max(k_o2_mol_m3, 1e-9);
+    return c >= 0.0 ? rate_mol_m3_s * c / (k + c) : rate_mol_m3_s * c / k;
+  }
   double dour(double c) const {
-    return c > 0.0 ? rate_mol_m3_s * k_o2_mol_m3 / ((k_o2_mol_m3 + c) * (k_o2_mol_m3 + c)) : 0.0;
+    const double k = std::max(k_o2_mol_m3, 1e-9);
+    return c >= 0.0 ? rate_mol_m3_s * k / ((k + c) * (k + c)) : rate_mol_m3_s / k;
   }
 };
 

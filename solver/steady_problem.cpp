@@ -6,10 +6,13 @@
 namespace oxystrat {
 namespace {
 
+// Scaled max norm (the convergence test) and scaled 2-norm squared (the line-search merit).
+double max_norm(const SteadyProblem& p, const Eigen::VectorXd& r) { return r.cwiseAbs().maxCoeff() / p.residual_scale(); }
+
 double merit(const SteadyProblem& p, const Eigen::VectorXd& x, Eigen::VectorXd& r) {
   p.residual(x, r);
   if (!r.allFinite()) return std::numeric_limits<double>::infinity();
-  return r.cwiseAbs().maxCoeff() / p.residual_scale();
+  return (r / p.residual_scale()).squaredNorm();
 }
 
 }  // namespace
@@ -24,8 +27,8 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
   bool analysed = false;
   double m = merit(p, x, r);
   for (rep.iterations = 0; rep.iterations < opts.max_iterations; ++rep.iterations) {
-    rep.residual = m;
-    if (m < opts.tolerance) {
+    rep.residual = max_norm(p, r);
+    if (rep.residual < opts.tolerance) {
       rep.converged = true;
       return rep;
     }
@@ -44,21 +47,18 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
     double lambda = 1.0;
     Eigen::VectorXd x_try;
     double m_try = m;
-    for (int k = 0; k < 30; ++k, lambda *= 0.5) {
-      x_try = (x + lambda * dx).cwiseMax(0.0);
+    for (int k = 0; k < 40; ++k, lambda *= 0.5) {
+      x_try = x + lambda * dx;
       m_try = merit(p, x_try, r_try);
-      if (m_try < (1.0 - 1e-4 * lambda) * m) break;
+      if (m_try < (1.0 - 1e-4 * lambda) * m) break;  // Armijo on 1/2 |r|^2
     }
-    if (!(m_try < m)) {  // no decrease along the Newton direction: stop here with what we have
-      rep.residual = m;
-      return rep;
-    }
+    if (!(m_try < m)) return rep;  // no decrease along the Newton direction: stop with what we have
     x = x_try;
     r = r_try;
     m = m_try;
   }
-  rep.residual = m;
-  rep.converged = m < opts.tolerance;
+  rep.residual = max_norm(p, r);
+  rep.converged = rep.residual < opts.tolerance;
   return rep;
 }
 

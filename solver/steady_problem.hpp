@@ -29,7 +29,7 @@ struct NewtonReport {
   double residual = 0.0;  //!< final max |r_i| / residual_scale()
 };
 
-//! Damped Newton with the variables kept >= 0 (projection and backtracking on max |r|).
+//! Damped Newton: backtracking on the 2-norm of the residual; converged on max |r_i| / scale.
 NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const NewtonOptions& opts = {});
 
 //! Central finite-difference Jacobian, for tests of the analytic one only.

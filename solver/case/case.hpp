@@ -106,6 +106,16 @@ struct ModelConstants {
   double multiple_impeller_factor = 1.0;  //!< Power-sum factor for close spacing [-]
 };
 
+//! Limits an operating point must keep to count as feasible (sweeps, comparisons).
+struct Constraints {
+  std::optional<double> min_do_mol_m3;          //!< DO floor in every zone [mol/m3]; empty = culture.critical_do
+  double max_volume_below_critical = 0.0;       //!< allowed share of the volume below the floor [-]
+  std::optional<double> max_tip_speed_m_s;      //!< [m/s]
+  std::optional<double> max_power_per_volume_w_m3;  //!< gassed P/V [W/m3]
+  std::optional<double> max_pco2_pa;            //!< [Pa]
+  bool allow_flooding = false;
+};
+
 struct Case {
   std::string title;
   Vessel vessel;
@@ -118,6 +128,7 @@ struct Case {
   Grid grid;
   Output output;
   ModelConstants model;
+  Constraints constraints;
 };
 
 std::string to_string(BottomShape s);

@@ -249,6 +249,34 @@ void read_culture(TomlSource& src, Case& c) {
   k.rq = src.number("culture.rq", {0.0, 3.0}).value_or(1.0);
 }
 
+// A partial pressure needs no (a)/(g): it is absolute by nature.
+std::optional<double> read_partial_pressure(TomlSource& src, const std::string& path) {
+  const auto text = src.string(path);
+  if (!text) return std::nullopt;
+  std::string t = *text;
+  if (t.find("(a)") == std::string::npos && t.find("(g)") == std::string::npos) t += "(a)";
+  try {
+    const double p = units::parse(Dimension::pressure, t);
+    if (p <= 0.0 || p > 1e6) src.fail(path, "out of range: allowed more than 0 and at most 10 bar");
+    return p;
+  } catch (const units::UnitError& e) {
+    src.fail(path, e.what());
+  }
+}
+
+void read_constraints(TomlSource& src, Case& c) {
+  src.allow_table("constraints");
+  auto& k = c.constraints;
+  if (const auto t = src.string("constraints.min_do"); t && *t != "critical") {
+    k.min_do_mol_m3 = read_o2_concentration(src, "constraints.min_do", c, {0.0, 2.0}, "critical");
+  }
+  k.max_volume_below_critical = src.number("constraints.max_volume_below_critical", {0.0, 1.0}).value_or(0.0);
+  k.max_tip_speed_m_s = src.quantity("constraints.max_tip_speed", Dimension::velocity, {0.0, 50.0, true});
+  k.max_power_per_volume_w_m3 = src.quantity("constraints.max_power_per_volume", Dimension::power_density, {0.0, 1e5, true});
+  k.max_pco2_pa = read_partial_pressure(src, "constraints.max_pco2");
+  k.allow_flooding = src.boolean("constraints.allow_flooding").value_or(false);
+}
+
 void read_numerics(TomlSource& src, Case& c) {
   src.allow_table("grid");
   c.grid.radial = src.integer("grid.radial", 1, 2000).value_or(c.grid.radial);
@@ -392,6 +420,7 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   read_operation(src, c);
   read_culture(src, c);
   read_numerics(src, c);
+  read_constraints(src, c);
   src.check_no_unknown_keys();
   check_geometry(src, c, out.notes);
   out.file_name = file_name;
@@ -400,6 +429,13 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   os << src.root();
   out.effective_text = os.str();
   return out;
+}
+
+std::optional<std::string> raw_value(const LoadedCase& loaded, const std::string& key) {
+  TomlSource src(toml::parse(loaded.effective_text, loaded.file_name), loaded.file_name);
+  if (!src.has(key)) return std::nullopt;
+  if (const auto s = src.string_if_string(key)) return s;
+  return src.text_of(key);
 }
 
 LoadedCase read_case_file(const std::string& path, const std::vector<Override>& overrides) {

@@ -2,6 +2,7 @@
 // and line (or the --set argument), the key, the value and what was expected.
 #pragma once
 
+#include <optional>
 #include <stdexcept>
 #include <string>
 #include <string_view>
@@ -35,6 +36,10 @@ struct LoadedCase {
   std::vector<std::string> overrides;  //!< the --set arguments, in order
   std::vector<std::string> notes;      //!< warnings about the input (not errors)
 };
+
+//! The value of `key` as written in the effective case text (string values without quotes), or
+//! nothing when absent: sweeps use it to find the unit a key is written in.
+std::optional<std::string> raw_value(const LoadedCase& loaded, const std::string& key);
 
 //! Reads and checks a case file.
 LoadedCase read_case_file(const std::string& path, const std::vector<Override>& overrides = {});

@@ -246,6 +246,17 @@ std::optional<std::string> TomlSource::string(const std::string& path) {
   fail(path, "must be a string");
 }
 
+std::optional<std::string> TomlSource::string_if_string(const std::string& path) const {
+  const auto* n = find(path);
+  if (n != nullptr && n->is_string()) return n->as_string()->get();
+  return std::nullopt;
+}
+
+std::string TomlSource::text_of(const std::string& path) const {
+  const auto* n = find(path);
+  return n == nullptr ? std::string() : value_text(*n);
+}
+
 std::optional<double> TomlSource::number(const std::string& path, Range range) {
   return quantity(path, units::Dimension::fraction, range);
 }

@@ -47,6 +47,10 @@ class TomlSource {
                           const std::string& example, double molar_mass_kg_mol = 0.0);
   //! Raw text of a string key (for keys whose unit decides the meaning, like gas flow).
   std::optional<std::string> string(const std::string& path);
+  //! The string at `path` if it is one (no bookkeeping, no error).
+  std::optional<std::string> string_if_string(const std::string& path) const;
+  //! The value at `path` written as TOML.
+  std::string text_of(const std::string& path) const;
   std::optional<double> number(const std::string& path, Range range);
   std::optional<int> integer(const std::string& path, int lo, int hi);
   std::optional<std::string> choice(const std::string& path, const std::vector<std::string>& options);
