@@ -1,6 +1,7 @@
 // oxystrat sweep CASE --vary KEY=START:STOP:COUNT[:UNIT] ... --out DIR: the operating window.
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 #include <functional>
 
@@ -27,6 +28,7 @@ struct SweepCommandOptions {
   bool no_biomass = false;
   bool resume = false;
   int threads = 0;
+  long max_points = -1;
 };
 
 SweepPlan make_plan(const SweepCommandOptions& o, const LoadedCase& base) {
@@ -79,6 +81,8 @@ void add_sweep_command(CLI::App& app) {
   cmd->add_flag("--no-biomass", o->no_biomass, "Skip the supportable-biomass search (faster)");
   cmd->add_flag("--resume", o->resume, "Continue an interrupted sweep from DIR.journal.csv");
   cmd->add_option("--threads", o->threads, "OpenMP threads (default: all cores)")->check(CLI::Range(0, 1024));
+  cmd->add_option("--max-points", o->max_points,
+                  "Run at most this many new points, then stop: the journal keeps them for --resume (a time budget)");
   cmd->callback([o] {
     const auto base = load_case(o->case_opts);
     std::vector<Override> base_overrides;
@@ -100,17 +104,33 @@ void add_sweep_command(CLI::App& app) {
       }
     }
     journal.open(o->resume);
+    // Points to run now: not in the journal, and within --max-points.
+    std::vector<bool> skip = done;
     size_t remaining = 0;
-    for (bool d : done) remaining += d ? 0 : 1;
+    for (size_t i = 0; i < skip.size(); ++i) {
+      if (skip[i]) continue;
+      if (o->max_points >= 0 && static_cast<long>(remaining) >= o->max_points) {
+        skip[i] = true;  // left for a later --resume
+      } else {
+        ++remaining;
+      }
+    }
+    const size_t left_over = static_cast<size_t>(std::count(skip.begin(), skip.end(), true)) -
+                             static_cast<size_t>(std::count(done.begin(), done.end(), true));
     fmt::print("{}: {} points ({} to run{})\n", base.data.title, plan.points.size(), remaining,
                o->resume ? ", the rest from the journal" : "");
     Progress progress(remaining, "points");
-    run_sweep(base, base_overrides, plan, {o->with_mixing, !o->no_biomass, o->threads}, done,
+    run_sweep(base, base_overrides, plan, {o->with_mixing, !o->no_biomass, o->threads}, skip,
               [&](size_t i, const PointResult& r) {
                 results[i] = r;
                 journal.record(i, r);
                 progress.step();
               });
+    if (left_over > 0) {
+      fmt::print("Stopped after {} new points as asked; {} of {} are in {}. Run again with --resume.\n", remaining,
+                 plan.points.size() - left_over, plan.points.size(), folder.target().string() + ".journal.csv");
+      return;  // no result folder: the sweep is not complete
+    }
     const auto pareto = pareto_front(results);
     const int chosen = choose(results, o->objective);
     size_t feasible_count = 0, failed = 0;
