@@ -4,11 +4,13 @@
 #include <algorithm>
 #include <cmath>
 #include <functional>
+#include <optional>
 
 #include "common.hpp"
 #include "h5_writer.hpp"
 #include "network_output.hpp"
 #include "progress.hpp"
+#include "ranks.hpp"
 #include "report.hpp"
 #include "run_folder.hpp"
 #include "sweep.hpp"
@@ -88,14 +90,22 @@ void add_sweep_command(CLI::App& app) {
     std::vector<Override> base_overrides;
     for (const auto& s : o->case_opts.sets) base_overrides.push_back(parse_override(s));
     const SweepPlan plan = make_plan(*o, base);
-    RunFolder folder(o->out.out_dir, o->out.force);
+    // Under mpirun, rank r runs the points i with i % size == r; rank 0 gathers and writes.
+    const auto rk = ranks();
+    const bool lead = rk.rank == 0;
+    if (rk.size > 1 && (o->resume || o->max_points >= 0)) {
+      throw CaseError("--resume and --max-points work in a single process, not under mpirun");
+    }
+    std::optional<RunFolder> folder_slot;
+    if (lead) folder_slot.emplace(o->out.out_dir, o->out.force);
+    const std::string target = lead ? folder_slot->target().string() : std::string();
     // The journal beside DIR keeps finished points, so an interrupted sweep loses nothing.
     std::string signature = fmt::format("{:x}", std::hash<std::string>{}(base.source_text));
     for (const auto& s : o->case_opts.sets) signature += " --set " + s;
     for (const auto& v : o->vary) signature += " --vary " + v;
     signature += " --sample " + o->sample + " --seed " + std::to_string(o->seed) +
                  (o->with_mixing ? " mixing" : "") + (o->no_biomass ? " no-biomass" : "");
-    SweepJournal journal(folder.target().string() + ".journal.csv", signature);
+    SweepJournal journal(target + ".journal.csv", signature);
     std::vector<PointResult> results(plan.points.size());
     std::vector<bool> done(plan.points.size(), false);
     if (o->resume) {
@@ -103,32 +113,55 @@ void add_sweep_command(CLI::App& app) {
         if (i < results.size()) results[i] = r, done[i] = true;
       }
     }
-    journal.open(o->resume);
+    if (lead) journal.open(o->resume);
     // Points to run now: not in the journal, and within --max-points.
     std::vector<bool> skip = done;
     size_t remaining = 0;
     for (size_t i = 0; i < skip.size(); ++i) {
       if (skip[i]) continue;
+      if (static_cast<int>(i % static_cast<size_t>(rk.size)) != rk.rank) {
+        skip[i] = true;  // another rank's point
+        continue;
+      }
       if (o->max_points >= 0 && static_cast<long>(remaining) >= o->max_points) {
         skip[i] = true;  // left for a later --resume
       } else {
         ++remaining;
       }
     }
-    const size_t left_over = static_cast<size_t>(std::count(skip.begin(), skip.end(), true)) -
-                             static_cast<size_t>(std::count(done.begin(), done.end(), true));
-    fmt::print("{}: {} points ({} to run{})\n", base.data.title, plan.points.size(), remaining,
-               o->resume ? ", the rest from the journal" : "");
-    Progress progress(remaining, "points");
-    run_sweep(base, base_overrides, plan, {o->with_mixing, !o->no_biomass, o->threads}, skip,
-              [&](size_t i, const PointResult& r) {
-                results[i] = r;
-                journal.record(i, r);
-                progress.step();
-              });
+    const size_t left_over = rk.size > 1 ? 0
+                                         : static_cast<size_t>(std::count(skip.begin(), skip.end(), true)) -
+                                               static_cast<size_t>(std::count(done.begin(), done.end(), true));
+    if (lead) {
+      fmt::print("{}: {} points ({} to run{}{})\n", base.data.title, plan.points.size(), remaining,
+                 o->resume ? ", the rest from the journal" : "", rk.size > 1 ? fmt::format(" on rank 0 of {}", rk.size) : "");
+    }
+    std::vector<std::string> mine;
+    {
+      Progress progress(lead ? remaining : 0, "points");
+      run_sweep(base, base_overrides, plan, {o->with_mixing, !o->no_biomass, o->threads}, skip,
+                [&](size_t i, const PointResult& r) {
+                  results[i] = r;
+                  if (rk.size > 1) {
+                    mine.push_back(encode_point(i, r));
+                  } else {
+                    journal.record(i, r);
+                  }
+                  if (lead) progress.step();
+                });
+    }
+    if (rk.size > 1) {
+      for (const auto& line : gather_lines(mine)) {
+        size_t i = 0;
+        PointResult r;
+        if (decode_point(line, i, r) && i < results.size()) results[i] = r;
+      }
+      if (!lead) return;
+    }
+    RunFolder& folder = *folder_slot;
     if (left_over > 0) {
       fmt::print("Stopped after {} new points as asked; {} of {} are in {}. Run again with --resume.\n", remaining,
-                 plan.points.size() - left_over, plan.points.size(), folder.target().string() + ".journal.csv");
+                 plan.points.size() - left_over, plan.points.size(), target + ".journal.csv");
       return;  // no result folder: the sweep is not complete
     }
     const auto pareto = pareto_front(results);

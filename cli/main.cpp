@@ -5,12 +5,15 @@
 #include <exception>
 
 #include "common.hpp"
+#include "ranks.hpp"
 
 #ifndef OXYSTRAT_VERSION
 #define OXYSTRAT_VERSION "0.0.0"
 #endif
 
-int main(int argc, char** argv) {
+namespace {
+
+int run(int argc, char** argv) {
   CLI::App app{"oxystrat: where a stirred, sparged vessel runs short of oxygen, zone by zone"};
   app.set_version_flag("--version", std::string("oxystrat ") + OXYSTRAT_VERSION);
   app.require_subcommand(1, 1);
@@ -25,7 +28,17 @@ int main(int argc, char** argv) {
     return app.exit(e);
   } catch (const std::exception& e) {
     fmt::print(stderr, "oxystrat: error: {}\n", e.what());
+    oxystrat::cli::abort_ranks(1);  // the other ranks would wait for this one forever
     return 1;
   }
   return 0;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  oxystrat::cli::start_ranks(&argc, &argv);
+  const int code = run(argc, argv);
+  oxystrat::cli::stop_ranks();
+  return code;
 }

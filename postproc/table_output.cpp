@@ -164,29 +164,9 @@ std::map<size_t, PointResult> SweepJournal::load() const {
                                      "run without --resume");
   }
   while (std::getline(in, line)) {
-    std::istringstream row(line);
-    std::string field;
-    std::vector<std::string> f;
-    while (std::getline(row, field, '\t')) f.push_back(field);
-    if (f.size() < 4) continue;  // a line cut short by the interruption
+    size_t index = 0;
     PointResult r;
-    r.ok = f[1] == "1";
-    r.feasible = f[2] == "1";
-    r.error = f[3];
-    bool complete = true;
-    for (size_t k = 4; k < f.size(); ++k) {
-      std::istringstream v(f[k]);
-      SummaryValue s;
-      std::string value;
-      if (!std::getline(v, s.name, '|') || !std::getline(v, s.unit, '|') || !std::getline(v, s.label, '|') ||
-          !std::getline(v, value)) {
-        complete = false;
-        break;
-      }
-      s.value = std::strtod(value.c_str(), nullptr);
-      r.values.push_back(s);
-    }
-    if (complete && (!r.ok || !r.values.empty())) done[std::stoul(f[0])] = r;
+    if (decode_point(line, index, r)) done[index] = r;
   }
   return done;
 }
@@ -201,11 +181,44 @@ void SweepJournal::open(bool resume) {
   check_stream(out, path_);
 }
 
+std::string encode_point(size_t index, const PointResult& r) {
+  std::string s = fmt::format("{}\t{}\t{}\t{}", index, r.ok ? 1 : 0, r.feasible ? 1 : 0, one_line(r.error));
+  for (const auto& v : r.values) s += fmt::format("\t{}|{}|{}|{:.17g}", v.name, v.unit, v.label, v.value);
+  return s + "\tend";
+}
+
+bool decode_point(const std::string& line, size_t& index, PointResult& r) {
+  std::istringstream row(line);
+  std::string field;
+  std::vector<std::string> f;
+  while (std::getline(row, field, '\t')) f.push_back(field);
+  if (f.size() < 5 || f.back() != "end") return false;  // cut short by an interruption
+  try {
+    index = std::stoul(f[0]);
+  } catch (const std::exception&) {
+    return false;
+  }
+  r = PointResult{};
+  r.ok = f[1] == "1";
+  r.feasible = f[2] == "1";
+  r.error = f[3];
+  for (size_t k = 4; k + 1 < f.size(); ++k) {
+    std::istringstream v(f[k]);
+    SummaryValue s;
+    std::string value;
+    if (!std::getline(v, s.name, '|') || !std::getline(v, s.unit, '|') || !std::getline(v, s.label, '|') ||
+        !std::getline(v, value)) {
+      return false;
+    }
+    s.value = std::strtod(value.c_str(), nullptr);
+    r.values.push_back(s);
+  }
+  return true;
+}
+
 void SweepJournal::record(size_t index, const PointResult& r) {
   std::ofstream out(path_, std::ios::app);
-  out << index << "\t" << (r.ok ? 1 : 0) << "\t" << (r.feasible ? 1 : 0) << "\t" << one_line(r.error);
-  for (const auto& v : r.values) out << "\t" << v.name << "|" << v.unit << "|" << v.label << "|" << fmt::format("{:.17g}", v.value);
-  out << "\n";
+  out << encode_point(index, r) << "\n";
   out.flush();
   check_stream(out, path_);
 }

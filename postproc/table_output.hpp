@@ -25,6 +25,12 @@ void write_sweep_csv(const std::string& path, const SweepPlan& plan, const std::
 void write_sweep_h5(H5Writer& h5, const SweepPlan& plan, const std::vector<PointResult>& results,
                     const std::vector<bool>& pareto, int chosen, const std::string& objective);
 
+//! One point as one line of text (no newline) and back: the journal's format, also what MPI
+//! ranks send to rank 0. Values round-trip exactly (17 significant digits).
+std::string encode_point(size_t index, const PointResult& r);
+//! Returns false for a line cut short (an interrupted write).
+bool decode_point(const std::string& line, size_t& index, PointResult& r);
+
 //! Append-only record of finished sweep points, beside the output folder (DIR.journal.csv).
 class SweepJournal {
  public:

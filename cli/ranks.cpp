@@ -1,0 +1,80 @@
+#include "ranks.hpp"
+
+#include <cstdlib>
+
+#ifdef OXYSTRAT_WITH_MPI
+#include <mpi.h>
+#endif
+
+namespace oxystrat::cli {
+namespace {
+bool started = false;
+}
+
+void start_ranks([[maybe_unused]] int* argc, [[maybe_unused]] char*** argv) {
+#ifdef OXYSTRAT_WITH_MPI
+  const bool launched = std::getenv("OMPI_COMM_WORLD_SIZE") != nullptr || std::getenv("PMI_SIZE") != nullptr ||
+                        std::getenv("PMIX_RANK") != nullptr;
+  if (launched) {
+    MPI_Init(argc, argv);
+    started = true;
+  }
+#endif
+}
+
+void stop_ranks() {
+#ifdef OXYSTRAT_WITH_MPI
+  if (started) MPI_Finalize();
+#endif
+  started = false;
+}
+
+void abort_ranks([[maybe_unused]] int code) {
+#ifdef OXYSTRAT_WITH_MPI
+  if (started && ranks().size > 1) MPI_Abort(MPI_COMM_WORLD, code);
+#endif
+}
+
+Ranks ranks() {
+  Ranks r;
+#ifdef OXYSTRAT_WITH_MPI
+  if (started) {
+    MPI_Comm_rank(MPI_COMM_WORLD, &r.rank);
+    MPI_Comm_size(MPI_COMM_WORLD, &r.size);
+  }
+#endif
+  return r;
+}
+
+std::vector<std::string> gather_lines(const std::vector<std::string>& mine) {
+  if (ranks().size == 1) return mine;
+#ifdef OXYSTRAT_WITH_MPI
+  std::string packed;
+  for (const auto& l : mine) packed += l + "\n";
+  int length = static_cast<int>(packed.size());
+  const auto r = ranks();
+  std::vector<int> lengths(r.size), offsets(r.size, 0);
+  MPI_Gather(&length, 1, MPI_INT, lengths.data(), 1, MPI_INT, 0, MPI_COMM_WORLD);
+  std::string all;
+  if (r.rank == 0) {
+    for (int i = 1; i < r.size; ++i) offsets[i] = offsets[i - 1] + lengths[i - 1];
+    all.resize(static_cast<size_t>(offsets.back() + lengths.back()));
+  }
+  MPI_Gatherv(packed.data(), length, MPI_CHAR, all.data(), lengths.data(), offsets.data(), MPI_CHAR, 0, MPI_COMM_WORLD);
+  std::vector<std::string> lines;
+  if (r.rank == 0) {
+    size_t start = 0;
+    for (size_t i = 0; i < all.size(); ++i) {
+      if (all[i] == '\n') {
+        lines.push_back(all.substr(start, i - start));
+        start = i + 1;
+      }
+    }
+  }
+  return lines;
+#else
+  return mine;
+#endif
+}
+
+}  // namespace oxystrat::cli
