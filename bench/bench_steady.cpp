@@ -1,0 +1,92 @@
+// Network build (geometry + hydrodynamics + gas routing) and the steady O2/CO2 solve of the tall
+// demo at about 2000 zones, and the growth of the steady solve's cost from 1e4 to 1e5 zones (1e6
+// on request: bench/run --huge). Sizes are set with grid.radial / grid.axial overrides.
+#include <benchmark/benchmark.h>
+
+#include <string>
+#include <vector>
+
+#include "bench_cases.hpp"
+#include "gas_routing.hpp"
+#include "hydrodynamics.hpp"
+#include "oxygen_field.hpp"
+#include "zone_network.hpp"
+
+namespace oxystrat::bench {
+namespace {
+
+const char* const kDemo = "tall-3rushton.toml";
+
+struct Network {
+  ZoneNetwork net;
+  Hydrodynamics hydro;
+  GasRouting routing;
+};
+
+Network build(const Case& c) {
+  Network n;
+  n.net = build_zone_geometry(c);
+  n.hydro = compute_hydrodynamics(c, n.net);
+  n.routing = route_gas(c, n.net, n.hydro);
+  return n;
+}
+
+// Geometry, hydrodynamics and gas routing: everything before the oxygen solve.
+void BM_NetworkBuild(benchmark::State& state) {
+  const auto loaded = load_case(kDemo, grid_for_zones(static_cast<double>(state.range(0))));
+  int zones = 0;
+  for (auto _ : state) {
+    auto n = build(loaded.data);
+    zones = n.net.size();
+    benchmark::DoNotOptimize(n.routing.order.data());
+  }
+  state.counters["zones"] = zones;
+}
+BENCHMARK(BM_NetworkBuild)->Arg(2000)->Unit(benchmark::kMillisecond)->UseRealTime();
+
+// The coupled steady solve (outer holdup/kLa loop around damped Newton), cold start each time.
+void BM_SteadySolve(benchmark::State& state) {
+  const auto loaded = load_case(kDemo, grid_for_zones(static_cast<double>(state.range(0))));
+  const auto n = build(loaded.data);
+  const OxygenContext ctx{loaded.data, n.net, n.hydro, n.routing};
+  OxygenField f;
+  for (auto _ : state) {
+    f = solve_oxygen_field(ctx);
+    benchmark::DoNotOptimize(f.do_min);
+  }
+  state.counters["zones"] = n.net.size();
+  state.counters["newton"] = f.newton_iterations;
+  state.counters["outer"] = f.outer_iterations;
+  state.counters["do_min_mol_m3"] = f.do_min;
+}
+BENCHMARK(BM_SteadySolve)->Arg(2000)->Unit(benchmark::kMillisecond)->UseRealTime();
+BENCHMARK(BM_SteadySolve)
+    ->Name("BM_SteadySolveScaling")
+    ->Arg(10000)->Arg(20000)->Arg(50000)->Arg(100000)
+    ->Unit(benchmark::kMillisecond)->UseRealTime()->MinTime(2.0);
+
+}  // namespace
+}  // namespace oxystrat::bench
+
+// `--huge` adds one solve of a million zones (minutes and gigabytes: asked for explicitly).
+int main(int argc, char** argv) {
+  std::vector<char*> args;
+  bool huge = false;
+  for (int i = 0; i < argc; ++i) {
+    if (std::string(argv[i]) == "--huge") {
+      huge = true;
+    } else {
+      args.push_back(argv[i]);
+    }
+  }
+  if (huge) {
+    benchmark::RegisterBenchmark("BM_SteadySolveHuge", oxystrat::bench::BM_SteadySolve)
+        ->Arg(1000000)->Unit(benchmark::kSecond)->UseRealTime()->Iterations(1);
+  }
+  int n = static_cast<int>(args.size());
+  benchmark::Initialize(&n, args.data());
+  if (benchmark::ReportUnrecognizedArguments(n, args.data())) return 1;
+  benchmark::RunSpecifiedBenchmarks();
+  benchmark::Shutdown();
+  return 0;
+}
