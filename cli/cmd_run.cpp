@@ -7,6 +7,12 @@
 #include "case_run.hpp"
 #include "oxygen_output.hpp"
 #include "report.hpp"
+#include "trust_output.hpp"
+#include "grid_check.hpp"
+#include "mixing_time.hpp"
+#include "uncertainty.hpp"
+
+#include <optional>
 #include "network_output.hpp"
 #include "run_folder.hpp"
 #include "text_summary.hpp"
@@ -18,6 +24,9 @@ namespace oxystrat::cli {
 struct RunOptions {
   CaseOptions case_opts;
   OutputOptions out;
+  int uncertainty = 0;
+  std::uint64_t seed = 1;
+  bool grid_check = false;
 };
 
 void add_run_command(CLI::App& app) {
@@ -25,33 +34,63 @@ void add_run_command(CLI::App& app) {
   auto opts = std::make_shared<RunOptions>();
   add_case_options(*cmd, opts->case_opts);
   add_output_options(*cmd, opts->out);
+  cmd->add_option("--uncertainty", opts->uncertainty,
+                  "Monte Carlo samples over the uncertain model constants (P10/P50/P90 and sensitivity)")
+      ->check(CLI::Range(0, 100000));
+  cmd->add_option("--seed", opts->seed, "Seed of the uncertainty samples");
+  cmd->add_flag("--grid-check", opts->grid_check, "Also run two coarser grids: observed order and GCI");
   cmd->callback([opts] {
     const auto loaded = load_case(opts->case_opts);
+    const Case& c = loaded.data;
     RunFolder folder(opts->out.out_dir, opts->out.force);
-    const auto run = run_case(loaded.data);
+    const auto run = run_case(c);
     const auto& net = run.net;
     const auto& hydro = run.hydro;
+    const double theta = tracer_mixing_time(net, hydro, {}).theta_s;
     fmt::print("{}", geometry_summary(loaded, net));
-    fmt::print("{}", power_table(loaded.data, hydro));
-    fmt::print("{}", oxygen_summary(loaded.data, run));
+    fmt::print("{}", power_table(c, hydro));
+    fmt::print("Mixing  theta95 = {:.4g} s (whole vessel; `oxystrat mixing` for the tracer history)\n", theta);
+    fmt::print("{}", oxygen_summary(c, run));
+    std::optional<UncertaintyResult> unc;
+    if (opts->uncertainty > 0) {
+      UncertaintyOptions uo;
+      uo.samples = opts->uncertainty;
+      uo.seed = opts->seed;
+      unc = run_uncertainty(c, uo);
+      fmt::print("{}", uncertainty_text(*unc));
+    }
+    std::optional<GridCheck> grid;
+    if (opts->grid_check) {
+      grid = grid_check(c);
+      fmt::print("{}", grid_check_text(*grid));
+    }
     {
       H5Writer h5(folder.file("result.h5").string());
       write_case_h5(h5, loaded);
       write_network_h5(h5, net);
-      write_hydrodynamics_h5(h5, loaded.data, hydro);
-      write_oxygen_h5(h5, loaded.data, run);
+      write_hydrodynamics_h5(h5, c, hydro);
+      write_oxygen_h5(h5, c, run);
+      h5.write("/summary/theta95", theta, "s");
+      if (unc) write_uncertainty_h5(h5, *unc);
+      if (grid) write_grid_check_h5(h5, *grid);
       h5.close();
     }
     auto arrays = network_cell_arrays(net);
     for (auto& a : hydrodynamics_cell_arrays(hydro)) arrays.push_back(std::move(a));
     for (auto& a : oxygen_cell_arrays(run)) arrays.push_back(std::move(a));
     write_profile_csv(folder.file("profile.csv").string(), run);
-    write_text_file(folder.file("report.html").string(),
-                    report_page("oxystrat: " + loaded.data.title, run_report_body(loaded.data, run, std::nullopt)));
-    write_zones_vtu(folder.file("zones.vtu").string(), net, loaded.data.output.sectors, arrays);
+    std::string body = run_report_body(c, run, theta);
+    if (unc) {
+      write_uncertainty_csv(folder.file("uncertainty.csv").string(), *unc);
+      body += uncertainty_html(*unc, c.culture.critical_do_mol_m3);
+    }
+    if (grid) body += grid_check_html(*grid);
+    write_text_file(folder.file("report.html").string(), report_page("oxystrat: " + c.title, body));
+    write_zones_vtu(folder.file("zones.vtu").string(), net, c.output.sectors, arrays);
     write_section_vtu(folder.file("section.vtu").string(), net, arrays);
     folder.commit();
-    fmt::print("Wrote {}/result.h5, zones.vtu, section.vtu, report.html{}\n", folder.target().string(), run.field ? ", profile.csv" : "");
+    fmt::print("Wrote {}/result.h5, zones.vtu, section.vtu, report.html{}{}\n", folder.target().string(),
+               run.field ? ", profile.csv" : "", unc ? ", uncertainty.csv" : "");
   });
 }
 

@@ -63,6 +63,7 @@ ImpellerState impeller_state(const Case& c, const Impeller& imp, double gas_m3_s
       s.gassed_ratio = default_gassed_power_factor(imp.type);
     }
   }
+  s.gassed_ratio = std::min(1.0, s.gassed_ratio * c.model.gassed_power_multiplier);
   s.power_gassed_w = s.gassed_ratio * s.power_ungassed_w;
   return s;
 }

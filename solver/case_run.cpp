@@ -20,16 +20,20 @@ CaseRun run_case(const Case& c, const CaseRunOptions& opts) {
   const OxygenContext ctx{c, run.net, run.hydro, run.routing};
   run.field = solve_oxygen_field(ctx);
 
-  Case lumped = c;
-  lumped.grid.radial = lumped.grid.axial = 1;
-  const auto net1 = build_zone_geometry(lumped);
-  const auto hydro1 = compute_hydrodynamics(lumped, net1);
-  const auto routing1 = route_gas(lumped, net1, hydro1);
-  const OxygenContext ctx1{lumped, net1, hydro1, routing1};
-  run.single_zone = solve_oxygen_field(ctx1);
   if (opts.supportable_biomass && c.culture.q_o2_max_mol_kg_s > 0.0) {
-    run.max_biomass_kg_m3 = max_supportable_biomass(ctx, *run.field);
-    run.max_biomass_single_zone_kg_m3 = max_supportable_biomass(ctx1, *run.single_zone);
+    run.max_biomass_kg_m3 = max_supportable_biomass(ctx, *run.field, opts.biomass_rel_tol);
+  }
+  if (opts.single_zone) {
+    Case lumped = c;
+    lumped.grid.radial = lumped.grid.axial = 1;
+    const auto net1 = build_zone_geometry(lumped);
+    const auto hydro1 = compute_hydrodynamics(lumped, net1);
+    const auto routing1 = route_gas(lumped, net1, hydro1);
+    const OxygenContext ctx1{lumped, net1, hydro1, routing1};
+    run.single_zone = solve_oxygen_field(ctx1);
+    if (opts.supportable_biomass && c.culture.q_o2_max_mol_kg_s > 0.0) {
+      run.max_biomass_single_zone_kg_m3 = max_supportable_biomass(ctx1, *run.single_zone, opts.biomass_rel_tol);
+    }
   }
   run.cautions = cautions(c, run.hydro, &*run.field);
   return run;

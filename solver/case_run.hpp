@@ -28,6 +28,8 @@ struct CaseRun {
 
 struct CaseRunOptions {
   bool supportable_biomass = true;  //!< run the root search (many steady solves)
+  bool single_zone = true;          //!< also solve the one-zone answer (and its supportable biomass)
+  double biomass_rel_tol = 1e-4;    //!< relative tolerance of the supportable biomass [-]
 };
 
 CaseRun run_case(const Case& c, const CaseRunOptions& opts = {});

@@ -88,7 +88,10 @@ double local_kla(const Case& c, double eps, double vs, double holdup) {
 
 }  // namespace
 
-OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, const OxygenField* warm) {
+OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, const OxygenField* warm,
+                               NewtonWorkspace* workspace) {
+  NewtonWorkspace local;
+  NewtonWorkspace& ws = workspace != nullptr ? *workspace : local;
   const Case& c = ctx.c;
   const auto& net = ctx.net;
   const int n = net.size();
@@ -170,7 +173,7 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
     }
     const OxygenProblem problem(net, ctx.routing, transport, coeff, uptake, in_o2, in_co2);
     Eigen::VectorXd trial = x;
-    rep = solve_newton(problem, trial);
+    rep = solve_newton(problem, trial, {}, &ws);
     if (!rep.converged) {
       // Continuation in the uptake from the feasible no-culture state.
       trial = x;
@@ -178,7 +181,7 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
         Uptake u = uptake;
         u.rate_mol_m3_s *= s;
         const OxygenProblem step(net, ctx.routing, transport, coeff, u, in_o2, in_co2);
-        rep = solve_newton(step, trial, NewtonOptions{200, 1e-12});
+        rep = solve_newton(step, trial, NewtonOptions{200, 1e-12}, &ws);
         if (!rep.converged) break;
       }
     }
@@ -192,7 +195,7 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
     f.newton_iterations += rep.iterations;
     double change = previous.empty() ? 1.0 : 0.0;
     for (int k = 0; k < n && !previous.empty(); ++k) change = std::max(change, std::abs(gas.holdup[k] - previous[k]));
-    if (change < 1e-7) break;
+    if (change < 1e-6) break;  // holdup to 1e-6: far below the model's accuracy
   }
 
   // Fields and summary.
@@ -253,13 +256,14 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   return f;
 }
 
-double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& field_at_case) {
+double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& field_at_case, double rel_tol) {
   const double critical = ctx.c.culture.critical_do_mol_m3;
   const double x_case = ctx.c.culture.biomass_kg_m3;
   if (ctx.c.culture.q_o2_max_mol_kg_s <= 0.0) return std::numeric_limits<double>::infinity();
   OxygenField warm = field_at_case;
+  NewtonWorkspace ws;
   const auto margin = [&](double x) {
-    warm = solve_oxygen_field(ctx, x, &warm);
+    warm = solve_oxygen_field(ctx, x, &warm, &ws);
     return warm.do_min - critical;
   };
   // Bracket: DO_min falls as biomass rises.
@@ -274,11 +278,25 @@ double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& fiel
       f_hi = margin(hi);
     }
   }
-  if (margin(lo) < 0.0) return 0.0;
-  // Bisection in biomass to 1e-4 relative: robust where DO_min has kinks (the minimum zone moves).
-  while (hi - lo > 1e-4 * hi) {
-    const double mid = 0.5 * (lo + hi);
-    (margin(mid) >= 0.0 ? lo : hi) = mid;
+  double f_lo = margin(lo);
+  if (f_lo < 0.0) return 0.0;
+  // Illinois (regula falsi with halving of the stale end) keeps the bracket like bisection, so it
+  // is robust where DO_min has kinks (the minimum zone moves), and converges superlinearly.
+  int stale = 0;
+  for (int it = 0; it < 100 && hi - lo > rel_tol * hi; ++it) {
+    double x = lo + (hi - lo) * f_lo / (f_lo - f_hi);
+    if (!(x > lo && x < hi)) x = 0.5 * (lo + hi);
+    const double fx = margin(x);
+    if (fx >= 0.0) {
+      lo = x, f_lo = fx;
+      if (stale == -1) f_hi *= 0.5;
+      stale = -1;
+    } else {
+      hi = x, f_hi = fx;
+      if (stale == 1) f_lo *= 0.5;
+      stale = 1;
+    }
+    if (std::abs(fx) < 1e-9 * critical) return x;
   }
   return 0.5 * (lo + hi);
 }

@@ -62,10 +62,13 @@ struct OxygenContext {
 
 //! Steady field at biomass `biomass_kg_m3` (the case's own when negative). `warm` may hold a
 //! previous field of the same network to start from. Throws SolveError on failure.
-OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3 = -1.0, const OxygenField* warm = nullptr);
+//! `workspace` (optional) carries the sparse factorisation from one solve to the next.
+OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3 = -1.0, const OxygenField* warm = nullptr,
+                               NewtonWorkspace* workspace = nullptr);
 
-//! Largest biomass [kg/m3] with every zone at or above culture.critical_do (0 when even no
-//! culture fails, +inf capped at 1000 kg/m3 when nothing limits). `field_at_case` seeds the search.
-double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& field_at_case);
+//! Largest biomass [kg/m3] with every zone at or above culture.critical_do, to 1e-4 relative (0
+//! when even no culture fails, capped at 1000 kg/m3 when nothing limits). `field_at_case` seeds
+//! the search.
+double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& field_at_case, double rel_tol = 1e-4);
 
 }  // namespace oxystrat

@@ -1,6 +1,5 @@
 #include "steady_problem.hpp"
 
-#include <Eigen/SparseLU>
 #include <cmath>
 
 namespace oxystrat {
@@ -17,14 +16,31 @@ double merit(const SteadyProblem& p, const Eigen::VectorXd& x, Eigen::VectorXd& 
 
 }  // namespace
 
-NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const NewtonOptions& opts) {
+NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const NewtonOptions& opts, NewtonWorkspace* workspace) {
   NewtonReport rep;
   const int n = p.size();
+  NewtonWorkspace local;
+  NewtonWorkspace& ws = workspace != nullptr ? *workspace : local;
+  if (ws.analysed && ws.jacobian.rows() != n) ws.analysed = ws.factored = false;  // another problem size
   Eigen::VectorXd r(n), r_try(n);
   std::vector<Eigen::Triplet<double>> triplets;
-  Eigen::SparseMatrix<double> jac(n, n);
-  Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu;
-  bool analysed = false;
+  bool fresh = false;
+  const auto refactor = [&] {
+    triplets.clear();
+    p.jacobian(x, triplets);
+    ws.jacobian.resize(n, n);
+    ws.jacobian.setFromTriplets(triplets.begin(), triplets.end());
+    ws.jacobian.makeCompressed();
+    if (!ws.analysed) {
+      ws.lu.analyzePattern(ws.jacobian);
+      ws.analysed = true;
+    }
+    ws.lu.factorize(ws.jacobian);
+    ws.factored = ws.lu.info() == Eigen::Success;
+    ++ws.factorisations;
+    fresh = true;
+    return ws.factored;
+  };
   double m = merit(p, x, r);
   for (rep.iterations = 0; rep.iterations < opts.max_iterations; ++rep.iterations) {
     rep.residual = max_norm(p, r);
@@ -32,18 +48,25 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
       rep.converged = true;
       return rep;
     }
-    triplets.clear();
-    p.jacobian(x, triplets);
-    jac.setFromTriplets(triplets.begin(), triplets.end());
-    jac.makeCompressed();
-    if (!analysed) {
-      lu.analyzePattern(jac);
-      analysed = true;
+    if (!ws.factored && !refactor()) return rep;
+    const Eigen::VectorXd dx = ws.lu.solve(-r);
+    if (!dx.allFinite()) {
+      if (fresh || !refactor()) return rep;
+      continue;
     }
-    lu.factorize(jac);
-    if (lu.info() != Eigen::Success) return rep;
-    const Eigen::VectorXd dx = lu.solve(-r);
-    if (!dx.allFinite()) return rep;
+    if (!fresh) {
+      // Chord step with an old factorisation: keep it only if it cuts |r| at least threefold.
+      Eigen::VectorXd x_try = x + dx;
+      const double m_try = merit(p, x_try, r_try);
+      if (m_try < m / 9.0) {
+        x = x_try;
+        r = r_try;
+        m = m_try;
+      } else if (!refactor()) {
+        return rep;
+      }
+      continue;
+    }
     double lambda = 1.0;
     Eigen::VectorXd x_try;
     double m_try = m;
@@ -53,6 +76,10 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
       if (m_try < (1.0 - 1e-4 * lambda) * m) break;  // Armijo on 1/2 |r|^2
     }
     if (!(m_try < m)) return rep;  // no decrease along the Newton direction: stop with what we have
+    // Near the solution (a full step that cut |r| tenfold) the factorisation is worth keeping.
+    const bool keep = lambda == 1.0 && m_try < m / 100.0;
+    if (!keep) ws.factored = false;
+    fresh = false;
     x = x_try;
     r = r_try;
     m = m_try;

@@ -4,6 +4,7 @@
 
 #include <Eigen/Core>
 #include <Eigen/Sparse>
+#include <Eigen/SparseLU>
 #include <vector>
 
 namespace oxystrat {
@@ -29,8 +30,21 @@ struct NewtonReport {
   double residual = 0.0;  //!< final max |r_i| / residual_scale()
 };
 
+//! What one Newton solve leaves for the next one on the same sparsity pattern: the symbolic
+//! analysis and the last factorisation, reused while it still converges fast (chord steps).
+struct NewtonWorkspace {
+  Eigen::SparseMatrix<double> jacobian;
+  Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu;
+  bool analysed = false;
+  bool factored = false;
+  int factorisations = 0;
+};
+
 //! Damped Newton: backtracking on the 2-norm of the residual; converged on max |r_i| / scale.
-NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const NewtonOptions& opts = {});
+//! With a workspace, an old factorisation is tried first and refreshed when a step with it does
+//! not cut the residual at least threefold.
+NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const NewtonOptions& opts = {},
+                          NewtonWorkspace* workspace = nullptr);
 
 //! Central finite-difference Jacobian, for tests of the analytic one only.
 Eigen::MatrixXd finite_difference_jacobian(const SteadyProblem& p, const Eigen::VectorXd& x, double rel_step = 1e-6);

@@ -104,6 +104,7 @@ struct ModelConstants {
   //! Scale the local correlation so its volume mean equals the vessel-level correlation.
   bool kla_normalise = true;
   double multiple_impeller_factor = 1.0;  //!< Power-sum factor for close spacing [-]
+  double gassed_power_multiplier = 1.0;   //!< Multiplies every Pg/P0 (uncertainty studies) [-]
 };
 
 //! Limits an operating point must keep to count as feasible (sweeps, comparisons).

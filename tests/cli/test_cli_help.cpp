@@ -60,7 +60,8 @@ TEST_F(CliHelp, EveryCommandHasHelp) {
     EXPECT_EQ(r.exit_code, 0) << r.err;
     EXPECT_THAT(r.out, HasSubstr("Usage:"));
     EXPECT_THAT(r.out, HasSubstr(command));
-    EXPECT_THAT(r.out, HasSubstr("CASE"));   // every command works on a case
+    if (command == "validate" || command == "kla-fit") continue;  // these work on no case file
+    EXPECT_THAT(r.out, HasSubstr("CASE"));   // every other command works on a case
     EXPECT_THAT(r.out, HasSubstr("--set"));  // ... with overrides
   }
   EXPECT_TRUE(work_listing().empty());

@@ -1,0 +1,55 @@
+#include "grid_check.hpp"
+
+#include <fmt/format.h>
+
+#include <cmath>
+
+#include "case_run.hpp"
+#include "mixing_time.hpp"
+
+namespace oxystrat {
+
+GridCheck grid_check(const Case& c) {
+  GridCheck g;
+  const double factors[3] = {1.0, 1.5, 2.25};
+  double values[3][3] = {};  // [grid][quantity]
+  for (int i = 0; i < 3; ++i) {
+    Case ci = c;
+    ci.grid.radial = std::max(1, static_cast<int>(std::lround(c.grid.radial / factors[i])));
+    ci.grid.axial = std::max(1, static_cast<int>(std::lround(c.grid.axial / factors[i])));
+    const auto run = run_case(ci, {false});
+    g.zones[i] = run.net.size();
+    g.cell_size[i] = std::sqrt(run.net.shape.radius() * run.net.liquid_height / run.net.size());
+    values[i][0] = run.field ? run.field->do_min : std::nan("");
+    values[i][1] = run.field ? 100.0 * run.field->volume_fraction_below_critical : std::nan("");
+    values[i][2] = tracer_mixing_time(run.net, run.hydro, {}).theta_s;
+  }
+  const char* names[3] = {"DO min", "volume below critical DO", "theta95"};
+  const char* unit_names[3] = {"mmol/L", "%", "s"};
+  for (int q = 0; q < 3; ++q) {
+    GridCheckQuantity gq{names[q], unit_names[q], values[0][q], values[1][q], values[2][q], {}, ""};
+    if (!std::isfinite(gq.fine)) continue;
+    gq.convergence = grid_convergence(gq.fine, gq.medium, gq.coarse, g.cell_size[0], g.cell_size[1], g.cell_size[2]);
+    const auto& cv = gq.convergence;
+    const bool tiny = std::abs(gq.fine) < 1e-3 * std::max(std::abs(gq.medium), std::abs(gq.coarse)) ||
+                      (q == 0 && gq.fine < 1e-4) || (q == 1 && gq.fine < 0.05);
+    if (cv.converged_already) {
+      gq.verdict = "the same on all three grids";
+    } else if (cv.oscillatory) {
+      gq.verdict = "oscillates between grids: no order can be observed; refine (grid.radial, grid.axial)";
+    } else if (tiny) {
+      gq.verdict = fmt::format("near zero on the fine grid: judge by the absolute band +-{:.3g} {}", cv.gci_fine_absolute, gq.unit);
+    } else if (cv.observed_order < 0.5) {
+      gq.verdict = fmt::format("observed order {:.2f}: not yet in the asymptotic range; refine", cv.observed_order);
+    } else if (cv.gci_fine > 0.10) {
+      gq.verdict = fmt::format("GCI {:.0f} %: the grid is too coarse for this quantity; refine", 100 * cv.gci_fine);
+    } else {
+      gq.verdict = fmt::format("GCI {:.1f} %: adequate", 100 * cv.gci_fine);
+    }
+    if (gq.verdict.find("refine") != std::string::npos) g.warnings.push_back(std::string(names[q]) + ": " + gq.verdict);
+    g.quantities.push_back(gq);
+  }
+  return g;
+}
+
+}  // namespace oxystrat
