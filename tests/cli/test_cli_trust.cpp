@@ -1,0 +1,40 @@
+// End to end: validate, and run with --uncertainty and --grid-check.
+#include <gmock/gmock.h>
+
+#include "cli_runner.hpp"
+
+namespace oxystrat::test {
+namespace {
+
+using testing::HasSubstr;
+
+class TrustCli : public CliTest {};
+
+TEST_F(TrustCli, ValidateListsEveryCheckAndPasses) {
+  const auto r = oxystrat({"validate", "--out", "val"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, HasSubstr("checks pass"));
+  const auto csv = read_file(work() / "val/validation.csv");
+  // One printed line per check plus the closing line; one CSV row per check plus the header.
+  EXPECT_EQ(std::count(csv.begin(), csv.end(), '\n'), std::count(r.out.begin(), r.out.end(), '\n'));
+  EXPECT_THAT(csv, HasSubstr("Benson & Krause 1984"));
+  EXPECT_EQ(csv.find("FAIL"), std::string::npos);
+  EXPECT_TRUE(fs::exists(work() / "val/report.html"));
+}
+
+TEST_F(TrustCli, RunPrintsBandsAndTheGridConvergenceIndex) {
+  const auto r = oxystrat({"run", (kSourceDir / "cases/pilot-300L.toml").string(), "--out", "out", "--set", "grid.radial=6",
+                           "--set", "grid.axial=16", "--uncertainty", "12", "--grid-check"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, HasSubstr("P10"));
+  EXPECT_THAT(r.out, HasSubstr("What moves DO min most"));
+  EXPECT_THAT(r.out, HasSubstr("Grid check"));
+  EXPECT_THAT(r.out, HasSubstr("GCI"));
+  const auto html = read_file(work() / "out/report.html");
+  EXPECT_THAT(html, HasSubstr("Uncertainty"));
+  EXPECT_THAT(html, HasSubstr("Discretisation error"));
+  EXPECT_TRUE(fs::exists(work() / "out/uncertainty.csv"));
+}
+
+}  // namespace
+}  // namespace oxystrat::test
