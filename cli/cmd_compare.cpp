@@ -14,6 +14,7 @@
 #include "report.hpp"
 #include "run_folder.hpp"
 #include "summary_values.hpp"
+#include "sweep.hpp"
 #include "table_output.hpp"
 
 namespace oxystrat::cli {
@@ -24,6 +25,8 @@ struct CompareOptions {
   std::vector<std::string> sets;
   OutputOptions out;
   bool no_mixing = false;
+  int uncertainty = 0;
+  std::uint64_t seed = 1;
 };
 
 // Group names from the file stems, made unique.
@@ -48,6 +51,9 @@ void add_compare_command(CLI::App& app) {
   cmd->add_option("--set", o->sets, "Override a key in every case, KEY=VALUE (repeatable)")->take_all()->allow_extra_args(false);
   add_output_options(*cmd, o->out);
   cmd->add_flag("--no-mixing", o->no_mixing, "Skip the tracer mixing time (faster)");
+  cmd->add_option("--uncertainty", o->uncertainty, "Monte Carlo samples per case: P10/P50/P90 rows and whiskers")
+      ->check(CLI::Range(0, 100000));
+  cmd->add_option("--seed", o->seed, "Seed of the uncertainty samples");
   cmd->callback([o] {
     std::vector<LoadedCase> loaded;
     for (const auto& path : o->cases) loaded.push_back(load_case({path, o->sets}));
@@ -69,6 +75,7 @@ void add_compare_command(CLI::App& app) {
     std::vector<bool> feasible_flags;
     for (size_t i = 0; i < loaded.size(); ++i) {
       values.push_back(summary_values(loaded[i].data, runs[i], o->no_mixing ? std::nullopt : std::optional<double>(theta[i])));
+      if (o->uncertainty > 0) append_uncertainty_values(loaded[i].data, o->uncertainty, o->seed, !o->no_mixing, values.back());
       const auto checks = check_constraints(loaded[i].data, runs[i]);
       feasible_flags.push_back(feasible(checks));
       compared.push_back({names[i], &loaded[i].data, &runs[i], values.back(), checks});

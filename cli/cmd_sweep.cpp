@@ -31,6 +31,7 @@ struct SweepCommandOptions {
   bool resume = false;
   int threads = 0;
   long max_points = -1;
+  int uncertainty = 0;
 };
 
 SweepPlan make_plan(const SweepCommandOptions& o, const LoadedCase& base) {
@@ -76,7 +77,9 @@ void add_sweep_command(CLI::App& app) {
       ->take_all()
       ->allow_extra_args(false);
   cmd->add_option("--sample", o->sample, "lhs:N for a Latin hypercube of N points (COUNT is then ignored)");
-  cmd->add_option("--seed", o->seed, "Seed of the Latin hypercube");
+  cmd->add_option("--seed", o->seed, "Seed of the Latin hypercube (and of --uncertainty)");
+  cmd->add_option("--uncertainty", o->uncertainty, "Monte Carlo samples per point: P10/P50/P90 columns (N times the cost)")
+      ->check(CLI::Range(0, 100000));
   cmd->add_option("--objective", o->objective,
                   "Summary value the chosen point minimises (NAME:max to maximise); names as in sweep.csv");
   cmd->add_flag("--with-mixing", o->with_mixing, "Also compute theta95 at every point");
@@ -104,7 +107,8 @@ void add_sweep_command(CLI::App& app) {
     for (const auto& s : o->case_opts.sets) signature += " --set " + s;
     for (const auto& v : o->vary) signature += " --vary " + v;
     signature += " --sample " + o->sample + " --seed " + std::to_string(o->seed) +
-                 (o->with_mixing ? " mixing" : "") + (o->no_biomass ? " no-biomass" : "");
+                 (o->with_mixing ? " mixing" : "") + (o->no_biomass ? " no-biomass" : "") +
+                 (o->uncertainty > 0 ? " uncertainty " + std::to_string(o->uncertainty) : "");
     SweepJournal journal(target + ".journal.csv", signature);
     std::vector<PointResult> results(plan.points.size());
     std::vector<bool> done(plan.points.size(), false);
@@ -139,7 +143,7 @@ void add_sweep_command(CLI::App& app) {
     std::vector<std::string> mine;
     {
       Progress progress(lead ? remaining : 0, "points");
-      run_sweep(base, base_overrides, plan, {o->with_mixing, !o->no_biomass, o->threads}, skip,
+      run_sweep(base, base_overrides, plan, {o->with_mixing, !o->no_biomass, o->uncertainty, o->seed, o->threads}, skip,
                 [&](size_t i, const PointResult& r) {
                   results[i] = r;
                   if (rk.size > 1) {

@@ -107,8 +107,23 @@ std::string compare_report_body(const std::vector<ComparedCase>& cases) {
     xmax_single.push_back(summary_value(c.values, "max_biomass_single_zone"));
     pg.push_back(summary_value(c.values, "power_gassed"));
   }
-  s += svg::bar_chart("Minimum DO", "DO [mmol/L]", names, {"zone model", "single zone"}, {do_min, do_single});
-  s += svg::bar_chart("Supportable biomass", "biomass [g/L]", names, {"zone model", "single zone"}, {xmax, xmax_single});
+  // Whiskers (P10-P90) where the comparison ran with --uncertainty.
+  const auto band = [&](const char* name) {
+    std::vector<std::vector<double>> lo(1), hi(1);
+    for (const auto& c : cases) {
+      bool found = false;
+      for (const auto& v : c.values) found = found || v.name == std::string(name) + "_p10";
+      lo[0].push_back(found ? summary_value(c.values, std::string(name) + "_p10") : std::nan(""));
+      hi[0].push_back(found ? summary_value(c.values, std::string(name) + "_p90") : std::nan(""));
+    }
+    return std::pair{lo, hi};
+  };
+  const auto [do_lo, do_hi] = band("do_min");
+  const auto [x_lo, x_hi] = band("max_biomass");
+  s += svg::bar_chart("Minimum DO", "DO [mmol/L]", names, {"zone model", "single zone"}, {do_min, do_single}, 520, 300,
+                      do_lo, do_hi);
+  s += svg::bar_chart("Supportable biomass", "biomass [g/L]", names, {"zone model", "single zone"}, {xmax, xmax_single},
+                      520, 300, x_lo, x_hi);
   s += svg::bar_chart("Gassed power", "power [kW]", names, {"Pg"}, {pg});
   std::vector<svg::Series> profiles;
   for (size_t i = 0; i < cases.size(); ++i) {

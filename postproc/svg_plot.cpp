@@ -162,11 +162,15 @@ std::string line_chart(const std::string& title, const std::string& x_label, con
 
 std::string bar_chart(const std::string& title, const std::string& y_label, const std::vector<std::string>& categories,
                       const std::vector<std::string>& series_names, const std::vector<std::vector<double>>& values,
-                      int width, int height) {
+                      int width, int height, const std::vector<std::vector<double>>& low,
+                      const std::vector<std::vector<double>>& high) {
   static const char* colors[] = {"#1f77b4", "#ff7f0e", "#2ca02c", "#9467bd", "#8c564b", "#e377c2"};
   Frame f{width, height, {0.0, 1.0}, {}};
   f.y.add(0.0);
   for (const auto& s : values) {
+    for (double v : s) f.y.add(v);
+  }
+  for (const auto& s : high) {
     for (double v : s) f.y.add(v);
   }
   f.y.finish();
@@ -183,6 +187,12 @@ std::string bar_chart(const std::string& title, const std::string& y_label, cons
       out += fmt::format("<rect x=\"{:.1f}\" y=\"{:.1f}\" width=\"{:.1f}\" height=\"{:.1f}\" fill=\"{}\"><title>{}: {:.4g}</title></rect>\n",
                          gx + 0.1 * group_w + s * bar_w, std::min(y, y0), bar_w, std::abs(y0 - y), colors[s % 6],
                          escape(series_names[s]), v);
+      if (s < low.size() && s < high.size() && std::isfinite(low[s][c]) && std::isfinite(high[s][c])) {
+        const double x = gx + 0.1 * group_w + (s + 0.5) * bar_w;
+        out += fmt::format("<path d=\"M{0:.1f},{1:.1f}V{2:.1f}M{3:.1f},{1:.1f}H{4:.1f}M{3:.1f},{2:.1f}H{4:.1f}\" "
+                           "stroke=\"#222\" fill=\"none\"><title>P10 {5:.4g}, P90 {6:.4g}</title></path>\n",
+                           x, f.py(low[s][c]), f.py(high[s][c]), x - 4, x + 4, low[s][c], high[s][c]);
+      }
     }
     out += fmt::format("<text x=\"{:.1f}\" y=\"{}\" text-anchor=\"middle\">{}</text>\n", gx + group_w / 2,
                        height - kBottom + 14, escape(categories[c]));

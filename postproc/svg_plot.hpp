@@ -28,10 +28,11 @@ std::string line_chart(const std::string& title, const std::string& x_label, con
                        const std::vector<Series>& series, const std::vector<Marker>& markers = {}, int width = 420,
                        int height = 420);
 
-//! Grouped bars: values[s][c] for series s and category c.
+//! Grouped bars: values[s][c] for series s and category c; optional whiskers low[s][c]..high[s][c].
 std::string bar_chart(const std::string& title, const std::string& y_label, const std::vector<std::string>& categories,
                       const std::vector<std::string>& series_names, const std::vector<std::vector<double>>& values,
-                      int width = 520, int height = 300);
+                      int width = 520, int height = 300, const std::vector<std::vector<double>>& low = {},
+                      const std::vector<std::vector<double>>& high = {});
 
 struct ScatterPoint {
   double x = 0.0, y = 0.0;

@@ -12,6 +12,7 @@
 #include "case/units.hpp"
 #include "hydrodynamics.hpp"
 #include "mixing_time.hpp"
+#include "uncertainty.hpp"
 
 namespace oxystrat {
 
@@ -107,7 +108,23 @@ std::vector<Override> point_overrides(const SweepPlan& plan, size_t i) {
   return out;
 }
 
-PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supportable_biomass) {
+void append_uncertainty_values(const Case& c, int samples, std::uint64_t seed, bool with_mixing,
+                               std::vector<SummaryValue>& values) {
+  UncertaintyOptions o;
+  o.samples = samples;
+  o.seed = seed;
+  o.with_mixing = with_mixing;
+  const auto u = run_uncertainty(c, o);
+  for (const auto& out : u.outputs) {
+    if (out.name == "theta95" && !with_mixing) continue;
+    for (const auto& [suffix, v] : {std::pair{"_p10", out.q.p10}, std::pair{"_p50", out.q.p50}, std::pair{"_p90", out.q.p90}}) {
+      values.push_back({out.name + suffix, out.unit, v, out.name + " " + std::string(suffix + 1)});
+    }
+  }
+}
+
+PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supportable_biomass, int uncertainty_samples,
+                           std::uint64_t seed) {
   PointResult r;
   const Case& c = loaded.data;
   try {
@@ -115,6 +132,7 @@ PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supp
     std::optional<double> theta;
     if (with_mixing) theta = tracer_mixing_time(run.net, run.hydro, {}).theta_s;
     r.values = summary_values(c, run, theta);
+    if (uncertainty_samples > 0) append_uncertainty_values(c, uncertainty_samples, seed, with_mixing, r.values);
     r.checks = check_constraints(c, run);
     r.feasible = feasible(r.checks);
     r.ok = true;
@@ -137,7 +155,7 @@ void run_sweep(const LoadedCase& base, const std::vector<Override>& base_overrid
     PointResult r;
     try {
       const auto loaded = read_case_text(base.source_text, base.file_name, overrides);
-      r = evaluate_point(loaded, opts.with_mixing, opts.supportable_biomass);
+      r = evaluate_point(loaded, opts.with_mixing, opts.supportable_biomass, opts.uncertainty_samples, opts.seed);
     } catch (const std::exception& e) {
       r.error = e.what();
     }

@@ -47,6 +47,8 @@ struct PointResult {
 struct SweepOptions {
   bool with_mixing = false;           //!< compute theta95 per point
   bool supportable_biomass = true;
+  int uncertainty_samples = 0;        //!< > 0: P10/P50/P90 per point from this many samples
+  std::uint64_t seed = 1;
   int threads = 0;                    //!< 0: OpenMP default
 };
 
@@ -56,7 +58,12 @@ void run_sweep(const LoadedCase& base, const std::vector<Override>& base_overrid
                const std::function<void(size_t, const PointResult&)>& on_done);
 
 //! One point as a case run: the library call `compare` and `sweep` share.
-PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supportable_biomass);
+PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supportable_biomass,
+                           int uncertainty_samples = 0, std::uint64_t seed = 1);
+
+//! The uncertainty quantiles as summary values ("do_min_p10", ...), appended to a point's values.
+void append_uncertainty_values(const Case& c, int samples, std::uint64_t seed, bool with_mixing,
+                               std::vector<SummaryValue>& values);
 
 //! Indices of points on the Pareto front of (least gassed power, highest DO_min) among `ok` points.
 std::vector<bool> pareto_front(const std::vector<PointResult>& results);

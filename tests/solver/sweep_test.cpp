@@ -18,7 +18,7 @@ LoadedCase base_case() {
 
 std::vector<PointResult> sweep(const LoadedCase& base, const SweepPlan& plan, int threads) {
   std::vector<PointResult> out(plan.points.size());
-  run_sweep(base, {parse_override("grid.radial=4"), parse_override("grid.axial=12")}, plan, {false, true, threads},
+  run_sweep(base, {parse_override("grid.radial=4"), parse_override("grid.axial=12")}, plan, {false, true, 0, 1, threads},
             std::vector<bool>(plan.points.size(), false), [&](size_t i, const PointResult& r) { out[i] = r; });
   return out;
 }
