@@ -28,6 +28,13 @@ bool is_index(const std::string& s) {
   return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) { return c >= '0' && c <= '9'; });
 }
 
+// The position an index names; nothing for one too long for any list (std::stoul would throw
+// out_of_range, which is no message for the user). Only for strings that pass is_index.
+std::optional<size_t> index_value(const std::string& s) {
+  if (s.size() > 9) return std::nullopt;
+  return static_cast<size_t>(std::stoul(s));
+}
+
 std::string value_text(const toml::node& n) {
   if (const auto* s = n.as_string()) return fmt::format("\"{}\"", s->get());
   if (const auto* f = n.as_floating_point()) {  // shortest round trip, still reading as a float
@@ -96,12 +103,12 @@ void TomlSource::apply(const Override& o) {
     walked += (walked.empty() ? "" : ".") + p;
     if (auto* arr = container->as_array()) {
       if (!is_index(p)) throw CaseError(fmt::format("--set '{}': '{}' is a list; give an index (0-based)", o.raw, parent));
-      const size_t idx = std::stoul(p);
-      if (idx >= arr->size()) {
+      const auto idx = index_value(p);
+      if (!idx || *idx >= arr->size()) {
         throw CaseError(fmt::format("--set '{}': '{}' does not exist; the case has {} entries (0 to {})",
                                     o.raw, walked, arr->size(), static_cast<long>(arr->size()) - 1));
       }
-      container = arr->get(idx);
+      container = arr->get(*idx);
     } else if (auto* tbl = container->as_table()) {
       if (!tbl->contains(p)) tbl->insert(p, toml::table{});
       container = tbl->get(p);
@@ -133,7 +140,8 @@ const toml::node* TomlSource::find(const std::string& path) const {
     if (const auto* t = n->as_table()) {
       n = t->get(p);
     } else if (const auto* a = n->as_array(); a != nullptr && is_index(p)) {
-      n = a->get(std::stoul(p));
+      const auto idx = index_value(p);
+      n = idx ? a->get(*idx) : nullptr;
     } else {
       return nullptr;
     }
