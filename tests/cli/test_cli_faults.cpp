@@ -1,0 +1,196 @@
+// Faults as tests: absurd sizes are refused by the reader before anything is built, an output
+// folder that cannot be written gives a message and leaves nothing behind, and a run killed
+// while it writes its output leaves the previous result as it was, with at most a
+// DIR.partial-* folder beside it (README: output is written to DIR.partial-PID and moved into
+// place on success only).
+#include <fcntl.h>
+#include <gmock/gmock.h>
+#include <gtest/gtest.h>
+#include <signal.h>
+#include <sys/stat.h>
+#include <sys/types.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include <chrono>
+#include <map>
+#include <thread>
+
+#include "cli_runner.hpp"
+
+namespace oxystrat::test {
+namespace {
+
+using testing::HasSubstr;
+using Clock = std::chrono::steady_clock;
+
+const std::string kSmall = (kDataDir / "small-case.toml").string();
+
+// A refusal reads a few hundred bytes of TOML; building what these inputs ask for would take
+// tens of gigabytes and minutes or more. 30 s separates the two with a wide margin even in a
+// sanitizer build on a loaded machine: a guard against "tried to build it", not a speed target.
+constexpr double kRefusalSeconds = 30.0;
+
+class CliFaults : public CliTest {
+ protected:
+  //! Runs `oxystrat run` on the small case with `sets`; expects a quick exit 1 with `message` on
+  //! stderr and nothing written.
+  void expect_refused(const std::vector<std::string>& sets, const std::vector<std::string>& message) {
+    std::vector<std::string> args = {"run", kSmall, "--out", "res"};
+    for (const auto& s : sets) {
+      args.push_back("--set");
+      args.push_back(s);
+    }
+    const auto t0 = Clock::now();
+    const auto r = oxystrat(args);
+    const double seconds = std::chrono::duration<double>(Clock::now() - t0).count();
+    EXPECT_EQ(r.exit_code, 1) << r.err;
+    EXPECT_LT(seconds, kRefusalSeconds);
+    for (const auto& m : message) EXPECT_THAT(r.err, HasSubstr(m));
+    EXPECT_THAT(r.err, HasSubstr("oxystrat: error: "));
+    EXPECT_TRUE(work_listing().empty()) << "a refused case must not create its output folder";
+  }
+};
+
+TEST_F(CliFaults, HundredMillionZonesByGridKeysAreRefused) {
+  // 10000 x 10000 = 1e8 zones: each key is past its own limit (radial 1-2000, axial 1-20000).
+  expect_refused({"grid.radial=10000", "grid.axial=10000"},
+                 {"--set 'grid.radial=10000'", "out of range: allowed 1 to 2000"});
+}
+
+TEST_F(CliFaults, FortyMillionZonesWithinEachKeysLimitAreRefused) {
+  // 2000 x 20000 passes both single-key ranges; the product limit (4 million zones) refuses it.
+  expect_refused({"grid.radial=2000", "grid.axial=20000"}, {"40000000 zones", "at most 4,000,000"});
+}
+
+TEST_F(CliFaults, OneMillimetreVesselIsRefused) {
+  expect_refused({"vessel.diameter=1 mm"}, {"--set 'vessel.diameter=1 mm'", "out of range", "0.05 m to 20 m"});
+}
+
+TEST_F(CliFaults, MillionRpmIsRefused) {
+  expect_refused({"operation.speed=1e6 rpm"}, {"--set 'operation.speed=1e6 rpm'", "out of range", "3000 rpm"});
+}
+
+TEST_F(CliFaults, OutputUnderARegularFileGivesAMessage) {
+  { std::ofstream(work() / "blocker") << "not a folder\n"; }
+  const auto r = oxystrat({"run", kSmall, "--out", "blocker/res"});
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("oxystrat: error: cannot create blocker"));
+  EXPECT_THAT(r.err, HasSubstr("Not a directory"));
+  EXPECT_EQ(work_listing(), std::vector<std::string>{"blocker"});
+  EXPECT_TRUE(fs::is_regular_file(work() / "blocker"));
+}
+
+TEST_F(CliFaults, OutputWhereNobodyMayCreateFoldersGivesAMessage) {
+  // sysfs refuses mkdir even to root (and is read-only in containers): unwritable for anyone.
+  if (!fs::is_directory("/sys")) GTEST_SKIP() << "no /sys on this machine";
+  const std::string target = "/sys/oxystrat-cli-faults-" + std::to_string(::getpid());
+  const auto r = oxystrat({"run", kSmall, "--out", target});
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("oxystrat: error: cannot create " + target));
+  EXPECT_FALSE(fs::exists(target));
+  EXPECT_TRUE(work_listing().empty());
+}
+
+TEST_F(CliFaults, OutputInAReadOnlyFolderGivesAMessage) {
+  if (::geteuid() == 0) GTEST_SKIP() << "root ignores folder permissions (the /sys test covers this case)";
+  fs::create_directory(work() / "ro");
+  fs::permissions(work() / "ro", fs::perms::owner_read | fs::perms::owner_exec);
+  const auto r = oxystrat({"run", kSmall, "--out", "ro/res"});
+  fs::permissions(work() / "ro", fs::perms::owner_all);
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("oxystrat: error: cannot create ro/res"));
+  EXPECT_TRUE(fs::is_empty(work() / "ro"));
+}
+
+// ---- a run killed with SIGKILL while it writes its output ----
+
+//! Every regular file under `dir` (relative path -> bytes).
+std::map<std::string, std::string> snapshot(const fs::path& dir) {
+  std::map<std::string, std::string> files;
+  for (const auto& e : fs::recursive_directory_iterator(dir)) {
+    if (e.is_regular_file()) files[fs::relative(e.path(), dir).string()] = read_file(e.path());
+  }
+  return files;
+}
+
+//! Starts oxystrat with `args` in `cwd` (output to /dev/null) and returns its pid.
+pid_t spawn(const fs::path& cwd, const std::vector<std::string>& args) {
+  const pid_t pid = ::fork();
+  if (pid == 0) {
+    if (::chdir(cwd.c_str()) != 0) ::_exit(127);
+    const int null = ::open("/dev/null", O_WRONLY);
+    ::dup2(null, 1);
+    ::dup2(null, 2);
+    std::vector<char*> argv;
+    std::string exe = kExe.string();
+    argv.push_back(exe.data());
+    std::vector<std::string> copy = args;
+    for (auto& a : copy) argv.push_back(a.data());
+    argv.push_back(nullptr);
+    ::execv(exe.c_str(), argv.data());
+    ::_exit(127);
+  }
+  return pid;
+}
+
+//! The staging folders DIR.partial-* in `work`.
+std::vector<fs::path> partial_folders(const fs::path& work, const std::string& dir) {
+  std::vector<fs::path> out;
+  for (const auto& e : fs::directory_iterator(work)) {
+    if (e.path().filename().string().rfind(dir + ".partial-", 0) == 0) out.push_back(e.path());
+  }
+  return out;
+}
+
+// A network whose output takes seconds (3200 zones revolved into 360 sectors: over a million VTK
+// cells) and whose computing takes little (no gas, so no oxygen solve): the kill lands while the
+// files are being written.
+const std::vector<std::string> kSlowOutput = {"--set", "grid.radial=40", "--set", "grid.axial=80",
+                                              "--set", "output.sectors=360", "--set", "operation.gas_flow=0 vvm"};
+
+//! Runs the slow-output case into `dir` (with --force) and kills it with SIGKILL as soon as its
+//! staging folder holds result.h5, i.e. once output has begun.
+void kill_during_output(const fs::path& work, const std::string& dir) {
+  std::vector<std::string> args = {"run", kSmall, "--out", dir, "--force"};
+  args.insert(args.end(), kSlowOutput.begin(), kSlowOutput.end());
+  const pid_t pid = spawn(work, args);
+  ASSERT_GT(pid, 0);
+  const auto deadline = Clock::now() + std::chrono::seconds(300);
+  bool writing = false;
+  while (!writing && Clock::now() < deadline) {
+    int status = 0;
+    if (::waitpid(pid, &status, WNOHANG) == pid) {
+      FAIL() << "the run ended (status " << status << ") before it could be killed during output";
+    }
+    for (const auto& p : partial_folders(work, dir)) writing = writing || fs::exists(p / "result.h5");
+    if (!writing) std::this_thread::sleep_for(std::chrono::milliseconds(2));
+  }
+  ASSERT_TRUE(writing) << "output did not begin within 300 s";
+  ASSERT_EQ(::kill(pid, SIGKILL), 0);
+  int status = 0;
+  ASSERT_EQ(::waitpid(pid, &status, 0), pid);
+  EXPECT_TRUE(WIFSIGNALED(status) && WTERMSIG(status) == SIGKILL) << "the run finished before the kill";
+}
+
+TEST_F(CliFaults, KilledDuringOutputLeavesThePreviousResultIntact) {
+  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res"}).exit_code, 0);
+  const auto before = snapshot(work() / "res");
+  ASSERT_TRUE(before.count("result.h5") == 1);
+
+  kill_during_output(work(), "res");
+
+  EXPECT_EQ(snapshot(work() / "res"), before) << "the previous result changed";
+  for (const auto& name : work_listing()) {
+    EXPECT_TRUE(name == "res" || name.rfind("res.partial-", 0) == 0) << "unexpected " << name;
+  }
+}
+
+TEST_F(CliFaults, KilledDuringOutputLeavesNoFolderThatLooksFinished) {
+  kill_during_output(work(), "res");
+  EXPECT_FALSE(fs::exists(work() / "res"));
+  for (const auto& name : work_listing()) EXPECT_EQ(name.rfind("res.partial-", 0), 0u) << "unexpected " << name;
+}
+
+}  // namespace
+}  // namespace oxystrat::test
