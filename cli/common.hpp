@@ -33,6 +33,7 @@ void add_check_command(CLI::App& app);
 void add_mixing_command(CLI::App& app);
 void add_compare_command(CLI::App& app);
 void add_sweep_command(CLI::App& app);
+void add_kla_fit_command(CLI::App& app);
 void add_validate_command(CLI::App& app);
 
 }  // namespace oxystrat::cli

@@ -22,6 +22,7 @@ int run(int argc, char** argv) {
   oxystrat::cli::add_mixing_command(app);
   oxystrat::cli::add_compare_command(app);
   oxystrat::cli::add_sweep_command(app);
+  oxystrat::cli::add_kla_fit_command(app);
   oxystrat::cli::add_validate_command(app);
   try {
     app.parse(argc, argv);
