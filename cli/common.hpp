@@ -35,5 +35,6 @@ void add_compare_command(CLI::App& app);
 void add_sweep_command(CLI::App& app);
 void add_kla_fit_command(CLI::App& app);
 void add_validate_command(CLI::App& app);
+void add_lifelines_command(CLI::App& app);
 
 }  // namespace oxystrat::cli

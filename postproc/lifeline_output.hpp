@@ -1,0 +1,20 @@
+// Output of the lifeline statistics: HDF5 /lifelines, CSV, report section, terminal text.
+#pragma once
+
+#include <string>
+
+#include "h5_writer.hpp"
+#include "lifelines.hpp"
+#include "zone_network.hpp"
+
+namespace oxystrat {
+
+std::string lifeline_text(const LifelineResult& r, double critical_do_mol_m3);
+void write_lifelines_h5(H5Writer& h5, const LifelineResult& r, const LifelineOptions& o);
+//! Per cell: share of time below critical DO; and the kept trajectories (time, zone, DO).
+void write_lifelines_csv(const std::string& cells_path, const std::string& paths_path, const LifelineResult& r,
+                         const std::vector<double>& do_mol_m3);
+std::string lifeline_html(const LifelineResult& r, const ZoneNetwork& net, const std::vector<double>& do_mol_m3,
+                          double critical_do_mol_m3);
+
+}  // namespace oxystrat
