@@ -9,14 +9,34 @@
 
 namespace oxystrat {
 
+namespace {
+
+// A grid coarser than `finer` (zone count n_finer) by a cell-size ratio of at least 1.5: the
+// alignment lines keep some cells, so the counts are reduced step by step until the measured
+// ratio sqrt(n_finer / n) reaches 1.5.
+Grid coarser(const Case& c, const Grid& finer, int n_finer) {
+  for (double f = 1.5; f < 20.0; f += 0.05) {
+    Case ci = c;
+    ci.grid.radial = std::max(1, static_cast<int>(std::lround(finer.radial / f)));
+    ci.grid.axial = std::max(1, static_cast<int>(std::lround(finer.axial / f)));
+    if (std::sqrt(static_cast<double>(n_finer) / build_zone_geometry(ci).size()) >= 1.5) return ci.grid;
+  }
+  return Grid{1, 1};
+}
+
+}  // namespace
+
 GridCheck grid_check(const Case& c) {
   GridCheck g;
-  const double factors[3] = {1.0, 1.5, 2.25};
+  Grid grids[3] = {c.grid, {}, {}};
+  grids[1] = coarser(c, grids[0], build_zone_geometry(c).size());
+  Case medium = c;
+  medium.grid = grids[1];
+  grids[2] = coarser(c, grids[1], build_zone_geometry(medium).size());
   double values[3][3] = {};  // [grid][quantity]
   for (int i = 0; i < 3; ++i) {
     Case ci = c;
-    ci.grid.radial = std::max(1, static_cast<int>(std::lround(c.grid.radial / factors[i])));
-    ci.grid.axial = std::max(1, static_cast<int>(std::lround(c.grid.axial / factors[i])));
+    ci.grid = grids[i];
     const auto run = run_case(ci, {false});
     g.zones[i] = run.net.size();
     g.cell_size[i] = std::sqrt(run.net.shape.radius() * run.net.liquid_height / run.net.size());

@@ -1,4 +1,4 @@
-// --grid-check: the case on its own grid and two coarser ones (ratio 1.5 each), with the observed
+// --grid-check: the case on its own grid and two coarser ones (cell-size ratio >= 1.5 each), with the observed
 // order and GCI of DO_min, the below-critical share and theta95.
 #pragma once
 
