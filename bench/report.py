@@ -158,7 +158,7 @@ def main():
     linear = benchmarks(out, "linear")
     linear_rows = []
     for lb in linear:
-        extra = ", ".join(f"{k} {lb[k]:.3g}" for k in ("nnz_A", "nnz_LU", "iterations") if k in lb)
+        extra = ", ".join(f"{k} {lb[k]:.3g}" for k in ("nnz_A", "nnz_LU", "krylov_iterations") if k in lb)
         linear_rows.append(f"| `{lb['name']}` | {lb['zones']:.0f} | {seconds(lb) * 1e3:.3g} ms | {extra} |")
 
     context = (load(os.path.join(out, "steady.json")) or {}).get("context", {})
