@@ -86,7 +86,7 @@ void add_kla_fit_command(CLI::App& app) {
       h5.close();
     }
     write_text_file(folder->file("report.html").string(),
-                    report_page("oxystrat kla-fit: " + trace.file_name, kla_fit_report_body(trace, fo, fit)));
+                    report_page("oxystrat kla-fit: " + trace.file_name, kla_fit_report_body(trace, fo, fit), false));
     folder->commit();
     fmt::print("Wrote {}/fit.csv, result.h5, report.html\n", folder->target().string());
   });

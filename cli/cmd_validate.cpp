@@ -29,7 +29,7 @@ void add_validate_command(CLI::App& app) {
       write_validation_h5(h5, results);
       h5.close();
     }
-    write_text_file(folder.file("report.html").string(), report_page("oxystrat validation", validation_html(results)));
+    write_text_file(folder.file("report.html").string(), report_page("oxystrat validation", validation_html(results), false));
     folder.commit();
     fmt::print("{} of {} checks pass. Wrote {}/validation.csv, result.h5, report.html\n", results.size() - failed,
                results.size(), folder.target().string());

@@ -208,7 +208,7 @@ std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResu
   return s;
 }
 
-std::string report_page(const std::string& title, const std::string& body) {
+std::string report_page(const std::string& title, const std::string& body, bool zone_model_method) {
   std::string s = "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>" + escape(title) +
                   "</title>\n<style>body{font-family:sans-serif;margin:24px;max-width:1400px;color:#222}"
                   "table{border-collapse:collapse;margin:8px 0}td,th{border:1px solid #ccc;padding:3px 8px;font-size:13px}"
@@ -217,6 +217,7 @@ std::string report_page(const std::string& title, const std::string& body) {
                   "h2{border-bottom:2px solid #1f77b4}</style></head>\n<body>\n<h1>" +
                   escape(title) + "</h1>\n";
   s += body;
+  if (!zone_model_method) return s + "</body></html>\n";
   s += R"html(<h2>Method and references</h2>
 <p>The vessel is split into axisymmetric annular zones aligned with every impeller and the sparger.
 Liquid flows follow a stream function built from one loop per impeller discharge (exact zone

@@ -16,8 +16,8 @@ namespace oxystrat {
 //! profiles, cautions.
 std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s);
 
-//! A complete page: title, the body, then the method and references.
-std::string report_page(const std::string& title, const std::string& body);
+//! A complete page: title, the body, then (for zone-model reports) the method and references.
+std::string report_page(const std::string& title, const std::string& body, bool zone_model_method = true);
 
 //! Cases side by side: one table column per case, bars per configuration, DO profiles together.
 struct ComparedCase {
