@@ -88,6 +88,81 @@ double local_kla(const Case& c, double eps, double vs, double holdup) {
 
 }  // namespace
 
+OxygenSetup::OxygenSetup(const OxygenContext& context, double biomass_kg_m3) : ctx(context) {
+  const Case& c = ctx.c;
+  const auto& net = ctx.net;
+  const double t = c.vessel.temperature_k;
+  water_pressure_pa = physics::water_vapour_pressure(t);
+  const double molar = ctx.hydro.gas_molar_flow_mol_s;
+  if (molar <= 0.0) throw SolveError("no gas is sparged: the oxygen field is not solved");
+  inlet_o2_mol_s = molar * c.operation.oxygen_fraction;
+  inlet_co2_mol_s = molar * c.operation.co2_fraction;
+  const double in_inert = molar - inlet_o2_mol_s - inlet_co2_mol_s;
+  henry_o2 = physics::henry_o2(t) * physics::salting_out_factor(physics::Gas::o2, t, c.broth.ions_mol_m3);
+  henry_co2 = physics::henry_co2(t) * physics::salting_out_factor(physics::Gas::co2, t, c.broth.ions_mol_m3);
+  const double x_bio = biomass_kg_m3 >= 0.0 ? biomass_kg_m3 : c.culture.biomass_kg_m3;
+  uptake.rate_mol_m3_s = c.culture.q_o2_max_mol_kg_s * x_bio;
+  uptake.k_o2_mol_m3 = c.culture.k_o2_mol_m3;
+  uptake.rq = c.culture.rq;
+  transport = transport_matrix(net, ctx.hydro.face_flow, ctx.hydro.face_exchange);
+  coeff.inert_flow = carry(ctx.routing, net, in_inert);
+  // Vessel-level correlation: total gassed power per volume and vs at mid-height (ungassed).
+  const double p_mid = c.vessel.head_pressure_pa + 0.5 * c.broth.density_kg_m3 * kG * c.vessel.liquid_height_m;
+  const double vs_mid = molar * kR * t / (p_mid - water_pressure_pa) / (std::numbers::pi * std::pow(net.shape.radius(), 2));
+  kla_vessel_1_s =
+      vant_riet_kla(vant_riet_constants(c.broth.coalescence, c.model), ctx.hydro.power_gassed_w / c.vessel.working_volume_m3,
+                    vs_mid) *
+      kla_temperature_factor(t) * c.model.kla_factor;
+}
+
+Eigen::VectorXd OxygenSetup::initial_state() const {
+  const Case& c = ctx.c;
+  const int n = ctx.net.size();
+  const auto o = carry(ctx.routing, ctx.net, inlet_o2_mol_s), q = carry(ctx.routing, ctx.net, inlet_co2_mol_s);
+  std::vector<double> m(n);
+  for (int k = 0; k < n; ++k) m[k] = o[k] + q[k] + coeff.inert_flow[k];
+  const auto g0 = gas_state(ctx, m);
+  Eigen::VectorXd x(4 * n);
+  for (int k = 0; k < n; ++k) {
+    x[4 * k] = 0.5 * henry_o2 * c.operation.oxygen_fraction * (g0.pressure[k] - water_pressure_pa);
+    x[4 * k + 1] = henry_co2 * c.operation.co2_fraction * (g0.pressure[k] - water_pressure_pa);
+    x[4 * k + 2] = o[k];
+    x[4 * k + 3] = q[k];
+  }
+  return x;
+}
+
+void OxygenSetup::update(const Eigen::VectorXd& x) {
+  const Case& c = ctx.c;
+  const auto& net = ctx.net;
+  const int n = net.size();
+  std::vector<double> molar_flow(n);
+  for (int k = 0; k < n; ++k) molar_flow[k] = x[4 * k + 2] + x[4 * k + 3] + coeff.inert_flow[k];
+  const GasState gas = gas_state(ctx, molar_flow);
+  holdup = gas.holdup;
+  pressure_pa = gas.pressure;
+  superficial_m_s = gas.superficial;
+  coeff.transfer_o2.resize(n);
+  coeff.transfer_co2.resize(n);
+  coeff.cstar_per_y_o2.resize(n);
+  coeff.cstar_per_y_co2.resize(n);
+  std::vector<double> kla(n);
+  double kla_volume = 0.0;
+  for (int k = 0; k < n; ++k) {
+    kla[k] = local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k]);
+    kla_volume += kla[k] * net.volume[k];
+  }
+  // The published correlation fixes the vessel's total; the local form only distributes it.
+  const bool normalise = c.model.kla_normalise && c.model.kla_model == KlaModel::local_correlation;
+  const double scale = normalise && kla_volume > 0.0 ? kla_vessel_1_s * net.total_volume() / kla_volume : 1.0;
+  for (int k = 0; k < n; ++k) {
+    coeff.transfer_o2[k] = scale * kla[k] * net.volume[k];
+    coeff.transfer_co2[k] = co2_kla_ratio * coeff.transfer_o2[k];
+    coeff.cstar_per_y_o2[k] = henry_o2 * (gas.pressure[k] - water_pressure_pa);
+    coeff.cstar_per_y_co2[k] = henry_co2 * (gas.pressure[k] - water_pressure_pa);
+  }
+}
+
 OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, const OxygenField* warm,
                                NewtonWorkspace* workspace) {
   NewtonWorkspace local;
@@ -96,81 +171,21 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   const auto& net = ctx.net;
   const int n = net.size();
   const double t = c.vessel.temperature_k;
-  const double pw = physics::water_vapour_pressure(t);
-  const double molar = ctx.hydro.gas_molar_flow_mol_s;
-  if (molar <= 0.0) throw SolveError("no gas is sparged: the oxygen field is not solved");
-  const double in_o2 = molar * c.operation.oxygen_fraction;
-  const double in_co2 = molar * c.operation.co2_fraction;
-  const double in_inert = molar - in_o2 - in_co2;
+  OxygenSetup setup(ctx, biomass_kg_m3);
+  const auto& coeff = setup.coeff;
+  const auto& uptake = setup.uptake;
+  const auto& transport = setup.transport;
+  const double in_o2 = setup.inlet_o2_mol_s, in_co2 = setup.inlet_co2_mol_s;
+  const double h_co2 = setup.henry_co2;
   const double salt_o2 = physics::salting_out_factor(physics::Gas::o2, t, c.broth.ions_mol_m3);
-  const double salt_co2 = physics::salting_out_factor(physics::Gas::co2, t, c.broth.ions_mol_m3);
-  const double h_o2 = physics::henry_o2(t) * salt_o2;
-  const double h_co2 = physics::henry_co2(t) * salt_co2;
-
-  Uptake uptake;
-  const double x_bio = biomass_kg_m3 >= 0.0 ? biomass_kg_m3 : c.culture.biomass_kg_m3;
-  uptake.rate_mol_m3_s = c.culture.q_o2_max_mol_kg_s * x_bio;
-  uptake.k_o2_mol_m3 = c.culture.k_o2_mol_m3;
-  uptake.rq = c.culture.rq;
-
-  const SparseMatrix transport = transport_matrix(net, ctx.hydro.face_flow, ctx.hydro.face_exchange);
-  TransferCoefficients coeff;
-  coeff.inert_flow = carry(ctx.routing, net, in_inert);
-
-  Eigen::VectorXd x(4 * n);
-  std::vector<double> molar_flow(n);
-  if (warm != nullptr && warm->state.size() == 4 * n) {
-    x = warm->state;
-  } else {
-    const auto o = carry(ctx.routing, net, in_o2), q = carry(ctx.routing, net, in_co2);
-    const auto g0 = gas_state(ctx, [&] {
-      std::vector<double> m(n);
-      for (int k = 0; k < n; ++k) m[k] = o[k] + q[k] + coeff.inert_flow[k];
-      return m;
-    }());
-    for (int k = 0; k < n; ++k) {
-      x[4 * k] = 0.5 * h_o2 * c.operation.oxygen_fraction * (g0.pressure[k] - pw);
-      x[4 * k + 1] = h_co2 * c.operation.co2_fraction * (g0.pressure[k] - pw);
-      x[4 * k + 2] = o[k];
-      x[4 * k + 3] = q[k];
-    }
-  }
-
-  // Vessel-level correlation: total gassed power per volume and vs at mid-height (ungassed).
-  const double p_mid = c.vessel.head_pressure_pa + 0.5 * c.broth.density_kg_m3 * kG * c.vessel.liquid_height_m;
-  const double vs_mid = molar * kR * t / (p_mid - pw) / (std::numbers::pi * std::pow(net.shape.radius(), 2));
-  const double kla_vessel =
-      vant_riet_kla(vant_riet_constants(c.broth.coalescence, c.model), ctx.hydro.power_gassed_w / c.vessel.working_volume_m3,
-                    vs_mid) *
-      kla_temperature_factor(t) * c.model.kla_factor;
-  const bool normalise = c.model.kla_normalise && c.model.kla_model == KlaModel::local_correlation;
+  Eigen::VectorXd x = warm != nullptr && warm->state.size() == 4 * n ? warm->state : setup.initial_state();
 
   OxygenField f;
-  GasState gas;
   NewtonReport rep;
+  std::vector<double> previous;
   // Outer loop: holdup, pressure and kLa follow the gas flows of the last solution.
   for (f.outer_iterations = 1; f.outer_iterations <= 30; ++f.outer_iterations) {
-    for (int k = 0; k < n; ++k) molar_flow[k] = x[4 * k + 2] + x[4 * k + 3] + coeff.inert_flow[k];
-    const auto previous = gas.holdup;
-    gas = gas_state(ctx, molar_flow);
-    coeff.transfer_o2.resize(n);
-    coeff.transfer_co2.resize(n);
-    coeff.cstar_per_y_o2.resize(n);
-    coeff.cstar_per_y_co2.resize(n);
-    std::vector<double> kla(n);
-    double kla_volume = 0.0;
-    for (int k = 0; k < n; ++k) {
-      kla[k] = local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k]);
-      kla_volume += kla[k] * net.volume[k];
-    }
-    // The published correlation fixes the vessel's total; the local form only distributes it.
-    const double scale = normalise && kla_volume > 0.0 ? kla_vessel * net.total_volume() / kla_volume : 1.0;
-    for (int k = 0; k < n; ++k) {
-      coeff.transfer_o2[k] = scale * kla[k] * net.volume[k];
-      coeff.transfer_co2[k] = co2_kla_ratio * coeff.transfer_o2[k];
-      coeff.cstar_per_y_o2[k] = h_o2 * (gas.pressure[k] - pw);
-      coeff.cstar_per_y_co2[k] = h_co2 * (gas.pressure[k] - pw);
-    }
+    setup.update(x);
     const OxygenProblem problem(net, ctx.routing, transport, coeff, uptake, in_o2, in_co2);
     Eigen::VectorXd trial = x;
     rep = solve_newton(problem, trial, {}, &ws);
@@ -194,7 +209,8 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
     x = trial;
     f.newton_iterations += rep.iterations;
     double change = previous.empty() ? 1.0 : 0.0;
-    for (int k = 0; k < n && !previous.empty(); ++k) change = std::max(change, std::abs(gas.holdup[k] - previous[k]));
+    for (int k = 0; k < n && !previous.empty(); ++k) change = std::max(change, std::abs(setup.holdup[k] - previous[k]));
+    previous = setup.holdup;
     if (change < 1e-6) break;  // holdup to 1e-6: far below the model's accuracy
   }
 
@@ -207,9 +223,9 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
                   &f.y_co2, &f.pco2_pa, &f.do_saturation}) {
     resize(*v);
   }
-  f.holdup = gas.holdup;
-  f.pressure_pa = gas.pressure;
-  f.superficial_gas_m_s = gas.superficial;
+  f.holdup = setup.holdup;
+  f.pressure_pa = setup.pressure_pa;
+  f.superficial_gas_m_s = setup.superficial_m_s;
   const double total_v = net.total_volume();
   double kla_v = 0.0, do_v = 0.0, below_v = 0.0;
   f.do_min = std::numeric_limits<double>::infinity();
@@ -252,7 +268,7 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   f.offgas_y_o2 = out_o / (out_o + out_c + out_i);
   f.offgas_y_co2 = out_c / (out_o + out_c + out_i);
   f.o2_balance_error = (in_o2 - out_o - f.otr_total_mol_s) / in_o2;
-  f.kla_vessel_1_s = kla_vessel;
+  f.kla_vessel_1_s = setup.kla_vessel_1_s;
   return f;
 }
 

@@ -10,7 +10,9 @@
 #include "case/case.hpp"
 #include "gas_routing.hpp"
 #include "hydrodynamics.hpp"
+#include "oxygen_problem.hpp"
 #include "steady_problem.hpp"
+#include "transport.hpp"
 #include "zone_network.hpp"
 
 namespace oxystrat {
@@ -58,6 +60,27 @@ struct OxygenContext {
   const ZoneNetwork& net;
   const Hydrodynamics& hydro;
   const GasRouting& routing;
+};
+
+//! The fixed parts of the O2/CO2 balances of a context (inlet, Henry coefficients, uptake,
+//! transport) and the parts that follow the gas flows (holdup, pressure, kLa, C*), which update()
+//! recomputes from a state. Shared by the steady and the transient solves.
+struct OxygenSetup {
+  OxygenSetup(const OxygenContext& ctx, double biomass_kg_m3);
+  //! Inlet gas carried through the routing with no transfer, DO at half saturation.
+  Eigen::VectorXd initial_state() const;
+  //! Holdup, pressure, kLa and C* per unit mole fraction at the gas flows of `state`.
+  void update(const Eigen::VectorXd& state);
+
+  const OxygenContext& ctx;
+  double inlet_o2_mol_s = 0.0, inlet_co2_mol_s = 0.0;
+  double henry_o2 = 0.0, henry_co2 = 0.0;  //!< with salting-out [mol/(m3 Pa)]
+  double water_pressure_pa = 0.0;
+  double kla_vessel_1_s = 0.0;
+  Uptake uptake;
+  SparseMatrix transport;
+  TransferCoefficients coeff;
+  std::vector<double> holdup, pressure_pa, superficial_m_s;
 };
 
 //! Steady field at biomass `biomass_kg_m3` (the case's own when negative). `warm` may hold a
