@@ -117,6 +117,26 @@ struct Constraints {
   bool allow_flooding = false;
 };
 
+//! DO control for transient runs: a PI loop on the DO at a probe, acting in cascade on speed,
+//! gas flow and O2 fraction within the limits.
+struct ControlSettings {
+  bool enabled = false;
+  double setpoint_mol_m3 = 0.0;
+  double probe_r_m = 0.0, probe_z_m = 0.0;
+  double gain = 5.0;              //!< proportional gain on the error in units of air saturation [-]
+  double integral_time_s = 120.0;
+  double interval_s = 10.0;       //!< update period [s]
+  double speed_min_rps = 0.0, speed_max_rps = 0.0;       //!< 0: the case's speed
+  double gas_min_m3_s = -1.0, gas_max_m3_s = -1.0;       //!< normal m3/s; < 0: the case's gas flow
+  double oxygen_max = -1.0;                              //!< < 0: the case's O2 fraction
+};
+
+//! A step change in a transient run: case keys set from `time_s` on (as --set arguments).
+struct EventSpec {
+  double time_s = 0.0;
+  std::vector<std::string> sets;
+};
+
 struct Case {
   std::string title;
   Vessel vessel;
@@ -130,6 +150,8 @@ struct Case {
   Output output;
   ModelConstants model;
   Constraints constraints;
+  ControlSettings control;
+  std::vector<EventSpec> events;
 };
 
 std::string to_string(BottomShape s);

@@ -277,6 +277,35 @@ void read_constraints(TomlSource& src, Case& c) {
   k.allow_flooding = src.boolean("constraints.allow_flooding").value_or(false);
 }
 
+void read_control(TomlSource& src, Case& c) {
+  src.allow_table("control");
+  auto& k = c.control;
+  k.enabled = src.boolean("control.enabled").value_or(src.has("control"));
+  if (src.has("control.setpoint")) k.setpoint_mol_m3 = read_o2_concentration(src, "control.setpoint", c, {0.0, 2.0}, "30 %");
+  if (k.enabled && !src.has("control.setpoint")) src.missing("control.setpoint", "the DO set-point, e.g. setpoint = \"30 %\"");
+  const double h = c.vessel.liquid_height_m, r = 0.5 * c.vessel.diameter_m;
+  k.probe_r_m = src.quantity_or("control.probe_radius", Dimension::length, {0.0, r}, 0.9 * r);
+  k.probe_z_m = src.quantity_or("control.probe_height", Dimension::length, {0.0, h}, 0.25 * h);
+  k.gain = src.number("control.gain", {0.0, 1000.0}).value_or(k.gain);
+  k.integral_time_s = src.quantity_or("control.integral_time", Dimension::time, {1.0, 1e6}, k.integral_time_s);
+  k.interval_s = src.quantity_or("control.interval", Dimension::time, {0.1, 3600.0}, k.interval_s);
+  k.speed_min_rps = src.quantity_or("control.speed_min", Dimension::speed, {0.0, 50.0}, c.operation.speed_rps);
+  k.speed_max_rps = src.quantity_or("control.speed_max", Dimension::speed, {0.0, 50.0}, k.speed_min_rps);
+  if (const auto g = src.string("control.gas_min")) k.gas_min_m3_s = read_gas_flow(src, "control.gas_min", c.vessel);
+  if (const auto g = src.string("control.gas_max")) k.gas_max_m3_s = read_gas_flow(src, "control.gas_max", c.vessel);
+  k.oxygen_max = src.number("control.oxygen_max", {0.0, 1.0}).value_or(-1.0);
+  src.allow_table("event");
+  for (size_t i = 0; i < src.array_size("event"); ++i) {
+    const std::string p = fmt::format("event.{}.", i);
+    EventSpec e;
+    e.time_s = src.require_quantity(p + "time", Dimension::time, {0.0, 1e8}, "2 h");
+    const auto set = src.string(p + "set");
+    if (!set) src.missing(p + "set", "the key it changes, e.g. set = \"culture.biomass=30 g/L\"");
+    e.sets.push_back(*set);
+    c.events.push_back(e);
+  }
+}
+
 void read_numerics(TomlSource& src, Case& c) {
   src.allow_table("grid");
   c.grid.radial = src.integer("grid.radial", 1, 2000).value_or(c.grid.radial);
@@ -421,6 +450,7 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   read_culture(src, c);
   read_numerics(src, c);
   read_constraints(src, c);
+  read_control(src, c);
   src.check_no_unknown_keys();
   check_geometry(src, c, out.notes);
   out.file_name = file_name;
