@@ -112,8 +112,17 @@ def main():
         rows.append((f"steady solve, {hb['zones']:.3g} zones", f"{seconds(hb):.4g} s{peak}", "(fits in memory and time)",
                      "ran", "bench_steady --huge --benchmark_filter=BM_SteadySolveHuge"))
     elif os.path.exists(os.path.join(out, "huge.failed")):
-        rows.append(("steady solve, 1e6 zones", "failed (see bench/notes.md)", "(fits in memory and time)", "**missed**",
-                     "bench_steady --huge"))
+        why = open(os.path.join(out, "huge.failed")).read()
+        what = "std::bad_alloc" if "bad_alloc" in why else ("timed out" if why.startswith("exit 124") else why.strip()[:80])
+        tv = os.path.join(out, "huge.time")
+        facts = ""
+        if os.path.exists(tv):
+            t = open(tv).read()
+            m = re.search(r"Maximum resident set size \(kbytes\): (\d+)", t)
+            e = re.search(r"Elapsed \(wall clock\) time \(h:mm:ss or m:ss\): (\S+)", t)
+            facts = f" after {e.group(1) if e else '?'} (m:ss), {int(m.group(1)) / 1048576:.1f} GiB resident" if m else ""
+        rows.append(("steady solve, 1e6 zones (address space capped at 16 GiB, 30 min)", f"failed: {what}{facts}",
+                     "(fits in memory and time)", "**missed**", "bench/run --huge"))
     sweep = benchmarks(out, "sweep")
     s1, s2 = find(sweep, r"BM_Sweep/1/"), find(sweep, r"BM_Sweep/2/")
     if s1 and s2:
