@@ -22,7 +22,7 @@ OxygenProblem::OxygenProblem(const ZoneNetwork& net, const GasRouting& routing, 
     }
   }
   // Zero for a residual means small against the O2 fed and the largest possible uptake.
-  const double max_uptake = uptake_.rate_mol_m3_s * net.total_volume();
+  const double max_uptake = uptake_.rate_mol_m3_s * uptake_.largest_scale() * net.total_volume();
   scale_ = std::max({inlet_o2_, max_uptake, 1e-300});
 }
 
@@ -43,7 +43,7 @@ void OxygenProblem::residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const
     const double yc = total > 0.0 ? nc / total : 0.0;
     const double otr = coeff_.transfer_o2[k] * (coeff_.cstar_per_y_o2[k] * y - c);
     const double ctr = coeff_.transfer_co2[k] * (coeff_.cstar_per_y_co2[k] * yc - d);
-    const double our = uptake_.our(c) * net_.volume[k];
+    const double our = uptake_.our(c) * uptake_.scale(k) * net_.volume[k];
     double in_o = inlet_o2_ * net_.sparger_share[k], in_c = inlet_co2_ * net_.sparger_share[k];
     for (const auto& f : inflows_[k]) {
       in_o += f.share * x[4 * f.from + 2];
@@ -78,7 +78,7 @@ void OxygenProblem::jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triple
       dyc_dnc = (total - nc) / t2;
       dyc_dno = -nc / t2;
     }
-    const double dour = uptake_.dour(x[c]) * net_.volume[k];
+    const double dour = uptake_.dour(x[c]) * uptake_.scale(k) * net_.volume[k];
     // d OTR / d(C, n_O2, n_CO2) and d CTR / d(D, n_O2, n_CO2)
     const double otr_c = -t_o, otr_no = t_o * k_o * dy_dno, otr_nc = t_o * k_o * dy_dnc;
     const double ctr_d = -t_c, ctr_nc = t_c * k_c * dyc_dnc, ctr_no = t_c * k_c * dyc_dno;

@@ -32,6 +32,13 @@ struct Uptake {
   double rate_mol_m3_s = 0.0;  //!< q_O2,max X [mol/(m3 s)]
   double k_o2_mol_m3 = 0.0;
   double rq = 1.0;
+  //! Per-zone multiplier of the rate (a transient culture with local substrate limitation and
+  //! biomass); empty means 1 everywhere.
+  std::vector<double> zone_scale;
+  double scale(int zone) const { return zone_scale.empty() ? 1.0 : zone_scale[zone]; }
+  double largest_scale() const {
+    return zone_scale.empty() ? 1.0 : *std::max_element(zone_scale.begin(), zone_scale.end());
+  }
   //! OUR at dissolved O2 c [mol/(m3 s)]: Monod for c >= 0, continued linearly below 0 so Newton
   //! sees a smooth function (the steady solution itself is positive). A Monod constant below
   //! 1e-9 mol/m3 (zero order) is treated as 1e-9 mol/m3.
