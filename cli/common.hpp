@@ -37,5 +37,6 @@ void add_kla_fit_command(CLI::App& app);
 void add_validate_command(CLI::App& app);
 void add_lifelines_command(CLI::App& app);
 void add_transient_command(CLI::App& app);
+void add_calibrate_command(CLI::App& app);
 
 }  // namespace oxystrat::cli

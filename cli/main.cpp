@@ -26,6 +26,7 @@ int run(int argc, char** argv) {
   oxystrat::cli::add_validate_command(app);
   oxystrat::cli::add_lifelines_command(app);
   oxystrat::cli::add_transient_command(app);
+  oxystrat::cli::add_calibrate_command(app);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

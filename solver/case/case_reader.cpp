@@ -4,6 +4,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <filesystem>
 #include <fstream>
 #include <numbers>
 #include <sstream>
@@ -334,6 +335,80 @@ void read_numerics(TomlSource& src, Case& c) {
   m.multiple_impeller_factor = src.number("model.multiple_impeller_factor", {0.3, 1.0}).value_or(1.0);
 }
 
+// include = ["calibration.toml"]: [model] keys kept in other files (e.g. the fragment `oxystrat
+// calibrate` writes), paths relative to the case file's folder. Included keys are defaults: the
+// case's own keys and --set override them. An included file may hold only a [model] table, so
+// includes do not nest and cannot form cycles. Each file is checked on its own first, so a bad
+// value is reported at its own file and line.
+void merge_includes(toml::table& root, const std::string& file_name) {
+  const toml::node* inc = root.get("include");
+  if (inc == nullptr) return;
+  const auto line = inc->source().begin.line;
+  const auto bad = [&] {
+    throw CaseError(fmt::format("{}:{}: include: expected a list of file names, e.g. include = [\"calibration.toml\"]",
+                                file_name, line));
+  };
+  std::vector<std::string> names;
+  if (const auto* s = inc->as_string()) {
+    names.push_back(s->get());
+  } else if (const auto* a = inc->as_array()) {
+    for (const auto& e : *a) {
+      if (!e.is_string()) bad();
+      names.push_back(e.as_string()->get());
+    }
+  } else {
+    bad();
+  }
+  std::vector<std::string> seen;
+  for (const auto& name : names) {
+    std::filesystem::path path(name);
+    if (path.is_relative()) path = std::filesystem::path(file_name).parent_path() / path;
+    const std::string shown = path.lexically_normal().string();
+    if (std::find(seen.begin(), seen.end(), shown) != seen.end()) {
+      throw CaseError(fmt::format("{}:{}: include: {} is listed twice", file_name, line, shown));
+    }
+    seen.push_back(shown);
+    std::ifstream in(path, std::ios::binary);
+    if (!in) {
+      throw CaseError(fmt::format("{}:{}: include = \"{}\": cannot open {} (a relative path is taken from the case "
+                                  "file's folder)",
+                                  file_name, line, name, shown));
+    }
+    std::ostringstream ss;
+    ss << in.rdbuf();
+    const std::string text = ss.str();
+    toml::table fragment;
+    try {
+      fragment = toml::parse(text, shown);
+    } catch (const toml::parse_error& e) {
+      throw CaseError(fmt::format("{}:{}: not valid TOML: {} (included by {}:{})", shown, e.source().begin.line,
+                                  e.description(), file_name, line));
+    }
+    for (const auto& [key, node] : fragment) {
+      if (key.str() == "model" && node.is_table()) continue;
+      throw CaseError(fmt::format("{}:{}: {}: an included file may hold only a [model] table{} (included by {}:{})",
+                                  shown, node.source().begin.line, key.str(),
+                                  key.str() == "include" ? "; includes do not nest" : "", file_name, line));
+    }
+    {
+      TomlSource check(toml::parse(text, shown), shown);  // parsed again: a copy would lose the lines
+      Case scratch;
+      read_numerics(check, scratch);
+      check.check_no_unknown_keys();
+    }
+    if (!root.contains("model")) root.insert("model", toml::table{});
+    auto* target = root.get("model")->as_table();
+    if (target == nullptr) {
+      throw CaseError(fmt::format("{}:{}: model must be a table, written [model]", file_name,
+                                  root.get("model")->source().begin.line));
+    }
+    for (const auto& [key, value] : *fragment.get("model")->as_table()) {
+      if (!target->contains(key.str())) value.visit([&](auto&& v) { target->insert(key.str(), v); });
+    }
+  }
+  root.erase("include");
+}
+
 // Geometry that the single keys cannot check alone.
 void check_geometry(const TomlSource& src, const Case& c, std::vector<std::string>& notes) {
   const VesselShape shape(c.vessel.diameter_m, c.vessel.bottom);
@@ -434,6 +509,7 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   } catch (const toml::parse_error& e) {
     throw CaseError(fmt::format("{}:{}: not valid TOML: {}", file_name, e.source().begin.line, e.description()));
   }
+  merge_includes(root, file_name);
   TomlSource src(std::move(root), file_name);
   LoadedCase out;
   for (const auto& o : overrides) {
