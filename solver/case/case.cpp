@@ -1,5 +1,7 @@
 #include "case/case.hpp"
 
+#include <algorithm>
+
 namespace oxystrat {
 
 std::string to_string(BottomShape s) {
@@ -37,6 +39,29 @@ int pumping_direction(ImpellerType t) {
     case ImpellerType::hydrofoil_up: return +1;
     default: return 0;
   }
+}
+
+}  // namespace oxystrat
+
+namespace oxystrat {
+
+double Feed::rate_at(double t) const {
+  if (!enabled || time_s.empty() || t < time_s.front()) return 0.0;
+  if (t >= time_s.back()) return rate_m3_s.back();
+  const auto hi = static_cast<size_t>(std::upper_bound(time_s.begin(), time_s.end(), t) - time_s.begin());
+  const double f = (t - time_s[hi - 1]) / (time_s[hi] - time_s[hi - 1]);
+  return rate_m3_s[hi - 1] + f * (rate_m3_s[hi] - rate_m3_s[hi - 1]);
+}
+
+double Feed::volume_until(double t) const {
+  if (!enabled || time_s.empty() || t <= time_s.front()) return 0.0;
+  double v = 0.0;
+  for (size_t i = 1; i < time_s.size() && time_s[i - 1] < t; ++i) {
+    const double end = std::min(t, time_s[i]);
+    v += 0.5 * (rate_m3_s[i - 1] + rate_at(end)) * (end - time_s[i - 1]);
+  }
+  if (t > time_s.back()) v += rate_m3_s.back() * (t - time_s.back());
+  return v;
 }
 
 }  // namespace oxystrat

@@ -77,6 +77,30 @@ struct Culture {
   double k_o2_mol_m3 = 0.0;            //!< Monod constant for O2 [mol/m3]
   double critical_do_mol_m3 = 0.0;     //!< Critical dissolved O2 [mol/m3]
   double rq = 1.0;                     //!< Respiratory quotient CER/OUR [-]
+  // Growth on a substrate, used by transient runs only (growth_rate_max 0: no growth, and the
+  // uptake is q_o2_max X C/(K_O2 + C) as in steady runs).
+  double growth_rate_max_s = 0.0;            //!< mu_max [1/s]
+  double k_substrate_kg_m3 = 0.0;            //!< Monod constant of the substrate K_S [kg/m3]
+  double yield_substrate = 0.5;              //!< Y_X/S biomass per substrate [kg/kg]
+  double yield_oxygen = 0.0;                 //!< Y_X/O biomass per O2 [kg/kg]; 0: mu_max / (q_o2_max - m_O)
+  double maintenance_substrate_s = 0.0;      //!< m_S [kg substrate/(kg biomass s)]
+  double maintenance_o2_mol_kg_s = 0.0;      //!< m_O [mol O2/(kg biomass s)]
+  double substrate_kg_m3 = 0.0;              //!< Substrate at the start [kg/m3]
+  bool grows() const { return growth_rate_max_s > 0.0; }
+};
+
+//! Substrate feed of a fed-batch, at one position, with a pump-rate profile (piecewise linear in
+//! time, held after its last point).
+struct Feed {
+  bool enabled = false;
+  double r_m = 0.0, z_m = 0.0;          //!< feed point [m]
+  double concentration_kg_m3 = 0.0;     //!< substrate in the feed [kg/m3]
+  std::vector<double> time_s;           //!< profile times, increasing [s]
+  std::vector<double> rate_m3_s;        //!< pump rate at those times [m3/s]
+  //! Pump rate at time t [m3/s].
+  double rate_at(double t) const;
+  //! Volume pumped from 0 to t [m3] (exact integral of the profile).
+  double volume_until(double t) const;
 };
 
 struct Grid {
@@ -152,6 +176,7 @@ struct Case {
   Constraints constraints;
   ControlSettings control;
   std::vector<EventSpec> events;
+  Feed feed;
 };
 
 std::string to_string(BottomShape s);

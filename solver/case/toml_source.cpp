@@ -160,6 +160,14 @@ size_t TomlSource::array_size(const std::string& path) const {
   fail(path, "must be a list of tables, written [[" + path + "]]");
 }
 
+size_t TomlSource::list_size(const std::string& path) {
+  allowed_.insert(generic(path));
+  const auto* n = find(path);
+  if (n == nullptr) return 0;
+  if (const auto* a = n->as_array()) return a->size();
+  fail(path, "must be a list, e.g. [\"0 h\", \"4 h\"]");
+}
+
 std::vector<std::string> TomlSource::keys(const std::string& path) const {
   std::vector<std::string> out;
   if (const auto* n = find(path); n != nullptr) {

@@ -36,6 +36,8 @@ class TomlSource {
   bool has(const std::string& path) const;
   //! Number of elements of an array of tables (0 when absent).
   size_t array_size(const std::string& path) const;
+  //! Number of elements of a plain list such as times = ["0 h", "2 h"] (0 when absent).
+  size_t list_size(const std::string& path);
   //! Keys of a table (absent: none).
   std::vector<std::string> keys(const std::string& path) const;
 

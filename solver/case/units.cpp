@@ -44,6 +44,13 @@ const std::vector<UnitDef>& table(Dimension dim) {
   static const std::vector<UnitDef> power{{"kW", 1e3}, {"W", 1.0}, {"MW", 1e6}, {"hp", 745.6998715822702}};
   static const std::vector<UnitDef> power_density{{"kW/m3", 1e3}, {"W/m3", 1.0}, {"W/L", 1e3}};
   static const std::vector<UnitDef> fraction{{"", 1.0}, {"%", 0.01}};
+  static const std::vector<UnitDef> rate{{"1/h", 1.0 / kHour}, {"1/s", 1.0}, {"1/min", 1.0 / kMinute},
+                                         {"1/d", 1.0 / 86400.0}};
+  static const std::vector<UnitDef> mass_yield{{"g/g", 1.0}, {"kg/kg", 1.0}, {"", 1.0}};
+  static const std::vector<UnitDef> mass_specific_rate{
+      {"g/g/h", 1.0 / kHour}, {"g/(g h)", 1.0 / kHour}, {"kg/kg/s", 1.0}, {"g/g/d", 1.0 / 86400.0}};
+  static const std::vector<UnitDef> volume_flow{{"L/h", 1e-3 / kHour}, {"m3/h", 1.0 / kHour}, {"L/min", 1e-3 / kMinute},
+                                                {"mL/min", 1e-6 / kMinute}, {"m3/s", 1.0}, {"L/s", 1e-3}};
   // Concentrations in molar units; mass units are handled with the molar mass.
   static const std::vector<UnitDef> concentration{
       {"mmol/L", 1.0}, {"mol/m3", 1.0}, {"mM", 1.0}, {"mol/L", 1e3}, {"M", 1e3}, {"umol/L", 1e-3}};
@@ -63,6 +70,10 @@ const std::vector<UnitDef>& table(Dimension dim) {
     case Dimension::power: return power;
     case Dimension::power_density: return power_density;
     case Dimension::fraction: return fraction;
+    case Dimension::rate: return rate;
+    case Dimension::mass_yield: return mass_yield;
+    case Dimension::mass_specific_rate: return mass_specific_rate;
+    case Dimension::volume_flow: return volume_flow;
   }
   throw UnitError("unknown dimension");
 }

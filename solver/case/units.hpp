@@ -27,6 +27,10 @@ enum class Dimension {
   power,          // W
   power_density,  // W/m3
   fraction,       // dimensionless, "%" accepted
+  rate,           // 1/s (specific growth rate)
+  mass_yield,     // kg/kg (g biomass per g substrate or O2)
+  mass_specific_rate,  // kg/(kg s) (maintenance: g substrate per g biomass per hour)
+  volume_flow,    // m3/s (liquid feed)
 };
 
 //! A unit problem; the message says what was wrong and which units are accepted.

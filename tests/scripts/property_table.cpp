@@ -19,6 +19,8 @@ int main() {
       {"40 in", units::Dimension::length},         {"120 rpm", units::Dimension::speed},
       {"2.5 cP", units::Dimension::viscosity},     {"300 L", units::Dimension::volume},
       {"8 mmol/g/h", units::Dimension::specific_rate}, {"37 degC", units::Dimension::temperature},
-      {"1.2 g/cm3", units::Dimension::density}};
+      {"1.2 g/cm3", units::Dimension::density},    {"0.45 1/h", units::Dimension::rate},
+      {"350 L/h", units::Dimension::volume_flow},  {"2.5 m3/h", units::Dimension::volume_flow},
+      {"0.02 g/g/h", units::Dimension::mass_specific_rate}};
   for (const auto& [text, dim] : quantities) fmt::print("unit,{},{:.12g}\n", text, units::parse(dim, text));
 }

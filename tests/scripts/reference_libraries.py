@@ -54,7 +54,8 @@ def main():
             gauge = unit.endswith("(g)")
             unit = unit.replace("(a)", "").replace("(g)", "").replace("degC", "degree_Celsius")
             unit = {"mmol/g/h": "mmol/g/hour", "cP": "centipoise", "L": "liter", "rpm": "revolutions_per_minute",
-                    "g/cm3": "g/cm**3"}.get(unit, unit)
+                    "g/cm3": "g/cm**3",
+                    "1/h": "1/hour", "L/h": "liter/hour", "m3/h": "m**3/hour", "g/g/h": "g/g/hour"}.get(unit, unit)
             q = ureg.Quantity(float(number), ureg(unit).units) if unit != "degree_Celsius" else ureg.Quantity(float(number), ureg.degC)
             ref = q.to_base_units().magnitude
             if "revolution" in unit:

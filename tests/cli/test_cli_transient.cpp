@@ -1,0 +1,59 @@
+// End to end: oxystrat transient on the bundled fed-batch demo (shortened, coarse grid).
+#include <gmock/gmock.h>
+
+#include "cli_runner.hpp"
+#include "h5_read.hpp"
+
+namespace oxystrat::test {
+namespace {
+
+using testing::HasSubstr;
+
+class TransientCli : public CliTest {};
+
+TEST_F(TransientCli, FedBatchWritesTimeSeriesTracesAndAParaViewSeries) {
+  const auto r = oxystrat({"transient", (kSourceDir / "cases/fedbatch-60m3.toml").string(), "--duration", "10 min",
+                           "--interval", "2 min", "--set", "grid.radial=5", "--set", "grid.axial=16", "--out", "fb"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, HasSubstr("Substrate balance"));
+  EXPECT_THAT(r.out, HasSubstr("Culture at the end"));
+  for (const auto* f : {"result.h5", "trace.csv", "probe.csv", "controller.csv", "transient.pvd", "report.html",
+                        "fields/section_0000.vtu", "fields/section_0005.vtu"}) {
+    EXPECT_TRUE(fs::exists(work() / "fb" / f)) << f;
+  }
+  EXPECT_THAT(read_file(work() / "fb/controller.csv"), HasSubstr("time [s],controller output [0-3],speed [rpm]"));
+  EXPECT_THAT(read_file(work() / "fb/fields/section_0005.vtu"), HasSubstr("substrate_g_L"));
+  const auto file = open_h5((work() / "fb/result.h5").string());
+  const auto t = read_doubles(file, "/transient/time");
+  ASSERT_FALSE(t.empty());
+  EXPECT_DOUBLE_EQ(t.back(), 600.0);
+  // Frames at 0, 2, ..., 10 min; one row per frame, one column per zone.
+  EXPECT_EQ(read_doubles(file, "/transient/field_time").size(), 6u);
+  const auto dims = dims_of(file, "/transient/fields/substrate");
+  ASSERT_EQ(dims.size(), 2u);
+  EXPECT_EQ(dims[0], 6u);
+  EXPECT_EQ(read_doubles(file, "/transient/substrate_max").size(), t.size());
+  EXPECT_EQ(read_doubles(file, "/transient/probe_do").size(), t.size());
+  EXPECT_FALSE(read_doubles(file, "/transient/do_field").empty());  // the first release's path
+  const auto fed = read_doubles(file, "/transient/substrate_fed");
+  ASSERT_EQ(fed.size(), 1u);
+  // 10 min at 650 -> 651.17 L/h (linear to 790 L/h at 2 h) of 600 g/L: ~65 kg.
+  EXPECT_NEAR(fed[0], 0.6 * 1e-3 * 600.0 / 3600.0 * 0.5 * (650.0 + 650.0 + 140.0 * 600.0 / 7200.0) * 1e3, 1e-6);
+}
+
+TEST_F(TransientCli, BadFeedProfileIsAClearError) {
+  const auto r = oxystrat({"transient", (kSourceDir / "cases/fedbatch-60m3.toml").string(), "--set",
+                           "feed.times=[\"0 h\", \"2 h\", \"1 h\"]", "--out", "x"});
+  EXPECT_NE(r.exit_code, 0);
+  EXPECT_THAT(r.err, HasSubstr("feed.times.2"));
+  EXPECT_THAT(r.err, HasSubstr("increase"));
+  EXPECT_FALSE(fs::exists(work() / "x"));
+  const auto u = oxystrat({"transient", (kSourceDir / "cases/fedbatch-60m3.toml").string(), "--set",
+                           "feed.rates=[\"1 kg\", \"2 L/h\", \"3 L/h\"]", "--out", "x"});
+  EXPECT_NE(u.exit_code, 0);
+  EXPECT_THAT(u.err, HasSubstr("feed.rates.0"));
+  EXPECT_THAT(u.err, HasSubstr("L/h"));
+}
+
+}  // namespace
+}  // namespace oxystrat::test
