@@ -73,6 +73,7 @@ TEST_F(CaseInclude, TheCasesOwnKeysWin) {
 TEST_F(CaseInclude, ErrorsNameTheFilesAndLines) {
   const auto missing = case_with("include = [\"nowhere.toml\"]\n");
   EXPECT_THAT(error(missing), HasSubstr("case.toml:1: include = \"nowhere.toml\": cannot open"));
+  EXPECT_THAT(error(case_with("include = [\"cal\"]\n")), HasSubstr("it is a folder; name the file in it"));
 
   write("other.toml", "[model]\nkla_prefactor = 0.02\n\n[operation]\nspeed = \"100 rpm\"\n");
   EXPECT_THAT(error(case_with("include = [\"other.toml\"]\n")),
