@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <cmath>
 
+#include <fmt/format.h>
+
 #include "physics/solubility.hpp"
 
 namespace oxystrat {
@@ -66,6 +68,70 @@ void CultureStep::jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<
     t.emplace_back(2 * k + 1, 2 * k + 1, v * g_.growth_rate(s, c) - v / h_);
     t.emplace_back(2 * k + 1, 2 * k, v * d_mu_ds * b);
   }
+}
+
+namespace {
+
+class SteadySubstrate : public SteadyProblem {
+ public:
+  SteadySubstrate(const ZoneNetwork& net, const SparseMatrix& transport, const GrowthKinetics& g,
+                  const std::vector<double>& c, const std::vector<double>& x, const std::vector<double>& feed)
+      : net_(net), transport_(transport), g_(g), c_(c), x_(x), feed_(feed) {
+    double fed = 0.0;
+    for (double f : feed) fed += std::abs(f);
+    scale_ = std::max(fed, 1e-300);
+  }
+  int size() const override { return net_.size(); }
+  void residual(const Eigen::VectorXd& s, Eigen::VectorXd& r) const override {
+    r.setZero(size());
+    for (int col = 0; col < transport_.outerSize(); ++col) {
+      for (SparseMatrix::InnerIterator it(transport_, col); it; ++it) r[it.row()] += it.value() * s[col];
+    }
+    for (int k = 0; k < size(); ++k) r[k] += feed_[k] - net_.volume[k] * x_[k] * g_.substrate_uptake(s[k], c_[k]);
+  }
+  void jacobian(const Eigen::VectorXd& s, std::vector<Eigen::Triplet<double>>& t) const override {
+    for (int col = 0; col < transport_.outerSize(); ++col) {
+      for (SparseMatrix::InnerIterator it(transport_, col); it; ++it) t.emplace_back(it.row(), col, it.value());
+    }
+    for (int k = 0; k < size(); ++k) {
+      t.emplace_back(k, k, -net_.volume[k] * x_[k] * g_.d_substrate_uptake(s[k], c_[k]));
+    }
+  }
+  double residual_scale() const override { return scale_; }
+
+ private:
+  const ZoneNetwork& net_;
+  const SparseMatrix& transport_;
+  const GrowthKinetics& g_;
+  const std::vector<double>&c_, &x_, &feed_;
+  double scale_;
+};
+
+}  // namespace
+
+std::vector<double> steady_substrate_field(const ZoneNetwork& net, const SparseMatrix& transport,
+                                           const GrowthKinetics& g, const std::vector<double>& do_mol_m3,
+                                           const std::vector<double>& biomass_kg_m3, const std::vector<double>& feed_kg_s) {
+  // The culture takes up at most X q_S(inf, C) per volume; a larger feed accumulates for ever.
+  double capacity = 0.0, fed = 0.0;
+  for (int k = 0; k < net.size(); ++k) {
+    capacity += net.volume[k] * biomass_kg_m3[k] * g.substrate_uptake(1e300, do_mol_m3[k]);
+    fed += feed_kg_s[k];
+  }
+  if (fed >= capacity) {
+    throw std::runtime_error(fmt::format("the feed ({:.4g} kg/h of substrate) exceeds what the culture can take up "
+                                         "({:.4g} kg/h): the substrate has no steady field",
+                                         3600 * fed, 3600 * capacity));
+  }
+  const SteadySubstrate p(net, transport, g, do_mol_m3, biomass_kg_m3, feed_kg_s);
+  // Damped Newton from S = K_S: the uptake is monotone in S, so the residual has one root.
+  Eigen::VectorXd s = Eigen::VectorXd::Constant(net.size(), g.k_s_kg_m3);
+  const auto rep = solve_newton(p, s, {});
+  if (!rep.converged) {
+    throw std::runtime_error(fmt::format("the steady substrate field did not converge (scaled residual {:.3g})",
+                                         rep.residual));
+  }
+  return std::vector<double>(s.data(), s.data() + s.size());
 }
 
 }  // namespace oxystrat

@@ -64,4 +64,12 @@ class CultureStep : public SteadyProblem {
   double h_, scale_;
 };
 
+//! The substrate field a constant feed holds against a frozen culture and DO field:
+//!   sum_j L_kj S_j + feed_k - V_k X_k q_S(S_k, C_k) = 0   [kg/s]
+//! (the quasi-steady substrate a cell sees during a fed-batch; lifelines use it). Throws
+//! std::runtime_error when the feed exceeds what the culture can take up (no steady state).
+std::vector<double> steady_substrate_field(const ZoneNetwork& net, const SparseMatrix& transport,
+                                           const GrowthKinetics& g, const std::vector<double>& do_mol_m3,
+                                           const std::vector<double>& biomass_kg_m3, const std::vector<double>& feed_kg_s);
+
 }  // namespace oxystrat
