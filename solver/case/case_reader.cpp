@@ -248,6 +248,43 @@ void read_culture(TomlSource& src, Case& c) {
   k.k_o2_mol_m3 = read_o2_concentration(src, "culture.k_o2", c, {0.0, 1.0}, "0.003 mmol/L");
   k.critical_do_mol_m3 = read_o2_concentration(src, "culture.critical_do", c, {0.0, 2.0}, "0.01 mmol/L");
   k.rq = src.number("culture.rq", {0.0, 3.0}).value_or(1.0);
+  k.growth_rate_max_s = src.quantity_or("culture.growth_rate_max", Dimension::rate, {0.0, 5.0 / 3600.0}, 0.0);
+  k.k_substrate_kg_m3 = src.quantity_or("culture.k_substrate", Dimension::biomass, {0.0, 100.0}, 0.0);
+  k.yield_substrate = src.quantity_or("culture.yield_substrate", Dimension::mass_yield, {0.0, 5.0, true}, 0.5);
+  k.yield_oxygen = src.quantity_or("culture.yield_oxygen", Dimension::mass_yield, {0.0, 20.0}, 0.0);
+  k.maintenance_substrate_s =
+      src.quantity_or("culture.maintenance_substrate", Dimension::mass_specific_rate, {0.0, 1.0 / 3600.0}, 0.0);
+  k.maintenance_o2_mol_kg_s =
+      src.quantity_or("culture.maintenance_o2", Dimension::specific_rate, {0.0, 20.0 / 3600.0}, 0.0);
+  k.substrate_kg_m3 = src.quantity_or("culture.substrate", Dimension::biomass, {0.0, 1000.0}, 0.0);
+  if (k.grows() && k.yield_oxygen == 0.0 && k.q_o2_max_mol_kg_s <= k.maintenance_o2_mol_kg_s) {
+    src.fail("culture.maintenance_o2", "must be below culture.q_o2_max when culture.yield_oxygen is derived from them");
+  }
+}
+
+void read_feed(TomlSource& src, Case& c) {
+  src.allow_table("feed");
+  if (!src.has("feed")) return;
+  auto& f = c.feed;
+  f.enabled = true;
+  const double h = c.vessel.liquid_height_m, r = 0.5 * c.vessel.diameter_m;
+  f.r_m = src.quantity_or("feed.radius", Dimension::length, {0.0, r}, 0.0);
+  f.z_m = src.quantity_or("feed.height", Dimension::length, {0.0, h}, h);
+  f.concentration_kg_m3 = src.require_quantity("feed.concentration", Dimension::biomass, {0.0, 2000.0, true}, "500 g/L");
+  const size_t n = src.list_size("feed.times");
+  if (n == 0) src.missing("feed.times", "the profile times, e.g. times = [\"0 h\", \"8 h\"]");
+  if (src.list_size("feed.rates") != n) {
+    src.fail("feed.rates", fmt::format("must have as many entries as feed.times ({})", n));
+  }
+  for (size_t i = 0; i < n; ++i) {
+    const auto ti = fmt::format("feed.times.{}", i), ri = fmt::format("feed.rates.{}", i);
+    f.time_s.push_back(src.require_quantity(ti, Dimension::time, {0.0, 1e8}, "2 h"));
+    f.rate_m3_s.push_back(src.require_quantity(ri, Dimension::volume_flow, {0.0, 10.0}, "300 L/h"));
+    if (i > 0 && f.time_s[i] <= f.time_s[i - 1]) src.fail(ti, "the profile times must increase");
+  }
+  if (!c.culture.grows()) {
+    src.fail("feed", "a substrate feed needs a growing culture: set culture.growth_rate_max (e.g. \"0.3 1/h\")");
+  }
 }
 
 // A partial pressure needs no (a)/(g): it is absolute by nature.
@@ -527,6 +564,7 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   read_sparger(src, c);
   read_operation(src, c);
   read_culture(src, c);
+  read_feed(src, c);
   read_numerics(src, c);
   read_constraints(src, c);
   read_control(src, c);
