@@ -70,6 +70,7 @@ void write_oxygen_h5(H5Writer& h5, const Case& c, const CaseRun& run) {
   h5.write("/fields/pressure", f.pressure_pa, "Pa");
   h5.write("/fields/do_saturation", f.do_saturation, "1");
   h5.attribute("/fields/do_saturation", "meaning", "DO over saturation with air at 1 atm and broth temperature");
+  if (!run.single_zone) throw std::logic_error("write_oxygen_h5 needs the single-zone field (run_case with single_zone)");
   const auto& s = *run.single_zone;
   h5.write("/summary/kla_mean", f.kla_mean_1_s, "1/s");
   h5.write("/summary/kla_vessel_correlation", f.kla_vessel_1_s, "1/s");
@@ -152,6 +153,7 @@ std::string oxygen_summary(const Case& c, const CaseRun& run) {
   for (const auto& n : run.notes) s += "Note: " + n + "\n";
   if (run.field) {
     const auto& f = *run.field;
+    if (!run.single_zone) throw std::logic_error("oxygen_summary needs the single-zone field (run_case with single_zone)");
     const auto& one = *run.single_zone;
     const double sat = f.air_saturation_mol_m3;
     const auto pct = [sat](double c_mol) { return 100.0 * c_mol / sat; };

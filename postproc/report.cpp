@@ -60,6 +60,7 @@ std::string run_report_body(const Case& c, const CaseRun& run, std::optional<dou
   s += "</div><div>\n<h3>Cautions</h3>\n" + list(run.cautions, "None apply.");
   s += "<h3>Notes</h3>\n" + list(run.notes, "None.") + "</div></div>\n";
   if (!run.field) return s;
+  if (!run.single_zone) throw std::logic_error("the run report needs the single-zone field (run_case with single_zone)");
   const auto& f = *run.field;
   const auto p = height_profile(run.net, f.do_mol_m3);
   const double crit = c.culture.critical_do_mol_m3;
