@@ -3,21 +3,78 @@
 #include <omp.h>
 
 #include <algorithm>
+#include <bit>
 #include <cmath>
-#include <random>
+#include <limits>
+#include <stdexcept>
 
 namespace oxystrat {
 namespace {
 
-// Outgoing transitions of every zone in compressed rows: rates [1/s] and cumulative shares.
-struct Transitions {
-  std::vector<int> start;         //!< per zone, index of its first transition (size zones + 1)
-  std::vector<int> to;
-  std::vector<double> cumulative; //!< cumulative probability within the zone's row
-  std::vector<double> leave_rate; //!< total leaving rate [1/s]
+std::uint64_t splitmix64(std::uint64_t& x) {
+  std::uint64_t z = (x += 0x9e3779b97f4a7c15ull);
+  z = (z ^ (z >> 30)) * 0xbf58476d1ce4e5b9ull;
+  z = (z ^ (z >> 27)) * 0x94d049bb133111ebull;
+  return z ^ (z >> 31);
+}
+
+// ---- fixed logarithmic bins for the regime statistics, merged as integers ----
+// Edges at 2^(i/4 - 12) s, i = 0 .. kBins: 0.24 ms to 18 h; values outside land in the end bins.
+constexpr int kBins = 112;
+constexpr int kBinOffset = 48;  // 4 * 12
+// Mantissa (of [1, 2)) thresholds 2^(1/4), 2^(1/2), 2^(3/4) in units of 2^-52, from the bits.
+const std::uint64_t kQuarter[3] = {
+    std::bit_cast<std::uint64_t>(std::exp2(0.25)) & ((1ull << 52) - 1),
+    std::bit_cast<std::uint64_t>(std::exp2(0.5)) & ((1ull << 52) - 1),
+    std::bit_cast<std::uint64_t>(std::exp2(0.75)) & ((1ull << 52) - 1)};
+
+// floor(4 log2 t) + offset from the bits of t, without a logarithm (called on every regime change).
+int log_bin(double t) {
+  if (!(t > 0.0)) return 0;
+  const auto b = std::bit_cast<std::uint64_t>(t);
+  const int e = static_cast<int>(b >> 52) - 1023;
+  const std::uint64_t m = b & ((1ull << 52) - 1);
+  const int q = (m >= kQuarter[0]) + (m >= kQuarter[1]) + (m >= kQuarter[2]);
+  return std::clamp(4 * e + q + kBinOffset, 0, kBins - 1);
+}
+
+Histogram fixed_bin_histogram(const long* counts) {
+  Histogram h;
+  int lo = 0, hi = kBins - 1;
+  while (lo < kBins && counts[lo] == 0) ++lo;
+  while (hi >= 0 && counts[hi] == 0) --hi;
+  if (lo > hi) return h;
+  for (int i = lo; i <= hi + 1; ++i) h.edges.push_back(std::exp2((i - kBinOffset) / 4.0));
+  for (int i = lo; i <= hi; ++i) h.counts.push_back(static_cast<double>(counts[i]));
+  return h;
+}
+
+// ---- the chain, packed for the hot loop ----
+// A move uses one 64-bit draw r: bits 24-63 go to the ziggurat (the dwell), bits 0 .. b-1 pick
+// one of the 2^b alias columns of the zone, and bits b .. 23 are the top bits of the column's
+// 64-bit coin. Only when they equal the top bits of the column's
+// threshold (probability 2^-(24-b)) does the comparison need the coin's other bits: a further draw.
+// So the pick is exact to 2^-64, like a comparison of two 64-bit uniforms.
+struct Slot {
+  int to[2];            // zones: [0] the alias, [1] the column's own outcome
+  std::uint32_t top;    // threshold >> (64 - coin bits)
+  std::uint32_t index;  // of the full threshold in Chain::threshold
 };
 
-Transitions build(const ZoneNetwork& net, const Hydrodynamics& h) {
+struct Chain {
+  int zones = 0;
+  int log_columns = 0;
+  std::uint32_t column_mask = 0;
+  int coin_bits = 0;                 // 24 - log_columns
+  std::vector<Slot> slots;           // zones << log_columns
+  std::vector<std::uint64_t> threshold;
+  std::vector<double> mean_dwell;    // V / outflow [s]; +inf without outflow
+  std::vector<std::uint32_t> key;    // regime | (outside mask << 8)
+  std::vector<double> start_cdf;     // V_i / V cumulative
+};
+
+Chain build_chain(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<LifelineField>& fields,
+                  const LifelineRegimes& regimes) {
   const int n = net.size();
   std::vector<std::vector<std::pair<int, double>>> out(n);
   for (size_t f = 0; f < net.faces.size(); ++f) {
@@ -27,42 +84,482 @@ Transitions build(const ZoneNetwork& net, const Hydrodynamics& h) {
     if (ab > 0.0) out[a].push_back({b, ab});
     if (ba > 0.0) out[b].push_back({a, ba});
   }
-  Transitions t;
-  t.start.push_back(0);
-  t.leave_rate.resize(n);
+  size_t degree = 1;
+  for (const auto& o : out) degree = std::max(degree, o.size());
+  if (degree > 256) throw std::invalid_argument("lifelines: a zone with more than 256 neighbours");
+  Chain c;
+  c.zones = n;
+  c.log_columns = std::bit_width(std::bit_ceil(degree)) - 1;
+  const int columns = 1 << c.log_columns;
+  c.column_mask = static_cast<std::uint32_t>(columns - 1);
+  c.coin_bits = 24 - c.log_columns;
+  c.slots.resize(static_cast<size_t>(n) << c.log_columns);
+  c.threshold.resize(c.slots.size());
+  c.mean_dwell.resize(n);
   for (int k = 0; k < n; ++k) {
+    const size_t row = static_cast<size_t>(k) << c.log_columns;
+    std::vector<double> w;
     double total = 0.0;
-    for (const auto& [j, flow] : out[k]) total += flow;
-    double acc = 0.0;
-    for (const auto& [j, flow] : out[k]) {
-      acc += flow / total;
-      t.to.push_back(j);
-      t.cumulative.push_back(acc);
+    for (const auto& [j, flow] : out[k]) w.push_back(flow), total += flow;
+    if (out[k].empty()) {
+      c.mean_dwell[k] = std::numeric_limits<double>::infinity();  // the cell stays to the end
+      w = {1.0}, out[k] = {{k, 1.0}};
+    } else {
+      c.mean_dwell[k] = net.volume[k] / total;
     }
-    if (!out[k].empty()) t.cumulative.back() = 1.0;
-    t.leave_rate[k] = total / net.volume[k];
-    t.start.push_back(static_cast<int>(t.to.size()));
+    const AliasTable t(w, columns);
+    for (int j = 0; j < columns; ++j) {
+      c.threshold[row + j] = t.threshold[j];
+      c.slots[row + j] = {{out[k][t.alias[j]].first, out[k][t.own[j]].first},
+                          static_cast<std::uint32_t>(t.threshold[j] >> (64 - c.coin_bits)), static_cast<std::uint32_t>(row + j)};
+    }
   }
-  return t;
+  c.key.assign(n, 0u);
+  if (!regimes.names.empty()) {
+    if (regimes.names.size() > 256 || static_cast<int>(regimes.of_zone.size()) != n) {
+      throw std::invalid_argument("lifelines: regimes need one label per zone, at most 256 labels");
+    }
+    for (int k = 0; k < n; ++k) c.key[k] = static_cast<std::uint32_t>(regimes.of_zone[k]);
+  }
+  if (fields.size() > 24) throw std::invalid_argument("lifelines: at most 24 fields");
+  for (size_t f = 0; f < fields.size(); ++f) {
+    if (static_cast<int>(fields[f].value.size()) != n) throw std::invalid_argument("lifelines: field '" + fields[f].name + "' needs one value per zone");
+    for (int k = 0; k < n; ++k) {
+      const double v = fields[f].value[k];
+      const bool outside = fields[f].below ? v < fields[f].threshold : v > fields[f].threshold;
+      if (outside) c.key[k] |= 1u << (8 + f);
+    }
+  }
+  c.start_cdf.resize(n);
+  double acc = 0.0;
+  for (int k = 0; k < n; ++k) c.start_cdf[k] = (acc += net.volume[k]);
+  for (auto& v : c.start_cdf) v /= acc;
+  return c;
 }
 
-// A cell's own generator: seeded from (seed, cell), so results do not depend on scheduling.
-std::mt19937_64 cell_rng(std::uint64_t seed, int cell) {
-  std::seed_seq seq{static_cast<std::uint32_t>(seed), static_cast<std::uint32_t>(seed >> 32),
-                    static_cast<std::uint32_t>(cell), 0x6f78u};
-  return std::mt19937_64(seq);
-}
-
-struct CellRecord {
-  std::vector<double> time_in_zone;
-  std::vector<long> visits;
-  double below = 0.0;
-  std::vector<double> excursions, between;
-  long jumps = 0;
-  Trajectory path;
+struct FieldEvents {
+  std::vector<double> excursions, between, long_excursions, long_between;
+  void clear() { excursions.clear(), between.clear(), long_excursions.clear(), long_between.clear(); }
+  void append_to(FieldEvents& to) const {
+    auto append = [](std::vector<double>& a, const std::vector<double>& b) { a.insert(a.end(), b.begin(), b.end()); };
+    append(to.excursions, excursions), append(to.between, between);
+    append(to.long_excursions, long_excursions), append(to.long_between, long_between);
+  }
 };
 
+// Time [s] and completed visits of a zone, as one pair of doubles so that a move updates both
+// with one packed add (visit counts stay exact in a double up to 2^53).
+typedef double Pair __attribute__((vector_size(16)));
+struct ZoneTally {
+  Pair sum{0.0, 0.0};  // {time, visits}
+};
+
+// What a block of cells adds up apart from the per-cell event lists; one per thread, cleared
+// per block, merged in block order (so the sums do not depend on the thread count).
+struct Tally {
+  std::vector<ZoneTally> zone;
+  std::vector<long> transitions;          // R x R
+  std::vector<double> stay_sum, return_sum;
+  std::vector<long> stay_count, return_count;
+  std::vector<long> stay_bins, return_bins;  // R x kBins
+
+  Tally(int zones, int regimes)
+      : zone(zones), transitions(static_cast<size_t>(regimes) * regimes), stay_sum(regimes), return_sum(regimes),
+        stay_count(regimes), return_count(regimes), stay_bins(static_cast<size_t>(regimes) * kBins),
+        return_bins(static_cast<size_t>(regimes) * kBins) {}
+  void clear() {
+    std::fill(zone.begin(), zone.end(), ZoneTally{});
+    for (auto* v : {&transitions, &stay_count, &return_count, &stay_bins, &return_bins}) std::fill(v->begin(), v->end(), 0);
+    std::fill(stay_sum.begin(), stay_sum.end(), 0.0);
+    std::fill(return_sum.begin(), return_sum.end(), 0.0);
+  }
+  void add(const Tally& o) {
+    for (size_t k = 0; k < zone.size(); ++k) zone[k].sum += o.zone[k].sum;
+    for (size_t i = 0; i < transitions.size(); ++i) transitions[i] += o.transitions[i];
+    for (size_t i = 0; i < stay_sum.size(); ++i) {
+      stay_sum[i] += o.stay_sum[i], return_sum[i] += o.return_sum[i];
+      stay_count[i] += o.stay_count[i], return_count[i] += o.return_count[i];
+    }
+    for (size_t i = 0; i < stay_bins.size(); ++i) stay_bins[i] += o.stay_bins[i], return_bins[i] += o.return_bins[i];
+  }
+};
+
+// One cell's state apart from its zone and clock: touched only when the zone's key changes.
+struct FieldCell {
+  bool outside = false, seen_change = false;
+  double since = 0.0, outside_time = 0.0;
+  double last_long_end = -1.0;  // end of the last long excursion [s], -1: none yet
+};
+
+struct CellState {
+  std::vector<FieldCell> fields;
+  int regime = 0;
+  bool regime_seen_change = false;
+  double regime_since = 0.0;
+  std::vector<double> last_entry;  // per regime [s], -1: not entered since the start
+  FieldEvents* events = nullptr;   // per field, this cell's lists
+};
+
+// A cell being followed: what the hot loop reads and writes on every move.
+struct Walker {
+  CellRandom rng{0, 0};
+  double t = 0.0;
+  int zone = 0;
+  std::uint32_t key = 0;
+  int cell = -1;  // -1: idle
+};
+
+constexpr int kBlock = 64;  // cells per block: the unit of work and of the ordered merge
+constexpr int kLanes = 8;   // cells followed side by side in one thread
+
+class Simulator {
+ public:
+  Simulator(const Chain& chain, int n_fields, int n_regimes, const LifelineOptions& o)
+      : c_(chain), n_fields_(n_fields), n_regimes_(n_regimes), count_regimes_(n_regimes > 0), duration_(o.duration_s),
+        min_excursion_(o.min_excursion_s), seed_(o.seed) {}
+
+  int fields() const { return n_fields_; }
+  int regimes() const { return n_regimes_; }
+
+  void start(Walker& w, CellState& st, int cell) const {
+    w.rng = CellRandom(seed_, static_cast<std::uint64_t>(cell));
+    w.cell = cell;
+    w.t = 0.0;
+    int zone = static_cast<int>(std::lower_bound(c_.start_cdf.begin(), c_.start_cdf.end(), w.rng.uniform()) - c_.start_cdf.begin());
+    w.zone = std::min(zone, c_.zones - 1);
+    w.key = c_.key[w.zone];
+    for (int f = 0; f < n_fields_; ++f) st.fields[f] = FieldCell{((w.key >> (8 + f)) & 1u) != 0};
+    st.regime = static_cast<int>(w.key & 0xffu);
+    st.regime_seen_change = false;
+    st.regime_since = 0.0;
+    std::fill(st.last_entry.begin(), st.last_entry.end(), -1.0);
+  }
+
+  // What the hot loop reads, as plain pointers and values (kept in registers: no member of the
+  // simulator is reloaded after the stores of a move).
+  struct Hot {
+    const Slot* slots;
+    const double* mean;
+    const std::uint32_t* key;
+    ZoneTally* zone;
+    double duration;
+  };
+  Hot hot(Tally& tally) const { return {c_.slots.data(), c_.mean_dwell.data(), c_.key.data(), tally.zone.data(), duration_}; }
+  int log_columns() const { return c_.log_columns; }
+
+  // One move of w; false (and the last partial stay booked) when the cell reaches the end.
+  // LogColumns: log2 of the alias columns per zone, a constant so that the indexing is immediate.
+  template <int LogColumns>
+  [[gnu::always_inline]] bool step(const Hot& h, Walker& w, Tally& tally, CellState& st) const {
+    const std::uint64_t r = w.rng.next();
+    const int zone = w.zone;
+    const double t_next = w.t + zig_.from_draw(r, w.rng) * h.mean[zone];
+    ZoneTally& zt = h.zone[zone];
+    if (!(t_next < h.duration)) [[unlikely]] {  // also catches +inf (no outflow)
+      zt.sum += Pair{h.duration - w.t, 0.0};
+      return false;
+    }
+    zt.sum += Pair{t_next - w.t, 1.0};
+    const auto low = static_cast<std::uint32_t>(r) & 0xffffffu;
+    const Slot& s = h.slots[(static_cast<std::uint32_t>(zone) << LogColumns) | (low & ((1u << LogColumns) - 1))];
+    const std::uint32_t coin = low >> LogColumns;
+    // Own or alias by an index, not a branch: the choice is close to a coin toss, a branch on it
+    // would be mispredicted on a large share of the moves.
+    int next = s.to[coin < s.top];
+    if (coin == s.top) [[unlikely]] next = refine(w, s, coin);
+    w.t = t_next;
+    const std::uint32_t next_key = h.key[next];
+    if (next_key != w.key) [[unlikely]] {
+      change(w.key, next_key, t_next, tally, st);
+      w.key = next_key;
+    }
+    w.zone = next;
+    return true;
+  }
+
+  // Time outside per field [s] of a cell that has reached the end.
+  void finish(const CellState& st, double* outside) const {
+    for (int f = 0; f < n_fields_; ++f) {
+      const FieldCell& fc = st.fields[f];
+      outside[f] = fc.outside_time + (fc.outside ? duration_ - fc.since : 0.0);
+    }
+  }
+
+ private:
+  [[gnu::noinline]] int refine(Walker& w, const Slot& s, std::uint32_t coin) const {
+    const std::uint64_t full = (static_cast<std::uint64_t>(coin) << (64 - c_.coin_bits)) | (w.rng.next() >> c_.coin_bits);
+    return s.to[full < c_.threshold[s.index]];
+  }
+
+  void change(std::uint32_t from, std::uint32_t to, double t, Tally& tally, CellState& st) const {
+    const std::uint32_t diff = from ^ to;
+    if ((diff & 0xffu) && count_regimes_) {
+      const int a = static_cast<int>(from & 0xffu), b = static_cast<int>(to & 0xffu);
+      if (st.regime_seen_change) {
+        const double stay = t - st.regime_since;
+        tally.stay_sum[a] += stay;
+        ++tally.stay_count[a];
+        ++tally.stay_bins[static_cast<size_t>(a) * kBins + log_bin(stay)];
+      }
+      ++tally.transitions[static_cast<size_t>(a) * n_regimes_ + b];
+      if (st.last_entry[b] >= 0.0) {
+        const double back = t - st.last_entry[b];
+        tally.return_sum[b] += back;
+        ++tally.return_count[b];
+        ++tally.return_bins[static_cast<size_t>(b) * kBins + log_bin(back)];
+      }
+      st.last_entry[b] = t;
+      st.regime_since = t;
+      st.regime_seen_change = true;
+    }
+    for (std::uint32_t m = diff >> 8; m != 0; m &= m - 1) {
+      const int f = std::countr_zero(m);
+      FieldCell& fc = st.fields[f];
+      FieldEvents& ev = st.events[f];
+      const double run = t - fc.since;
+      if (fc.outside) {  // an excursion ends
+        fc.outside_time += run;
+        if (fc.seen_change) {
+          ev.excursions.push_back(run);
+          if (min_excursion_ > 0.0 && run >= min_excursion_) {
+            if (fc.last_long_end >= 0.0) ev.long_between.push_back(fc.since - fc.last_long_end);
+            ev.long_excursions.push_back(run);
+            fc.last_long_end = t;
+          }
+        }
+      } else if (fc.seen_change) {
+        ev.between.push_back(run);
+      }
+      fc.outside = !fc.outside;
+      fc.seen_change = true;
+      fc.since = t;
+    }
+  }
+
+  const Chain& c_;
+  const ExponentialZiggurat zig_;
+  int n_fields_, n_regimes_;
+  bool count_regimes_;
+  double duration_, min_excursion_;
+  std::uint64_t seed_;
+};
+
+// A thread's workspace for a block of cells: its tally, the event lists of each cell of the block
+// (merged in cell order), the lanes. Allocated once per thread; capacities are kept.
+struct BlockWork {
+  Tally tally;
+  std::vector<std::vector<FieldEvents>> events;  // [cell in block][field]
+  std::array<Walker, kLanes> lanes;
+  std::vector<CellState> states;                 // per lane
+  std::vector<double> outside;
+
+  BlockWork(const Simulator& sim, int zones)
+      : tally(zones, sim.regimes()), events(kBlock, std::vector<FieldEvents>(sim.fields())), outside(sim.fields()) {
+    for (int l = 0; l < kLanes; ++l) states.push_back({std::vector<FieldCell>(sim.fields()), 0, false, 0.0, std::vector<double>(sim.regimes())});
+  }
+};
+
+// Follows cells [first, last) (one block), writing each cell's time outside into `outside[f][c]`
+// and its path, for c < paths->size(), into (*paths)[c].
+template <int LogColumns>
+void run_block(const Simulator& sim, int first, int last, BlockWork& work, std::vector<std::vector<double>>& outside,
+               std::vector<Trajectory>& paths) {
+  work.tally.clear();
+  for (int c = first; c < last; ++c) {
+    for (auto& e : work.events[c - first]) e.clear();
+  }
+  auto done = [&](Walker& w, CellState& st) {
+    sim.finish(st, work.outside.data());
+    for (int f = 0; f < sim.fields(); ++f) outside[f][w.cell] = work.outside[f];
+    w.cell = -1;
+  };
+  const auto h = sim.hot(work.tally);
+  int next = first;
+  // Cells whose path is kept: one by one, recording every entry.
+  while (next < last && next < static_cast<int>(paths.size())) {
+    Walker& w = work.lanes[0];
+    CellState& st = work.states[0];
+    st.events = work.events[next - first].data();
+    sim.start(w, st, next);
+    Trajectory& p = paths[next++];
+    do {
+      p.time_s.push_back(w.t), p.zone.push_back(w.zone);
+    } while (sim.step<LogColumns>(h, w, work.tally, st));
+    done(w, st);
+  }
+  // The others side by side: kLanes independent chains of loads overlap in the processor.
+  int live = 0;
+  for (int l = 0; l < kLanes; ++l) {
+    if (next < last) {
+      work.states[l].events = work.events[next - first].data();
+      sim.start(work.lanes[l], work.states[l], next++);
+      ++live;
+    }
+  }
+  while (live == kLanes) {
+    for (int l = 0; l < kLanes; ++l) {
+      Walker& w = work.lanes[l];
+      if (!sim.step<LogColumns>(h, w, work.tally, work.states[l])) [[unlikely]] {
+        done(w, work.states[l]);
+        if (next < last) {
+          work.states[l].events = work.events[next - first].data();
+          sim.start(w, work.states[l], next++);
+        } else {
+          --live;
+        }
+      }
+    }
+  }
+  for (int l = 0; l < kLanes; ++l) {
+    Walker& w = work.lanes[l];
+    if (w.cell < 0) continue;
+    while (sim.step<LogColumns>(h, w, work.tally, work.states[l])) {
+    }
+    done(w, work.states[l]);
+  }
+}
+
+// run_block with the column count as a constant (0 .. 8; the (r, z) grid has at most four
+// neighbours, so 2).
+template <int L = 0>
+void run(int log_columns, const Simulator& sim, int first, int last, BlockWork& work, std::vector<std::vector<double>>& outside,
+         std::vector<Trajectory>& paths) {
+  if constexpr (L < 8) {
+    if (log_columns != L) return run<L + 1>(log_columns, sim, first, last, work, outside, paths);
+  }
+  run_block<L>(sim, first, last, work, outside, paths);
+}
+
 }  // namespace
+
+// ---- building blocks ----
+
+CellRandom::CellRandom(std::uint64_t seed, std::uint64_t stream) {
+  // Seed and stream go through SplitMix64 separately, so that (seed, stream) pairs that differ
+  // in either give unrelated states.
+  std::uint64_t x = seed;
+  std::uint64_t y = splitmix64(x) ^ (stream * 0xd1b54a32d192ed03ull);
+  hi_ = splitmix64(y);
+  lo_ = splitmix64(y) | 1u;  // odd: the multiplicative group's full period
+}
+
+ExponentialZiggurat::ExponentialZiggurat() {
+  // Marsaglia & Tsang (2000): 256 layers of equal area v under exp(-x), the base layer holding the
+  // tail beyond r; their constants r and v, their set-up with 32-bit abscissae.
+  const double m = 0x1.0p32;
+  double d = 7.697117470131487, prev = d;
+  const double v = 3.949659822581572e-3;
+  const double q = v / std::exp(-d);
+  k_[0] = static_cast<std::uint32_t>((d / q) * m);
+  k_[1] = 0;
+  w_[0] = q / m;
+  w_[255] = d / m;
+  f_[0] = 1.0;
+  f_[255] = std::exp(-d);
+  for (int i = 254; i >= 1; --i) {
+    d = -std::log(v / d + std::exp(-d));
+    k_[i + 1] = static_cast<std::uint32_t>((d / prev) * m);
+    prev = d;
+    f_[i] = std::exp(-d);
+    w_[i] = d / m;
+  }
+  // Layer i >= 1 spans x in [0, x_i], y in [f_i, f_{i-1}]; its wedge is x in [x_{i-1}, x_i], with
+  // x_0 = 0 (the top layer is all wedge).
+  for (int i = 1; i < 256; ++i) {
+    x_[i] = w_[i] * m;
+    const double left = i > 1 ? w_[i - 1] * m : 0.0;
+    const double width = x_[i] - left, drop = f_[i - 1] - f_[i];
+    inv_width_[i] = 1.0 / width;
+    tangent_right_[i] = f_[i] * width / drop;     // < 1
+    tangent_left_[i] = f_[i - 1] * width / drop;  // > 1
+  }
+}
+
+double ExponentialZiggurat::slow(CellRandom& rng, unsigned i, std::uint32_t j) const {
+  constexpr double r = 7.697117470131487;
+  for (;;) {
+    if (i == 0) return r - std::log1p(-rng.uniform());  // memoryless tail beyond r
+    const double x = static_cast<double>(j) * w_[i];
+    // y = f_i + u (f_{i-1} - f_i) against exp(-x). With s the position under the chord (1 at
+    // x_{i-1}, 0 at x_i): above the chord is above the curve; below either tangent is below it.
+    // Only between them is exp needed (the same decisions, a few times fewer exp calls).
+    const double u = rng.uniform();
+    const double s = (x_[i] - x) * inv_width_[i];
+    if (u <= s) {
+      if (u < s * tangent_right_[i] || u < 1.0 - (1.0 - s) * tangent_left_[i]) return x;
+      if (f_[i] + u * (f_[i - 1] - f_[i]) < std::exp(-x)) return x;
+    }
+    const std::uint64_t b = rng.next();
+    i = static_cast<unsigned>((b >> 24) & 255u);
+    j = static_cast<std::uint32_t>(b >> 32);
+    if (j < k_[i]) return static_cast<double>(j) * w_[i];
+  }
+}
+
+AliasTable::AliasTable(const std::vector<double>& weights, int cols) : columns(cols) {
+  const int n = static_cast<int>(weights.size());
+  if (n < 1 || cols < n || !std::has_single_bit(static_cast<unsigned>(cols)) || cols > 256) {
+    throw std::invalid_argument("AliasTable: columns must be a power of two, at least the outcomes and at most 256");
+  }
+  double total = 0.0;
+  for (double w : weights) {
+    if (!(w >= 0.0)) throw std::invalid_argument("AliasTable: weights must be non-negative");
+    total += w;
+  }
+  if (!(total > 0.0)) throw std::invalid_argument("AliasTable: weights must have a positive sum");
+  std::vector<double> p(cols, 0.0);
+  for (int i = 0; i < n; ++i) p[i] = weights[i] / total * cols;
+  own.resize(cols);
+  alias.resize(cols);
+  std::vector<double> prob(cols, 1.0);
+  std::vector<int> small, large;
+  for (int i = 0; i < cols; ++i) (p[i] < 1.0 ? small : large).push_back(i);
+  while (!small.empty() && !large.empty()) {
+    const int s = small.back(), l = large.back();
+    small.pop_back();
+    prob[s] = p[s];
+    alias[s] = l;
+    p[l] = (p[l] + p[s]) - 1.0;
+    if (p[l] < 1.0) large.pop_back(), small.push_back(l);
+  }
+  // Left over (only by round-off): their own outcome for sure.
+  for (int i : small) prob[i] = 1.0, alias[i] = i;
+  for (int i : large) prob[i] = 1.0, alias[i] = i;
+  const int heaviest = static_cast<int>(std::max_element(weights.begin(), weights.end()) - weights.begin());
+  threshold.resize(cols);
+  for (int i = 0; i < cols; ++i) {
+    own[i] = i;
+    if (i >= n) own[i] = alias[i] < n ? alias[i] : heaviest, prob[i] = 0.0;  // padding: never its own (empty) outcome
+    if (alias[i] >= n) alias[i] = heaviest;
+    if (prob[i] >= 1.0 || alias[i] == own[i]) {
+      alias[i] = own[i];
+      threshold[i] = ~0ull;
+    } else {
+      threshold[i] = static_cast<std::uint64_t>(std::ldexp(prob[i], 64));  // prob < 1, so below 2^64
+    }
+  }
+}
+
+LifelineRegimes impeller_regimes(const ZoneNetwork& net) {
+  LifelineRegimes r;
+  int impellers = 1;
+  for (const auto& z : net.region) impellers = std::max({impellers, z.domain + 1, z.discharge + 1});
+  for (int i = 0; i < impellers; ++i) r.names.push_back("impeller" + std::to_string(i + 1));
+  for (int i = 0; i < impellers; ++i) r.names.push_back("bulk" + std::to_string(i + 1));
+  for (const auto& z : net.region) r.of_zone.push_back(z.discharge >= 0 ? z.discharge : impellers + z.domain);
+  return r;
+}
+
+const FieldStatistics* LifelineResult::field(const std::string& name) const {
+  for (const auto& f : fields) {
+    if (f.name == name) return &f;
+  }
+  return nullptr;
+}
+
+LifelineField do_lifeline_field(const std::vector<double>& do_mol_m3, double critical_do_mol_m3) {
+  return {"do", "critical DO", "mol/m3", "mmol/L", 1.0, do_mol_m3, critical_do_mol_m3, true};
+}
 
 Histogram log_histogram(const std::vector<double>& values, int bins) {
   Histogram h;
@@ -82,87 +579,99 @@ Histogram log_histogram(const std::vector<double>& values, int bins) {
   return h;
 }
 
-LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<double>& do_field,
-                                  double critical, const LifelineOptions& opts) {
+LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<LifelineField>& fields,
+                                  const LifelineRegimes& regimes, const LifelineOptions& opts) {
   const int n = net.size();
-  const Transitions t = build(net, h);
-  // Start positions drawn from the stationary distribution V_i / V.
-  std::vector<double> start_cdf(n);
-  double acc = 0.0;
-  for (int k = 0; k < n; ++k) start_cdf[k] = (acc += net.volume[k]);
-  for (auto& c : start_cdf) c /= acc;
-  const bool with_do = !do_field.empty();
-  std::vector<CellRecord> cells(static_cast<size_t>(opts.cells));
-  if (opts.threads > 0) omp_set_num_threads(opts.threads);
-#pragma omp parallel for schedule(dynamic, 16)
-  for (int c = 0; c < opts.cells; ++c) {
-    auto rng = cell_rng(opts.seed, c);
-    std::uniform_real_distribution<double> u(0.0, 1.0);
-    CellRecord& rec = cells[c];
-    rec.time_in_zone.assign(n, 0.0);
-    rec.visits.assign(n, 0);
-    int zone = static_cast<int>(std::lower_bound(start_cdf.begin(), start_cdf.end(), u(rng)) - start_cdf.begin());
-    zone = std::min(zone, n - 1);
-    double time = 0.0;
-    bool below = with_do && do_field[zone] < critical;
-    double state_since = 0.0;
-    bool seen_change = false;  // the first interval started with the simulation: not a complete one
-    const bool keep_path = c < opts.trajectories;
-    while (time < opts.duration_s) {
-      if (keep_path) rec.path.time_s.push_back(time), rec.path.zone.push_back(zone);
-      const double rate = t.leave_rate[zone];
-      const double dwell = rate > 0.0 ? -std::log(1.0 - u(rng)) / rate : opts.duration_s;
-      const double stay = std::min(dwell, opts.duration_s - time);
-      rec.time_in_zone[zone] += stay;
-      rec.visits[zone] += dwell <= opts.duration_s - time ? 1 : 0;  // count completed visits only
-      if (below) rec.below += stay;
-      time += dwell;
-      if (time >= opts.duration_s || t.start[zone] == t.start[zone + 1]) break;
-      const double r = u(rng);
-      int j = t.start[zone];
-      while (j + 1 < t.start[zone + 1] && t.cumulative[j] < r) ++j;
-      zone = t.to[j];
-      ++rec.jumps;
-      const bool now_below = with_do && do_field[zone] < critical;
-      if (now_below != below) {
-        if (seen_change) (below ? rec.excursions : rec.between).push_back(time - state_since);
-        seen_change = true;
-        state_since = time;
-        below = now_below;
+  const int n_fields = static_cast<int>(fields.size());
+  const int n_regimes = static_cast<int>(regimes.names.size());
+  const Chain chain = build_chain(net, h, fields, regimes);
+  const Simulator sim(chain, n_fields, n_regimes, opts);
+  const int cells = std::max(opts.cells, 0);
+  const int kept = std::clamp(opts.trajectories, 0, cells);
+
+  LifelineResult res;
+  res.cells = cells;
+  res.duration_s = opts.duration_s;
+  res.trajectories.resize(kept);
+  std::vector<std::vector<double>> outside(n_fields, std::vector<double>(cells));
+  Tally total(n, n_regimes);
+  std::vector<FieldEvents> events(n_fields);
+  const int blocks = (cells + kBlock - 1) / kBlock;
+  const int threads = opts.threads > 0 ? opts.threads : omp_get_max_threads();
+#pragma omp parallel num_threads(threads)
+  {
+    BlockWork work(sim, n);
+#pragma omp for ordered schedule(dynamic, 1)
+    for (int b = 0; b < blocks; ++b) {
+      const int first = b * kBlock, last = std::min(cells, first + kBlock);
+      run(chain.log_columns, sim, first, last, work, outside, res.trajectories);
+#pragma omp ordered
+      {
+        total.add(work.tally);
+        for (int c = first; c < last; ++c) {
+          for (int f = 0; f < n_fields; ++f) work.events[c - first][f].append_to(events[f]);
+        }
       }
     }
   }
-  // Reduce in cell order: the same numbers whatever the thread count.
-  LifelineResult res;
+
   res.occupancy.assign(n, 0.0);
   res.residence_mean_s.assign(n, 0.0);
   res.visits.assign(n, 0);
   double total_time = 0.0;
-  long excursion_starts = 0;
-  for (auto& rec : cells) {
-    for (int k = 0; k < n; ++k) {
-      res.occupancy[k] += rec.time_in_zone[k];
-      res.visits[k] += rec.visits[k];
-    }
-    res.time_below_fraction.push_back(rec.below / opts.duration_s);
-    res.excursion_durations_s.insert(res.excursion_durations_s.end(), rec.excursions.begin(), rec.excursions.end());
-    res.between_excursions_s.insert(res.between_excursions_s.end(), rec.between.begin(), rec.between.end());
-    excursion_starts += static_cast<long>(rec.excursions.size());
-    res.jumps += rec.jumps;
-    if (!rec.path.zone.empty()) res.trajectories.push_back(std::move(rec.path));
-  }
-  for (int k = 0; k < n; ++k) total_time += res.occupancy[k];
+  for (int k = 0; k < n; ++k) total_time += total.zone[k].sum[0];
   for (int k = 0; k < n; ++k) {
-    res.residence_mean_s[k] = res.visits[k] > 0 ? res.occupancy[k] / res.visits[k] : 0.0;
-    res.occupancy[k] /= total_time;
+    const double time = total.zone[k].sum[0];
+    res.visits[k] = static_cast<long>(total.zone[k].sum[1]);
+    res.jumps += res.visits[k];  // every completed visit ends in a move
+    res.residence_mean_s[k] = res.visits[k] > 0 ? time / res.visits[k] : 0.0;
+    res.occupancy[k] = total_time > 0.0 ? time / total_time : 0.0;
   }
-  double sum = 0.0;
-  for (double f : res.time_below_fraction) sum += f;
-  res.mean_time_below_fraction = opts.cells > 0 ? sum / opts.cells : 0.0;
-  res.excursions_per_hour = excursion_starts / (opts.cells * opts.duration_s / 3600.0);
-  res.excursion_histogram = log_histogram(res.excursion_durations_s);
-  res.between_histogram = log_histogram(res.between_excursions_s);
+  const double cell_hours = cells * opts.duration_s / 3600.0;
+  for (int f = 0; f < n_fields; ++f) {
+    const LifelineField& in = fields[f];
+    FieldStatistics s;
+    s.name = in.name, s.label = in.label, s.unit = in.unit, s.display_unit = in.display_unit;
+    s.display_scale = in.display_scale, s.threshold = in.threshold, s.below = in.below;
+    s.min_excursion_s = opts.min_excursion_s;
+    s.time_outside_fraction = std::move(outside[f]);
+    double sum = 0.0;
+    for (double& x : s.time_outside_fraction) sum += (x /= opts.duration_s);
+    s.mean_time_outside_fraction = cells > 0 ? sum / cells : 0.0;
+    FieldEvents& ev = events[f];
+    s.excursion_durations_s = std::move(ev.excursions);
+    s.between_excursions_s = std::move(ev.between);
+    s.long_excursion_durations_s = std::move(ev.long_excursions);
+    s.between_long_excursions_s = std::move(ev.long_between);
+    s.excursions_per_hour = cell_hours > 0 ? s.excursion_durations_s.size() / cell_hours : 0.0;
+    s.long_excursions_per_hour = cell_hours > 0 ? s.long_excursion_durations_s.size() / cell_hours : 0.0;
+    s.excursion_histogram = log_histogram(s.excursion_durations_s);
+    s.between_histogram = log_histogram(s.between_excursions_s);
+    s.long_excursion_histogram = log_histogram(s.long_excursion_durations_s);
+    s.between_long_histogram = log_histogram(s.between_long_excursions_s);
+    res.fields.push_back(std::move(s));
+  }
+  RegimeStatistics& rs = res.regimes;
+  rs.names = regimes.names;
+  rs.transitions_per_hour.resize(total.transitions.size());
+  for (size_t i = 0; i < total.transitions.size(); ++i) rs.transitions_per_hour[i] = cell_hours > 0 ? total.transitions[i] / cell_hours : 0.0;
+  rs.occupancy.assign(n_regimes, 0.0);
+  for (int k = 0; k < n && n_regimes > 0; ++k) rs.occupancy[regimes.of_zone[k]] += res.occupancy[k];
+  for (int g = 0; g < n_regimes; ++g) {
+    rs.stays.push_back(total.stay_count[g]);
+    rs.stay_mean_s.push_back(total.stay_count[g] > 0 ? total.stay_sum[g] / total.stay_count[g] : 0.0);
+    rs.return_mean_s.push_back(total.return_count[g] > 0 ? total.return_sum[g] / total.return_count[g] : 0.0);
+    rs.stay_histograms.push_back(fixed_bin_histogram(&total.stay_bins[static_cast<size_t>(g) * kBins]));
+    rs.return_histograms.push_back(fixed_bin_histogram(&total.return_bins[static_cast<size_t>(g) * kBins]));
+  }
   return res;
+}
+
+LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<double>& do_mol_m3,
+                                  double critical_do_mol_m3, const LifelineOptions& opts) {
+  std::vector<LifelineField> fields;
+  if (!do_mol_m3.empty()) fields.push_back(do_lifeline_field(do_mol_m3, critical_do_mol_m3));
+  return simulate_lifelines(net, h, fields, {}, opts);
 }
 
 }  // namespace oxystrat

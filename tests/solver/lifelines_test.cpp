@@ -1,7 +1,10 @@
 // Lifelines: the chain's long-run occupancy is the volume share, the mean residence time per
-// visit is V / outflow, and runs are reproducible and independent of the thread count.
+// visit is V / outflow, and runs are reproducible and independent of the thread count; the
+// generator, the exponential ziggurat and the alias tables reproduce their distributions; fields,
+// long excursions and regime passages are consistent with each other and with Kac's lemma.
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
 
 #include "case_fixtures.hpp"
@@ -15,6 +18,16 @@ struct Small {
   Case c = testing::single_impeller("rushton", 1.0 / 3.0, 3, 5);
   ZoneNetwork net = build_zone_geometry(c);
   Hydrodynamics h = compute_hydrodynamics(c, net);
+  //! A "field" rising with height: below `z` is outside.
+  LifelineField height(double z, bool below = true) const {
+    LifelineField f{below ? "low" : "high", below ? "low height" : "high height", "m", "m", 1.0, net.z, z, below};
+    return f;
+  }
+  double volume_share_below(double z) const {
+    double v = 0.0;
+    for (int k = 0; k < net.size(); ++k) v += net.z[k] < z ? net.volume[k] : 0.0;
+    return v / net.total_volume();
+  }
 };
 
 TEST(Lifelines, OccupancyEqualsVolumeShareAndResidenceIsVolumeOverOutflow) {
@@ -41,24 +54,180 @@ TEST(Lifelines, OccupancyEqualsVolumeShareAndResidenceIsVolumeOverOutflow) {
 
 TEST(Lifelines, SeededAndIndependentOfThreads) {
   const Small s;
-  std::vector<double> field(s.net.size());
-  for (int k = 0; k < s.net.size(); ++k) field[k] = s.net.z[k];  // "DO" rising with height
   LifelineOptions o;
-  o.cells = 50;
+  o.cells = 150;  // more than two blocks of cells, so that both threads get work
   o.duration_s = 60.0;
   o.threads = 1;
-  const auto a = simulate_lifelines(s.net, s.h, field, 0.5, o);
+  o.min_excursion_s = 0.5;
+  const std::vector<LifelineField> fields{s.height(0.5), s.height(0.8, false)};
+  const auto regimes = impeller_regimes(s.net);
+  const auto a = simulate_lifelines(s.net, s.h, fields, regimes, o);
   o.threads = 2;
-  const auto b = simulate_lifelines(s.net, s.h, field, 0.5, o);
-  EXPECT_EQ(a.time_below_fraction, b.time_below_fraction);
-  EXPECT_EQ(a.excursion_durations_s, b.excursion_durations_s);
+  const auto b = simulate_lifelines(s.net, s.h, fields, regimes, o);
+  // Bit for bit: every sum is made in the same order whatever the thread count.
+  EXPECT_EQ(a.occupancy, b.occupancy);
+  EXPECT_EQ(a.residence_mean_s, b.residence_mean_s);
   EXPECT_EQ(a.jumps, b.jumps);
+  ASSERT_EQ(a.fields.size(), 2u);
+  for (size_t f = 0; f < a.fields.size(); ++f) {
+    EXPECT_EQ(a.fields[f].time_outside_fraction, b.fields[f].time_outside_fraction);
+    EXPECT_EQ(a.fields[f].excursion_durations_s, b.fields[f].excursion_durations_s);
+    EXPECT_EQ(a.fields[f].between_excursions_s, b.fields[f].between_excursions_s);
+    EXPECT_EQ(a.fields[f].long_excursion_durations_s, b.fields[f].long_excursion_durations_s);
+    EXPECT_EQ(a.fields[f].between_long_excursions_s, b.fields[f].between_long_excursions_s);
+  }
+  EXPECT_EQ(a.regimes.transitions_per_hour, b.regimes.transitions_per_hour);
+  EXPECT_EQ(a.regimes.stay_mean_s, b.regimes.stay_mean_s);
+  EXPECT_EQ(a.regimes.return_mean_s, b.regimes.return_mean_s);
+  ASSERT_EQ(a.trajectories.size(), 5u);
+  EXPECT_EQ(a.trajectories[4].time_s, b.trajectories[4].time_s);
   o.seed = 2;
-  EXPECT_NE(simulate_lifelines(s.net, s.h, field, 0.5, o).jumps, a.jumps);  // another seed, another sample
+  EXPECT_NE(simulate_lifelines(s.net, s.h, fields, regimes, o).jumps, a.jumps);  // another seed, another sample
   // Time below 0.5 m of height: about the volume share below it (cells sample the volume).
-  double below = 0.0;
-  for (int k = 0; k < s.net.size(); ++k) below += s.net.z[k] < 0.5 ? s.net.volume[k] : 0.0;
-  EXPECT_NEAR(a.mean_time_below_fraction, below / s.net.total_volume(), 0.08);  // 50 cells x 60 s: sampling error
+  EXPECT_NEAR(a.fields[0].mean_time_outside_fraction, s.volume_share_below(0.5), 0.08);  // 150 cells x 60 s: sampling error
+}
+
+TEST(Lifelines, FieldBelowAndAboveTheSameThresholdAreComplementary) {
+  const Small s;
+  LifelineOptions o;
+  o.cells = 60;
+  o.duration_s = 120.0;
+  o.trajectories = 0;
+  const auto r = simulate_lifelines(s.net, s.h, {s.height(0.45), s.height(0.45, false)}, {}, o);
+  const auto& low = r.fields[0];
+  const auto& high = r.fields[1];
+  ASSERT_EQ(low.time_outside_fraction.size(), 60u);
+  for (int c = 0; c < 60; ++c) {
+    // No zone centre sits exactly at 0.45 m, so a cell is always on one side: round-off only.
+    EXPECT_NEAR(low.time_outside_fraction[c] + high.time_outside_fraction[c], 1.0, 1e-12) << "cell " << c;
+  }
+  // A stretch below is a stretch not above: the same numbers, recorded by two fields.
+  EXPECT_EQ(low.excursion_durations_s, high.between_excursions_s);
+  EXPECT_EQ(low.between_excursions_s, high.excursion_durations_s);
+  EXPECT_FALSE(low.excursion_durations_s.empty());
+  EXPECT_TRUE(low.long_excursion_durations_s.empty());  // no minimum: no long lists
+}
+
+TEST(Lifelines, LongExcursionsAreTheCompletedOnesAtLeastTheMinimum) {
+  const Small s;
+  LifelineOptions o;
+  o.cells = 80;
+  o.duration_s = 300.0;
+  const auto all = simulate_lifelines(s.net, s.h, {s.height(0.3)}, {}, o);
+  o.min_excursion_s = 1.0;
+  const auto r = simulate_lifelines(s.net, s.h, {s.height(0.3)}, {}, o);
+  const auto& f = r.fields[0];
+  // The minimum selects, it does not change the sample: same seed, same paths.
+  EXPECT_EQ(f.excursion_durations_s, all.fields[0].excursion_durations_s);
+  EXPECT_EQ(f.time_outside_fraction, all.fields[0].time_outside_fraction);
+  std::vector<double> expected;
+  std::copy_if(f.excursion_durations_s.begin(), f.excursion_durations_s.end(), std::back_inserter(expected),
+               [](double d) { return d >= 1.0; });
+  ASSERT_FALSE(expected.empty());
+  EXPECT_EQ(f.long_excursion_durations_s, expected);
+  EXPECT_LT(f.long_excursion_durations_s.size(), f.excursion_durations_s.size());
+  // One interval between consecutive long excursions of a cell: at most one fewer per cell.
+  EXPECT_LE(f.between_long_excursions_s.size(), f.long_excursion_durations_s.size());
+  EXPECT_GE(f.between_long_excursions_s.size() + o.cells, f.long_excursion_durations_s.size());
+  // An interval between long excursions spans at least one short excursion or stretch inside.
+  for (double d : f.between_long_excursions_s) EXPECT_GT(d, 0.0);
+  EXPECT_DOUBLE_EQ(f.long_excursions_per_hour, f.long_excursion_durations_s.size() / (o.cells * o.duration_s / 3600.0));
+}
+
+TEST(Lifelines, RegimePassagesBalanceAndFollowKacsLemma) {
+  const Small s;
+  LifelineOptions o;
+  o.cells = 200;
+  o.duration_s = 900.0;
+  const auto regimes = impeller_regimes(s.net);
+  ASSERT_EQ(regimes.names, (std::vector<std::string>{"impeller1", "bulk1"}));
+  const auto r = simulate_lifelines(s.net, s.h, {}, regimes, o);
+  const auto& g = r.regimes;
+  const size_t n = g.names.size();
+  const double cell_hours = o.cells * o.duration_s / 3600.0;
+  double occupancy = 0.0;
+  for (size_t a = 0; a < n; ++a) occupancy += g.occupancy[a];
+  EXPECT_NEAR(occupancy, 1.0, 1e-12);  // shares of the same total: round-off
+  for (size_t a = 0; a < n; ++a) {
+    double in = 0.0, out = 0.0;
+    for (size_t b = 0; b < n; ++b) in += g.transitions_per_hour[b * n + a], out += g.transitions_per_hour[a * n + b];
+    // Each cell enters a regime at most once more, or less, than it leaves it.
+    EXPECT_LE(std::abs(in - out) * cell_hours, o.cells + 1e-9) << g.names[a];
+    ASSERT_GT(in, 0.0) << g.names[a];
+    // Kac's lemma (Kac 1947, Bull. AMS 53): in a stationary chain the mean time between two
+    // entries into a set is one over the rate of entries. Returns longer than what is left of
+    // a cell's 900 s are cut off, which biases the mean low by a few per cent at most here.
+    EXPECT_NEAR(g.return_mean_s[a] / (3600.0 / in), 1.0, 0.05) << g.names[a];
+    // Time in the regime = stays x mean stay (the uncounted first and last stays of each
+    // cell are a few per cent of the stays here).
+    EXPECT_NEAR(g.stays[a] * g.stay_mean_s[a] / (g.occupancy[a] * o.cells * o.duration_s), 1.0, 0.05) << g.names[a];
+    double counted = 0.0;
+    for (double c : g.stay_histograms[a].counts) counted += c;
+    EXPECT_DOUBLE_EQ(counted, static_cast<double>(g.stays[a]));
+  }
+}
+
+TEST(Lifelines, ZigguratExponentialHasTheExponentialDistribution) {
+  const ExponentialZiggurat zig;
+  CellRandom rng(7, 3);
+  const int n = 2'000'000;
+  const std::vector<double> x{0.05, 0.5, 1.0, 2.0, 4.0, 7.5, 9.0};  // 7.5 / 9: either side of the tail start
+  std::vector<double> above(x.size(), 0.0);
+  double sum = 0.0, sum2 = 0.0;
+  for (int i = 0; i < n; ++i) {
+    const double e = zig(rng);
+    sum += e, sum2 += e * e;
+    for (size_t k = 0; k < x.size(); ++k) above[k] += e > x[k] ? 1.0 : 0.0;
+  }
+  // Mean 1, second moment 2; standard errors 1/sqrt(n) = 7e-4 and sqrt(20/n) = 3e-3: 5 sigma.
+  EXPECT_NEAR(sum / n, 1.0, 3.5e-3);
+  EXPECT_NEAR(sum2 / n, 2.0, 1.6e-2);
+  for (size_t k = 0; k < x.size(); ++k) {
+    const double p = std::exp(-x[k]);
+    const double sigma = std::sqrt(p * (1 - p) / n);
+    EXPECT_NEAR(above[k] / n, p, 5 * sigma + 1e-7) << "P(X > " << x[k] << ")";  // binomial, 5 sigma
+  }
+}
+
+TEST(Lifelines, AliasTableDrawsInProportionToTheWeights) {
+  const std::vector<double> w{0.1, 0.5, 0.0, 2.4, 1.0};
+  const AliasTable t(w, 8);
+  CellRandom rng(11, 0);
+  const int n = 1'000'000;
+  std::vector<double> count(w.size(), 0.0);
+  for (int i = 0; i < n; ++i) count[t.draw(rng.next(), rng.next())] += 1.0;
+  const double total = 4.0;
+  EXPECT_EQ(count[2], 0.0);  // a zero weight is never drawn
+  for (size_t k = 0; k < w.size(); ++k) {
+    const double p = w[k] / total;
+    EXPECT_NEAR(count[k] / n, p, 5 * std::sqrt(p * (1 - p) / n) + 1e-12) << "outcome " << k;  // binomial, 5 sigma
+  }
+  // The exact probabilities: per column own share plus what the aliases bring.
+  std::vector<double> exact(w.size(), 0.0);
+  for (int c = 0; c < t.columns; ++c) {
+    const double own = t.alias[c] == t.own[c] ? 1.0 : std::ldexp(static_cast<double>(t.threshold[c]), -64);
+    exact[t.own[c]] += own / t.columns;
+    exact[t.alias[c]] += (1.0 - own) / t.columns;
+  }
+  for (size_t k = 0; k < w.size(); ++k) EXPECT_NEAR(exact[k], w[k] / total, 1e-15) << "outcome " << k;  // round-off
+  EXPECT_THROW(AliasTable({1.0, 2.0, 3.0}, 2), std::invalid_argument);
+  EXPECT_THROW(AliasTable({0.0, 0.0}, 2), std::invalid_argument);
+}
+
+TEST(Lifelines, CellGeneratorIsSeededPerStream) {
+  CellRandom a(5, 9), b(5, 9), c(5, 10), d(6, 9);
+  bool differ_c = false, differ_d = false;
+  double sum = 0.0;
+  for (int i = 0; i < 100000; ++i) {
+    const auto x = a.next();
+    EXPECT_EQ(x, b.next());
+    differ_c |= x != c.next();
+    differ_d |= x != d.next();
+    sum += std::ldexp(static_cast<double>(x >> 11), -53);
+  }
+  EXPECT_TRUE(differ_c);
+  EXPECT_TRUE(differ_d);
+  EXPECT_NEAR(sum / 100000, 0.5, 5 * std::sqrt(1.0 / 12 / 100000));  // uniform mean, 5 sigma
 }
 
 TEST(Lifelines, LogHistogramCountsEveryValue) {
