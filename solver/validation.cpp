@@ -12,18 +12,14 @@
 #include "mass_transfer.hpp"
 #include "mixing_time.hpp"
 #include "physics/solubility.hpp"
+#include "reference_cases.hpp"
 
 namespace oxystrat {
 namespace {
 
 // One impeller at H = T, C = T/3, flat bottom, 1 m vessel, no gas, on the calibration grid.
 Case single_impeller(const std::string& type, double d_over_t, double speed_rpm = 120.0) {
-  return read_case_text(fmt::format("[vessel]\ndiameter = \"1 m\"\nliquid_height = \"1 m\"\nbottom = \"flat\"\n"
-                                    "[[impeller]]\ntype = \"{}\"\ndiameter = \"{} m\"\nelevation = \"0.3333 m\"\n"
-                                    "[operation]\nspeed = \"{} rpm\"\n[grid]\nradial = 27\naxial = 54\n",
-                                    type, d_over_t, speed_rpm),
-                        "validation")
-      .data;
+  return reference_single_impeller(type, d_over_t, 27, 54, speed_rpm);
 }
 
 double theta95(const Case& c) {
@@ -32,42 +28,8 @@ double theta95(const Case& c) {
   return tracer_mixing_time(net, h, {}).theta_s;
 }
 
-// A gassed two-Rushton pilot vessel with a culture (for the conservation and single-zone checks).
-Case gassed(int radial, int axial) {
-  return read_case_text(fmt::format(R"toml(
-[vessel]
-diameter = "1.2 m"
-liquid_height = "2.4 m"
-head_pressure = "0.3 bar(g)"
-temperature = "30 degC"
-[[impeller]]
-type = "rushton"
-diameter = "0.4 m"
-elevation = "0.55 m"
-[[impeller]]
-type = "rushton"
-diameter = "0.4 m"
-elevation = "1.55 m"
-[sparger]
-type = "ring"
-elevation = "0.35 m"
-diameter = "0.3 m"
-[operation]
-speed = "180 rpm"
-gas_flow = "0.8 vvm"
-[culture]
-biomass = "10 g/L"
-q_o2_max = "5 mmol/g/h"
-k_o2 = "0.003 mmol/L"
-critical_do = "0.02 mmol/L"
-[grid]
-radial = {}
-axial = {}
-)toml",
-                                    radial, axial),
-                        "validation")
-      .data;
-}
+// The gassed two-Rushton vessel at 10 g/L (for the conservation and single-zone checks).
+Case gassed(int radial, int axial) { return reference_gassed_vessel(radial, axial, 10.0); }
 
 std::vector<ValidationCheck> build() {
   std::vector<ValidationCheck> v;

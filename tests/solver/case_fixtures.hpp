@@ -6,67 +6,17 @@
 #include <string>
 
 #include "case/case_reader.hpp"
+#include "reference_cases.hpp"
 
 namespace oxystrat::testing {
 
 //! A single impeller at H = T in a flat-bottomed 1 m vessel, no gas: the mixing-time reference.
 inline Case single_impeller(const std::string& type, double d_over_t, int radial, int axial, double speed_rpm = 120.0) {
-  const std::string text = fmt::format(R"toml(
-[vessel]
-diameter = "1 m"
-liquid_height = "1 m"
-bottom = "flat"
-[[impeller]]
-type = "{}"
-diameter = "{} m"
-elevation = "0.3333 m"
-[operation]
-speed = "{} rpm"
-[grid]
-radial = {}
-axial = {}
-  )toml",
-                                       type, d_over_t, speed_rpm, radial, axial);
-  return read_case_text(text, "single_impeller").data;
+  return reference_single_impeller(type, d_over_t, radial, axial, speed_rpm);
 }
 
 //! A gassed 2.5 m3 vessel with two Rushtons and a culture: the oxygen-field workhorse.
-inline Case gassed_vessel(int radial = 6, int axial = 16) {
-  const std::string text = fmt::format(R"toml(
-[vessel]
-diameter = "1.2 m"
-liquid_height = "2.4 m"
-bottom = "ellipsoidal"
-head_pressure = "0.3 bar(g)"
-temperature = "30 degC"
-[[impeller]]
-type = "rushton"
-diameter = "0.4 m"
-elevation = "0.55 m"
-[[impeller]]
-type = "rushton"
-diameter = "0.4 m"
-elevation = "1.55 m"
-[sparger]
-type = "ring"
-elevation = "0.35 m"
-diameter = "0.3 m"
-[operation]
-speed = "180 rpm"
-gas_flow = "0.8 vvm"
-[culture]
-biomass = "15 g/L"
-q_o2_max = "5 mmol/g/h"
-k_o2 = "0.003 mmol/L"
-critical_do = "0.02 mmol/L"
-rq = 1.0
-[grid]
-radial = {}
-axial = {}
-  )toml",
-                                       radial, axial);
-  return read_case_text(text, "gassed_vessel").data;
-}
+inline Case gassed_vessel(int radial = 6, int axial = 16) { return reference_gassed_vessel(radial, axial, 15.0); }
 
 inline std::string source_dir() { return OXYSTRAT_SOURCE_DIR; }
 
