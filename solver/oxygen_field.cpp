@@ -164,7 +164,7 @@ void OxygenSetup::update(const Eigen::VectorXd& x) {
 }
 
 OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, const OxygenField* warm,
-                               NewtonWorkspace* workspace) {
+                               NewtonWorkspace* workspace, const NewtonOptions& newton) {
   NewtonWorkspace local;
   NewtonWorkspace& ws = workspace != nullptr ? *workspace : local;
   const Case& c = ctx.c;
@@ -186,9 +186,13 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   // Outer loop: holdup, pressure and kLa follow the gas flows of the last solution.
   for (f.outer_iterations = 1; f.outer_iterations <= 30; ++f.outer_iterations) {
     setup.update(x);
+    double change = previous.empty() ? 1.0 : 0.0;  // holdup change the update made
+    for (int k = 0; k < n && !previous.empty(); ++k) change = std::max(change, std::abs(setup.holdup[k] - previous[k]));
+    previous = setup.holdup;
+    const bool last = change < 1e-6;  // holdup to 1e-6: far below the model's accuracy
     const OxygenProblem problem(net, ctx.routing, transport, coeff, uptake, in_o2, in_co2);
     Eigen::VectorXd trial = x;
-    rep = solve_newton(problem, trial, {}, &ws);
+    rep = solve_newton(problem, trial, newton, &ws);
     if (!rep.converged) {
       // Continuation in the uptake from the feasible no-culture state.
       trial = x;
@@ -196,7 +200,9 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
         Uptake u = uptake;
         u.rate_mol_m3_s *= s;
         const OxygenProblem step(net, ctx.routing, transport, coeff, u, in_o2, in_co2);
-        rep = solve_newton(step, trial, NewtonOptions{200, 1e-12}, &ws);
+        NewtonOptions slow = newton;
+        slow.max_iterations = 200;
+        rep = solve_newton(step, trial, slow, &ws);
         if (!rep.converged) break;
       }
     }
@@ -208,10 +214,8 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
     }
     x = trial;
     f.newton_iterations += rep.iterations;
-    double change = previous.empty() ? 1.0 : 0.0;
-    for (int k = 0; k < n && !previous.empty(); ++k) change = std::max(change, std::abs(setup.holdup[k] - previous[k]));
-    previous = setup.holdup;
-    if (change < 1e-6) break;  // holdup to 1e-6: far below the model's accuracy
+    f.linear_iterations += rep.linear_iterations;
+    if (last) break;
   }
 
   // Fields and summary.

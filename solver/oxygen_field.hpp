@@ -52,6 +52,7 @@ struct OxygenField {
   double air_saturation_mol_m3 = 0.0;   //!< C* of air at 1 atm, broth temperature and salts
   int newton_iterations = 0;
   int outer_iterations = 0;
+  int linear_iterations = 0;            //!< Krylov iterations of the structured Newton steps
   Eigen::VectorXd state;                //!< solver state, for warm starts
 };
 
@@ -86,8 +87,10 @@ struct OxygenSetup {
 //! Steady field at biomass `biomass_kg_m3` (the case's own when negative). `warm` may hold a
 //! previous field of the same network to start from. Throws SolveError on failure.
 //! `workspace` (optional) carries the sparse factorisation from one solve to the next.
+//! `newton.structured = false` forces the general sparse LU path (for tests and benchmarks);
+//! the tolerance of `newton` is that of the final field.
 OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3 = -1.0, const OxygenField* warm = nullptr,
-                               NewtonWorkspace* workspace = nullptr);
+                               NewtonWorkspace* workspace = nullptr, const NewtonOptions& newton = {});
 
 //! Largest biomass [kg/m3] with every zone at or above culture.critical_do, to 1e-4 relative (0
 //! when even no culture fails, capped at 1000 kg/m3 when nothing limits). `field_at_case` seeds

@@ -10,6 +10,7 @@ OxygenProblem::OxygenProblem(const ZoneNetwork& net, const GasRouting& routing, 
                              double inlet_co2_mol_s)
     : net_(net),
       transport_(transport),
+      order_(&routing.order),
       coeff_(coeff),
       uptake_(uptake),
       inlet_o2_(inlet_o2_mol_s),

@@ -61,6 +61,8 @@ class OxygenProblem : public SteadyProblem {
   void residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const override;
   void jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const override;
   double residual_scale() const override { return scale_; }
+  //! Liquid O2, CO2 then gas O2, CO2 per zone; gas flows along the routing order.
+  ZoneLayout zone_layout() const override { return {n_, order_}; }
 
  private:
   struct Inflow {
@@ -69,6 +71,7 @@ class OxygenProblem : public SteadyProblem {
   };
   const ZoneNetwork& net_;
   const SparseMatrix& transport_;
+  const std::vector<int>* order_;
   const TransferCoefficients& coeff_;
   Uptake uptake_;
   double inlet_o2_, inlet_co2_;

@@ -7,6 +7,8 @@
 #include <Eigen/SparseLU>
 #include <vector>
 
+#include "zone_block_solver.hpp"
+
 namespace oxystrat {
 
 class SteadyProblem {
@@ -17,17 +19,23 @@ class SteadyProblem {
   virtual void jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const = 0;
   //! Residual magnitude that counts as zero for each equation (same units as the residual).
   virtual double residual_scale() const = 0;
+  //! A problem with the zone layout of zone_block_solver.hpp says so here (zones > 0), and
+  //! solve_newton then uses the structured linear solve; the default is a general sparse LU.
+  virtual ZoneLayout zone_layout() const { return {}; }
 };
 
 struct NewtonOptions {
   int max_iterations = 60;
   double tolerance = 1e-12;  //!< max |r_i| / residual_scale() at convergence
+  bool structured = true;    //!< use the structured solve when the problem has a zone layout
 };
 
 struct NewtonReport {
   bool converged = false;
   int iterations = 0;
   double residual = 0.0;  //!< final max |r_i| / residual_scale()
+  int linear_iterations = 0;  //!< Krylov iterations of the structured solve
+  bool structured = false;    //!< the structured solve produced the result
 };
 
 //! What one Newton solve leaves for the next one on the same sparsity pattern: the symbolic
@@ -38,11 +46,18 @@ struct NewtonWorkspace {
   bool analysed = false;
   bool factored = false;
   int factorisations = 0;
+  //! The structured solve's preconditioner, kept between solves like the LU above.
+  ZoneBlockSolver blocks;
+  bool refresh_blocks = false;  //!< refactor the preconditioner before the next structured step
 };
 
 //! Damped Newton: backtracking on the 2-norm of the residual; converged on max |r_i| / scale.
-//! With a workspace, an old factorisation is tried first and refreshed when a step with it does
-//! not cut the residual at least threefold.
+//! For a problem with a zone layout: inexact Newton, each step solved by the structured solver
+//! (zone_block_solver.hpp) to a relative linear residual of at most 1e-4, tighter near the end so
+//! that the last step lands inside the tolerance; should that solve fail, the general path
+//! below continues from the current iterate. General path: with a workspace, an old
+//! factorisation is tried first and refreshed when a step with it does not cut the residual at
+//! least threefold.
 NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const NewtonOptions& opts = {},
                           NewtonWorkspace* workspace = nullptr);
 

@@ -1,0 +1,74 @@
+// A structured linear solve for the Newton steps of the coupled liquid/gas zone balances.
+//
+// Layout (the contract a problem states through SteadyProblem::zone_layout()): four unknowns per
+// zone, interleaved; the first two are transported liquid species, the last two gas flows. Liquid
+// rows may couple to any liquid unknown of the same species (transport) and to the other liquid
+// species and to the gas of their own zone only; gas rows couple to the liquid of their own zone,
+// to their own gas and to the gas of zones earlier in `gas_order` (gas only flows along a DAG).
+// A Jacobian that breaks this contract is refused (accept() returns false) and the caller falls
+// back to a general sparse LU.
+//
+// With J = [J_ll J_lg; J_gl J_gg] (liquid, gas), J_gg is block lower-triangular in gas order, so
+// the gas is eliminated exactly by forward sweeps and the Newton step reduces to the liquid Schur
+// complement S = J_ll - J_lg J_gg^-1 J_gl (applied, never formed). S is solved by restarted GMRES
+// (Saad & Schultz 1986), right-preconditioned by the zone-local approximation of S (J_gg replaced
+// by its diagonal blocks), one scalar sparse LU per liquid species, block Gauss-Seidel between
+// the species. The factorisations are kept from one Newton step (and solve) to the next and
+// refreshed only when the Krylov iteration count shows they have drifted.
+#pragma once
+
+#include <Eigen/Core>
+#include <Eigen/Sparse>
+#include <Eigen/SparseLU>
+#include <array>
+#include <vector>
+
+namespace oxystrat {
+
+struct ZoneLayout {
+  int zones = 0;
+  const std::vector<int>* gas_order = nullptr;  //!< every zone after all zones that send it gas
+};
+
+class ZoneBlockSolver {
+ public:
+  using Triplets = std::vector<Eigen::Triplet<double>>;
+  //! Takes the Jacobian (triplets, duplicates summed) of a problem with this layout. False when
+  //! the Jacobian does not have the structure above.
+  bool accept(const ZoneLayout& layout, const Triplets& t);
+  //! Rebuilds the preconditioner's factorisations from the last accepted Jacobian.
+  bool refresh_preconditioner();
+  bool has_preconditioner() const { return factored_; }
+  //! Solves J dx = b to |J dx - b|_2 <= rel_tol |b|_2. False when GMRES does not get there.
+  bool solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, double rel_tol);
+  int last_iterations() const { return last_iterations_; }
+  int factorisations() const { return factorisations_; }
+
+ private:
+  using Block = std::array<double, 4>;  // row-major 2 x 2
+  void gas_sweep(Eigen::VectorXd& g) const;                      // g <- J_gg^-1 g (length 2n)
+  void apply_schur(const Eigen::VectorXd& v, Eigen::VectorXd& out);  // out = S v (length 2n)
+  void precondition(const Eigen::VectorXd& v, Eigen::VectorXd& out);  // out ~ S^-1 v
+
+  int n_ = 0;
+  std::vector<int> order_;
+  // The Jacobian, by part.
+  Eigen::SparseMatrix<double> j_oo_, j_cc_;      // liquid species 0 and 1, zone x zone
+  std::vector<double> x01_, x10_;                // local liquid cross-species entries
+  std::vector<Block> lg_, gl_, gg_;              // local liquid-gas, gas-liquid, gas-gas blocks
+  std::vector<int> up_start_, up_col_;           // upstream gas entries, grouped by receiving zone
+  std::vector<unsigned char> up_row_;            // receiving gas species (0, 1)
+  std::vector<double> up_val_;
+  std::vector<Block> gg_inv_;
+  // The preconditioner (frozen between refreshes).
+  Eigen::SparseMatrix<double> p_oo_, p_cc_;
+  Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu_o_, lu_c_;
+  std::vector<double> p_co_;
+  bool analysed_ = false, factored_ = false, have_jacobian_ = false;
+  int factorisations_ = 0, last_iterations_ = 0;
+  // Scratch.
+  Eigen::VectorXd t_gas_, s_o_, s_c_;
+  std::vector<Eigen::VectorXd> basis_;
+};
+
+}  // namespace oxystrat
