@@ -55,5 +55,27 @@ TEST_F(TransientCli, BadFeedProfileIsAClearError) {
   EXPECT_THAT(u.err, HasSubstr("L/h"));
 }
 
+TEST_F(TransientCli, LifelinesThroughAFrozenFedBatchSeeTheSubstrate) {
+  const auto r = oxystrat({"lifelines", (kSourceDir / "cases/fedbatch-60m3.toml").string(), "--after", "20 min",
+                           "--cells", "40", "--duration", "5 min", "--substrate-threshold", "0.3 g/L", "--set",
+                           "grid.radial=5", "--set", "grid.axial=16", "--out", "ll"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, HasSubstr("Frozen at t = 0.3333 h"));
+  EXPECT_THAT(r.out, HasSubstr("above substrate threshold (0.3 g/L)"));
+  const auto file = open_h5((work() / "ll/result.h5").string());
+  EXPECT_EQ(read_strings(file, "/lifelines/fields/names"), (std::vector<std::string>{"do", "substrate"}));
+  const auto above = read_doubles(file, "/lifelines/fields/substrate/time_outside");
+  EXPECT_EQ(above.size(), 40u);
+  // Some cells pass the feed zone in 5 min, none lives there: shares strictly between 0 and 1 on average.
+  double mean = 0.0;
+  for (double a : above) mean += a / above.size();
+  EXPECT_GT(mean, 0.0);
+  EXPECT_LT(mean, 1.0);
+  const auto bad = oxystrat({"lifelines", (kSourceDir / "cases/fedbatch-60m3.toml").string(), "--substrate-threshold",
+                             "0.3 g/L", "--out", "x"});
+  EXPECT_NE(bad.exit_code, 0);
+  EXPECT_THAT(bad.err, HasSubstr("--substrate-threshold needs --after"));
+}
+
 }  // namespace
 }  // namespace oxystrat::test
