@@ -611,6 +611,16 @@ LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h
         for (int c = first; c < last; ++c) {
           for (int f = 0; f < n_fields; ++f) work.events[c - first][f].append_to(events[f]);
         }
+        // Room for all the events, estimated from the first block, so that the lists (hundreds of
+        // MB at 1e5 cells) are not copied again and again as they grow.
+        if (b == 0) {
+          const double scale = 1.05 * cells / std::max(last - first, 1);
+          for (auto& e : events) {
+            for (auto* v : {&e.excursions, &e.between, &e.long_excursions, &e.long_between}) {
+              v->reserve(static_cast<size_t>(scale * v->size()) + 64);
+            }
+          }
+        }
       }
     }
   }
