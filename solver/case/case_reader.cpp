@@ -443,7 +443,8 @@ void merge_includes(toml::table& root, const std::string& file_name) {
                                   root.get("model")->source().begin.line));
     }
     for (const auto& [key, value] : *fragment.get("model")->as_table()) {
-      if (!target->contains(key.str())) value.visit([&](auto&& v) { target->insert(key.str(), v); });
+      const std::string name(key.str());  // a structured binding in a lambda: not before clang 16
+      if (!target->contains(name)) value.visit([&](auto&& v) { target->insert(name, v); });
     }
   }
   root.erase("include");
