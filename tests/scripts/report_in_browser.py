@@ -21,6 +21,12 @@ runs = {
                 f"{work}/compare", "--no-mixing"] + small,
     "sweep": [exe, "sweep", f"{source}/cases/pilot-300L.toml", "--vary", "operation.speed=300:500:3", "--out",
               f"{work}/sweep"] + small,
+    "transient": [exe, "transient", f"{source}/cases/fedbatch-60m3.toml", "--duration", "10 min", "--out",
+                  f"{work}/transient"] + small,
+    "lifelines": [exe, "lifelines", f"{source}/cases/fedbatch-60m3.toml", "--after", "10 min", "--cells", "50",
+                  "--duration", "2 min", "--out", f"{work}/lifelines"] + small,
+    "calibrate": [exe, "calibrate", f"{source}/cases/pilot-300L.toml", "--kla-data",
+                  f"{source}/cases/pilot-300L-calib-kla.csv", "--out", f"{work}/calibrate"],
 }
 failures = 0
 for name, cmd in runs.items():
