@@ -244,11 +244,28 @@ void write_transient_outputs(RunFolder& folder, const LoadedCase& loaded, const 
                           crit, 620, 320);
   body += svg::line_chart("Volume below critical DO", "time [h]", "share of the volume [%]",
                           {{"below critical", t_h, series(r, cols[6].get, 100.0), "#d62728"}}, {}, 620, 320);
-  body += svg::line_chart("Controller cascade", "time [h]", "value",
-                          {{"speed [rpm]", t_h, series(r, cols[7].get, 60.0), "#2ca02c"},
-                           {"gas [Nm3/h]", t_h, series(r, cols[8].get, 3600.0), "#ff7f0e"},
-                           {"O2 in gas [%]", t_h, series(r, cols[9].get, 100.0), "#9467bd"}},
-                          {}, 620, 320);
+  // Each actuator as a share of its control range, so the three stages read on one axis.
+  const auto& k = c.control;
+  const double gas_lo = k.gas_min_m3_s >= 0.0 ? k.gas_min_m3_s : c.operation.gas_flow_normal_m3_s;
+  const double gas_hi = k.gas_max_m3_s >= 0.0 ? k.gas_max_m3_s : gas_lo;
+  const double o2_hi = k.oxygen_max >= 0.0 ? k.oxygen_max : c.operation.oxygen_fraction;
+  const auto share = [&](int col, double lo, double hi) {
+    auto v = series(r, cols[col].get);
+    for (auto& x : v) x = hi > lo ? 100.0 * (x - lo) / (hi - lo) : 0.0;
+    return v;
+  };
+  if (k.enabled) {
+    body += svg::line_chart("DO controller: each stage in % of its range", "time [h]", "share of the range [%]",
+                            {{fmt::format("speed {:.0f}-{:.0f} rpm", 60 * k.speed_min_rps, 60 * k.speed_max_rps), t_h,
+                              share(7, k.speed_min_rps, k.speed_max_rps), "#2ca02c"},
+                             {fmt::format("gas {:.0f}-{:.0f} Nm3/h", 3600 * gas_lo, 3600 * gas_hi), t_h,
+                              share(8, gas_lo, gas_hi), "#ff7f0e"},
+                             {fmt::format("O2 {:.1f}-{:.1f} %", 100 * c.operation.oxygen_fraction, 100 * o2_hi), t_h,
+                              share(9, c.operation.oxygen_fraction, o2_hi), "#9467bd"}},
+                            {}, 620, 320);
+  }
+  body += svg::line_chart("Agitator speed", "time [h]", "speed [rpm]",
+                          {{"speed", t_h, series(r, cols[7].get, 60.0), "#2ca02c"}}, {}, 620, 320);
   body += svg::line_chart("O2 transfer and uptake", "time [h]", "rate [mol/s]",
                           {{"OTR", t_h, series(r, cols[11].get), "#1f77b4"},
                            {"OUR", t_h, series(r, cols[12].get), "#d62728", true}},
@@ -259,11 +276,12 @@ void write_transient_outputs(RunFolder& folder, const LoadedCase& loaded, const 
                              {"volume mean", t_h, series(r, cols[16].get), "#7f7f7f", true},
                              {"minimum", t_h, series(r, cols[15].get), "#1f77b4"}},
                             {}, 620, 320);
-    body += svg::line_chart("Biomass and growth", "time [h]", "value",
-                            {{"biomass [g/L]", t_h, series(r, cols[18].get), "#2ca02c"},
-                             {"growth rate [1/h] x 100", t_h, series(r, cols[19].get, 360000.0), "#8c564b"},
-                             {"feed [L/h]", t_h, series(r, cols[20].get, 3.6e6), "#ff7f0e", true}},
-                            {}, 620, 320);
+    body += svg::line_chart("Biomass (volume mean)", "time [h]", "biomass [g/L]",
+                            {{"biomass", t_h, series(r, cols[18].get), "#2ca02c"}}, {}, 620, 320);
+    body += svg::line_chart("Growth rate (volume mean)", "time [h]", "growth rate [1/h]",
+                            {{"mu", t_h, series(r, cols[19].get, 3600.0), "#8c564b"}}, {}, 620, 320);
+    body += svg::line_chart("Feed", "time [h]", "pump rate [L/h]",
+                            {{"feed", t_h, series(r, cols[20].get, 3.6e6), "#ff7f0e"}}, {}, 620, 320);
   }
   body += "</div>\n";
   if (!r.frames.empty()) {
