@@ -19,7 +19,13 @@ namespace {
 class EulerStep : public SteadyProblem {
  public:
   EulerStep(const OxygenProblem& p, const ZoneNetwork& net, const Eigen::VectorXd& old, double h)
-      : p_(p), net_(net), old_(old), h_(h) {}
+      : p_(p), net_(net), old_(old), h_(h) {
+    // Zero for a residual is also small against the storage term V C / h: with short steps that
+    // term dwarfs the O2 fed, and its round-off alone would stay above 1e-12 of the feed.
+    double storage = 0.0;
+    for (int k = 0; k < net.size(); ++k) storage += net.volume[k] * (std::abs(old[4 * k]) + std::abs(old[4 * k + 1])) / h;
+    scale_ = std::max(p.residual_scale(), 1e-3 * storage);
+  }
   int size() const override { return p_.size(); }
   void residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const override {
     p_.residual(x, r);
@@ -35,13 +41,13 @@ class EulerStep : public SteadyProblem {
       t.emplace_back(4 * k + 1, 4 * k + 1, -net_.volume[k] / h_);
     }
   }
-  double residual_scale() const override { return p_.residual_scale(); }
+  double residual_scale() const override { return scale_; }
 
  private:
   const OxygenProblem& p_;
   const ZoneNetwork& net_;
   const Eigen::VectorXd& old_;
-  double h_;
+  double h_, scale_ = 0.0;
 };
 
 // The vessel at one operating point; rebuilt when speed, gas or an event changes it. The grid
@@ -246,7 +252,8 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
   };
   // The cascade ends at its last stage that can act (a stage with no range would let the integral wind up).
   const double u_max = o2_hi > o2_lo ? 3.0 : gas_hi > gas_lo ? 2.0 : 1.0;
-  double integral = 0.0, u = 0.0;
+  double integral = 0.0, u = 0.0, last_measured = 0.0;
+  bool have_measured = false;
   double t = 0.0, next_control = 0.0, next_output = 0.0;
   double h_next = opts.adaptive ? std::min(opts.step_s, 1.0) : opts.step_s;
   size_t next_event = 0;
@@ -295,9 +302,14 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
       changed = true;
     }
     if (k.enabled && t >= next_control - 1e-9) {
-      const double error = (k.setpoint_mol_m3 - b.x[4 * res.probe_zone]) / air_sat;
+      const double measured = b.x[4 * res.probe_zone] / air_sat;
+      const double error = k.setpoint_mol_m3 / air_sat - measured;
+      // Derivative on the measurement, not the error: a set-point step gives no kick.
+      const double slope = have_measured ? (measured - last_measured) / k.interval_s : 0.0;
+      last_measured = measured;
+      have_measured = true;
       integral += error * k.interval_s;
-      u = k.gain * (error + integral / k.integral_time_s);
+      u = k.gain * (error + integral / k.integral_time_s - k.derivative_time_s * slope);
       if (u < 0.0 || u > u_max) {  // anti-windup: hold the integral while the output is saturated
         integral -= error * k.interval_s;
         u = std::clamp(u, 0.0, u_max);

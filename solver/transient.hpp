@@ -1,6 +1,6 @@
 // The oxygen field in time: dissolved O2 and CO2 in every zone evolve (implicit Euler on the same
 // balances and analytic Jacobian as the steady solve; the gas, whose residence is seconds, is
-// quasi-steady), with step changes at given times and a DO controller as plants run it: a PI loop
+// quasi-steady), with step changes at given times and a DO controller as plants run it: a PID loop
 // on the DO at one probe zone, acting in cascade on speed, then gas flow, then O2 fraction, each
 // within limits. The probe sees its zone only, so the loop can be satisfied while another part of
 // the tank starves. A growing culture (culture.growth_rate_max) adds substrate and biomass per

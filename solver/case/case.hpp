@@ -141,7 +141,7 @@ struct Constraints {
   bool allow_flooding = false;
 };
 
-//! DO control for transient runs: a PI loop on the DO at a probe, acting in cascade on speed,
+//! DO control for transient runs: a PID loop on the DO at a probe, acting in cascade on speed,
 //! gas flow and O2 fraction within the limits.
 struct ControlSettings {
   bool enabled = false;
@@ -149,6 +149,7 @@ struct ControlSettings {
   double probe_r_m = 0.0, probe_z_m = 0.0;
   double gain = 5.0;              //!< proportional gain on the error in units of air saturation [-]
   double integral_time_s = 120.0;
+  double derivative_time_s = 0.0;  //!< on the measurement; 0 = PI [s]
   double interval_s = 10.0;       //!< update period [s]
   double speed_min_rps = 0.0, speed_max_rps = 0.0;       //!< 0: the case's speed
   double gas_min_m3_s = -1.0, gas_max_m3_s = -1.0;       //!< normal m3/s; < 0: the case's gas flow

@@ -326,6 +326,7 @@ void read_control(TomlSource& src, Case& c) {
   k.probe_z_m = src.quantity_or("control.probe_height", Dimension::length, {0.0, h}, 0.25 * h);
   k.gain = src.number("control.gain", {0.0, 1000.0}).value_or(k.gain);
   k.integral_time_s = src.quantity_or("control.integral_time", Dimension::time, {1.0, 1e6}, k.integral_time_s);
+  k.derivative_time_s = src.quantity_or("control.derivative_time", Dimension::time, {0.0, 3600.0}, 0.0);
   k.interval_s = src.quantity_or("control.interval", Dimension::time, {0.1, 3600.0}, k.interval_s);
   k.speed_min_rps = src.quantity_or("control.speed_min", Dimension::speed, {0.0, 50.0}, c.operation.speed_rps);
   k.speed_max_rps = src.quantity_or("control.speed_max", Dimension::speed, {0.0, 50.0}, k.speed_min_rps);

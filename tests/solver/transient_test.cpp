@@ -99,6 +99,13 @@ set = "culture.biomass=12 g/L"
   const auto r = run_transient(loaded, {}, o);
   const double setpoint = loaded.data.control.setpoint_mol_m3;
   EXPECT_NEAR(r.trace.back().probe_do / setpoint, 1.0, 0.02);  // PI: no offset once settled
+  // With derivative action (on the measurement) the loop still settles at its set-point, and the
+  // term acts: the speed history differs from the PI one. (This fast 300 L loop, sampled every 5 s,
+  // tolerates little derivative time: 3 s already leaves it hunting.)
+  const std::vector<Override> with_d{parse_override("control.derivative_time=1 s")};
+  const auto pid = run_transient(read_case_text(loaded.source_text, "controller", with_d), with_d, o);
+  EXPECT_NEAR(pid.trace.back().probe_do / setpoint, 1.0, 0.02);
+  EXPECT_NE(pid.trace.back().speed_rps, r.trace.back().speed_rps);
   // More uptake after the step: the controller has raised the speed.
   double speed_before = 0.0;
   for (const auto& s : r.trace) {
