@@ -43,10 +43,10 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
     }
     // Forcing term (Eisenstat & Walker 1996, choice 2 with gamma = 0.9, alpha = 2): loose while
     // the residual falls slowly, tight in the quadratic phase; never below what puts the
-    // linearised residual at a tenth of the tolerance (2-norm >= max norm), never above 1e-2.
+    // linearised residual at a tenth of the tolerance (2-norm >= max norm), never above 0.1.
     const double r2 = r.norm();
     double eta = r2_previous > 0.0 ? 0.9 * (r2 / r2_previous) * (r2 / r2_previous) : 1e-2;
-    eta = std::min(1e-2, std::max(eta, 0.1 * opts.tolerance * p.residual_scale() / r2));
+    eta = std::min(0.1, std::max(eta, 0.1 * opts.tolerance * p.residual_scale() / r2));
     r2_previous = r2;
     bool solved = blocks.solve(-r, dx, eta);
     rep.linear_iterations += blocks.last_iterations();

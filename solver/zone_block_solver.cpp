@@ -19,20 +19,149 @@ Block multiply(const Block& a, const Block& b) {
   return {a[0] * b[0] + a[1] * b[2], a[0] * b[1] + a[1] * b[3], a[2] * b[0] + a[3] * b[2], a[2] * b[1] + a[3] * b[3]};
 }
 
-// Same sparsity pattern (the LU's symbolic analysis can be kept).
-bool same_pattern(const Eigen::SparseMatrix<double>& a, const Eigen::SparseMatrix<double>& b) {
-  if (a.rows() != b.rows() || a.nonZeros() != b.nonZeros()) return false;
-  return std::equal(a.outerIndexPtr(), a.outerIndexPtr() + a.outerSize() + 1, b.outerIndexPtr()) &&
-         std::equal(a.innerIndexPtr(), a.innerIndexPtr() + a.nonZeros(), b.innerIndexPtr());
+}  // namespace
+
+int ScalarLu::supernodal_from = 8000;
+
+bool ScalarLu::factorize(const Eigen::SparseMatrix<double>& a) {
+  const int n = static_cast<int>(a.rows());
+  supernodal_ = n >= supernodal_from;
+  if (supernodal_) {
+    const bool same = n == n_ && pattern_outer_.size() == n + 1 && pattern_inner_.size() == a.nonZeros() &&
+                      std::equal(a.outerIndexPtr(), a.outerIndexPtr() + n + 1, pattern_outer_.data()) &&
+                      std::equal(a.innerIndexPtr(), a.innerIndexPtr() + a.nonZeros(), pattern_inner_.data());
+    if (!same) {
+      n_ = n;
+      big_.analyzePattern(a);
+      pattern_outer_ = Eigen::Map<const Eigen::VectorXi>(a.outerIndexPtr(), n + 1);
+      pattern_inner_ = Eigen::Map<const Eigen::VectorXi>(a.innerIndexPtr(), a.nonZeros());
+    }
+    big_.factorize(a);
+    return big_.info() == Eigen::Success;
+  }
+  // The ordering depends on the pattern only: made once, kept while the pattern stays.
+  const bool same = n == n_ && pattern_outer_.size() == n + 1 && pattern_inner_.size() == a.nonZeros() &&
+                    std::equal(a.outerIndexPtr(), a.outerIndexPtr() + n + 1, pattern_outer_.data()) &&
+                    std::equal(a.innerIndexPtr(), a.innerIndexPtr() + a.nonZeros(), pattern_inner_.data());
+  if (!same) {
+    n_ = n;
+    Eigen::COLAMDOrdering<int> colamd;
+    Eigen::PermutationMatrix<Eigen::Dynamic, Eigen::Dynamic, int> q;
+    colamd(a, q);
+    perm_ = q.indices();  // new position of old column (and row) i
+    pattern_outer_ = Eigen::Map<const Eigen::VectorXi>(a.outerIndexPtr(), n + 1);
+    pattern_inner_ = Eigen::Map<const Eigen::VectorXi>(a.innerIndexPtr(), a.nonZeros());
+    work_.assign(n, 0.0);
+    mark_.assign(n, -1);
+    next_.assign(n, 0);
+    stack_.resize(n);
+    reach_.resize(n);
+  }
+  // B = P A P^T in compressed columns.
+  std::vector<int> b_start(n + 1, 0), b_row(a.nonZeros());
+  std::vector<double> b_val(a.nonZeros());
+  for (int j = 0; j < n; ++j) b_start[perm_[j] + 1] = a.outerIndexPtr()[j + 1] - a.outerIndexPtr()[j];
+  for (int j = 0; j < n; ++j) b_start[j + 1] += b_start[j];
+  for (int j = 0; j < n; ++j) {
+    int at = b_start[perm_[j]];
+    for (Eigen::SparseMatrix<double>::InnerIterator it(a, j); it; ++it, ++at) {
+      b_row[at] = perm_[it.row()];
+      b_val[at] = it.value();
+    }
+  }
+  l_start_.assign(1, 0);
+  u_start_.assign(1, 0);
+  l_row_.clear();
+  l_val_.clear();
+  u_row_.clear();
+  u_val_.clear();
+  diag_.assign(n, 0.0);
+  std::fill(mark_.begin(), mark_.end(), -1);
+  for (int k = 0; k < n; ++k) {
+    // Pattern of x = L^-1 B(:, k): everything reachable from B's rows through the columns of L
+    // done so far, found by depth-first search; reach_[0, top) in reverse topological order.
+    int top = 0;
+    double column_max = 0.0;
+    for (int e = b_start[k]; e < b_start[k + 1]; ++e) {
+      const int start = b_row[e];
+      work_[start] += b_val[e];
+      column_max = std::max(column_max, std::abs(b_val[e]));
+      if (mark_[start] == k) continue;
+      int depth = 0;
+      stack_[0] = start;
+      mark_[start] = k;
+      next_[start] = start < k ? l_start_[start] : 0;
+      while (depth >= 0) {
+        const int node = stack_[depth];
+        const int end = node < k ? l_start_[node + 1] : 0;
+        bool descended = false;
+        while (next_[node] < end) {
+          const int child = l_row_[next_[node]++];
+          if (mark_[child] == k) continue;
+          mark_[child] = k;
+          next_[child] = child < k ? l_start_[child] : 0;
+          stack_[++depth] = child;
+          descended = true;
+          break;
+        }
+        if (!descended) {
+          reach_[top++] = node;  // finished: postorder
+          --depth;
+        }
+      }
+    }
+    // Numeric: in topological order (reverse postorder), eliminate with the columns of L.
+    for (int t = top - 1; t >= 0; --t) {
+      const int j = reach_[t];
+      if (j >= k) continue;
+      const double xj = work_[j];
+      for (int e = l_start_[j]; e < l_start_[j + 1]; ++e) work_[l_row_[e]] -= l_val_[e] * xj;
+    }
+    const double pivot = work_[k];
+    if (!(std::abs(pivot) > 1e-12 * column_max) || !std::isfinite(pivot)) return false;
+    diag_[k] = pivot;
+    for (int t = top - 1; t >= 0; --t) {
+      const int i = reach_[t];
+      if (i < k) {
+        u_row_.push_back(i);
+        u_val_.push_back(work_[i]);
+      } else if (i > k) {
+        l_row_.push_back(i);
+        l_val_.push_back(work_[i] / pivot);
+      }
+      work_[i] = 0.0;
+    }
+    l_start_.push_back(static_cast<int>(l_row_.size()));
+    u_start_.push_back(static_cast<int>(u_row_.size()));
+  }
+  return true;
 }
 
-}  // namespace
+void ScalarLu::solve(Eigen::VectorXd& x) const {
+  if (supernodal_) {
+    x = big_.solve(x).eval();
+    return;
+  }
+  Eigen::VectorXd y(n_);
+  for (int i = 0; i < n_; ++i) y[perm_[i]] = x[i];
+  for (int j = 0; j < n_; ++j) {
+    const double yj = y[j];
+    if (yj == 0.0) continue;
+    for (int e = l_start_[j]; e < l_start_[j + 1]; ++e) y[l_row_[e]] -= l_val_[e] * yj;
+  }
+  for (int k = n_ - 1; k >= 0; --k) {
+    const double yk = y[k] /= diag_[k];
+    if (yk == 0.0) continue;
+    for (int e = u_start_[k]; e < u_start_[k + 1]; ++e) y[u_row_[e]] -= u_val_[e] * yk;
+  }
+  for (int i = 0; i < n_; ++i) x[i] = y[perm_[i]];
+}
 
 bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   have_jacobian_ = false;
   const int n = layout.zones;
   if (n <= 0 || layout.gas_order == nullptr || static_cast<int>(layout.gas_order->size()) != n) return false;
-  if (n != n_) factored_ = analysed_ = false;
+  if (n != n_) factored_ = false;
   n_ = n;
   order_ = *layout.gas_order;
   std::vector<int> position(n, -1);
@@ -112,7 +241,6 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
 bool ZoneBlockSolver::refresh_preconditioner() {
   factored_ = false;
   if (!have_jacobian_) return false;
-  const bool keep_analysis = analysed_ && same_pattern(p_oo_, j_oo_) && same_pattern(p_cc_, j_cc_);
   p_oo_ = j_oo_;
   p_cc_ = j_cc_;
   p_co_.resize(n_);
@@ -123,15 +251,7 @@ bool ZoneBlockSolver::refresh_preconditioner() {
     p_cc_.coeffRef(k, k) -= c[3];
     p_co_[k] = x10_[k] - c[2];
   }
-  if (!keep_analysis) {
-    lu_o_.analyzePattern(p_oo_);
-    lu_c_.analyzePattern(p_cc_);
-    analysed_ = true;
-  }
-  lu_o_.factorize(p_oo_);
-  if (lu_o_.info() != Eigen::Success) return false;
-  lu_c_.factorize(p_cc_);
-  if (lu_c_.info() != Eigen::Success) return false;
+  if (!lu_o_.factorize(p_oo_) || !lu_c_.factorize(p_cc_)) return false;
   ++factorisations_;
   factored_ = true;
   return true;
@@ -173,10 +293,12 @@ void ZoneBlockSolver::apply_schur(const Eigen::VectorXd& v, Eigen::VectorXd& out
 void ZoneBlockSolver::precondition(const Eigen::VectorXd& v, Eigen::VectorXd& out) {
   s_o_.resize(n_);
   for (int k = 0; k < n_; ++k) s_o_[k] = v[2 * k];
-  const Eigen::VectorXd zo = lu_o_.solve(s_o_);
+  lu_o_.solve(s_o_);
+  const Eigen::VectorXd& zo = s_o_;
   s_c_.resize(n_);
   for (int k = 0; k < n_; ++k) s_c_[k] = v[2 * k + 1] - p_co_[k] * zo[k];
-  const Eigen::VectorXd zc = lu_c_.solve(s_c_);
+  lu_c_.solve(s_c_);
+  const Eigen::VectorXd& zc = s_c_;
   out.resize(2 * n_);
   for (int k = 0; k < n_; ++k) {
     out[2 * k] = zo[k];

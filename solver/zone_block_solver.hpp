@@ -30,6 +30,37 @@ struct ZoneLayout {
   const std::vector<int>* gas_order = nullptr;  //!< every zone after all zones that send it gas
 };
 
+//! Sparse LU without pivoting of P A P^T (left-looking, Gilbert & Peierls 1988), P a fill-reducing
+//! ordering (COLAMD, Larimore/Davis et al. 2004) applied to rows and columns alike. Meant for the
+//! liquid blocks here: transport with zero column sums minus a non-negative diagonal is column
+//! diagonally dominant, so the diagonal pivots are stable; a pivot that is not (below 1e-12 of
+//! its column) makes factorize() fail. Plain compressed-column factors, so a solve is two simple
+//! triangular sweeps.
+class ScalarLu {
+ public:
+  bool factorize(const Eigen::SparseMatrix<double>& a);  //!< keeps the ordering while the pattern stays
+  void solve(Eigen::VectorXd& x) const;                   //!< in place
+  long nonzeros() const {
+    return supernodal_ ? static_cast<long>(big_.nnzL() + big_.nnzU())
+                       : static_cast<long>(l_val_.size() + u_val_.size() + diag_.size());
+  }
+  //! From this size on, Eigen's supernodal SparseLU (same ordering, partial pivoting that picks
+  //! the diagonal here, dense kernels on the supernodes) factors and solves faster than the
+  //! plain columns: measured crossover 5000-10000 zones (bench/notes.md). Benchmarks may set it.
+  static int supernodal_from;
+
+ private:
+  bool supernodal_ = false;
+  Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> big_;
+  int n_ = 0;
+  Eigen::VectorXi perm_, pattern_outer_, pattern_inner_;  // new index of old row/col; pattern the ordering was made for
+  std::vector<int> l_start_, l_row_, u_start_, u_row_;
+  std::vector<double> l_val_, u_val_, diag_;
+  // Scratch for the factorisation.
+  std::vector<double> work_;
+  std::vector<int> mark_, stack_, next_, reach_;
+};
+
 class ZoneBlockSolver {
  public:
   using Triplets = std::vector<Eigen::Triplet<double>>;
@@ -62,9 +93,9 @@ class ZoneBlockSolver {
   std::vector<Block> gg_inv_;
   // The preconditioner (frozen between refreshes).
   Eigen::SparseMatrix<double> p_oo_, p_cc_;
-  Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu_o_, lu_c_;
+  ScalarLu lu_o_, lu_c_;
   std::vector<double> p_co_;
-  bool analysed_ = false, factored_ = false, have_jacobian_ = false;
+  bool factored_ = false, have_jacobian_ = false;
   int factorisations_ = 0, last_iterations_ = 0;
   // Scratch.
   Eigen::VectorXd t_gas_, s_o_, s_c_;
