@@ -142,7 +142,8 @@ void ScalarLu::solve(Eigen::VectorXd& x) const {
     x = big_.solve(x).eval();
     return;
   }
-  Eigen::VectorXd y(n_);
+  Eigen::VectorXd& y = solve_scratch_;
+  y.resize(n_);
   for (int i = 0; i < n_; ++i) y[perm_[i]] = x[i];
   for (int j = 0; j < n_; ++j) {
     const double yj = y[j];
@@ -174,19 +175,18 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   lg_.assign(n, Block{});
   gl_.assign(n, Block{});
   gg_.assign(n, Block{});
-  Triplets oo, cc;
+  Triplets& oo = oo_scratch_;
+  Triplets& cc = cc_scratch_;
+  oo.clear();
+  cc.clear();
   oo.reserve(t.size() / 4 + n);
   cc.reserve(t.size() / 4 + n);
   for (int k = 0; k < n; ++k) {  // explicit diagonals: the preconditioner modifies them in place
     oo.emplace_back(k, k, 0.0);
     cc.emplace_back(k, k, 0.0);
   }
-  struct Upstream {
-    int zone, col;
-    unsigned char row;
-    double value;
-  };
-  std::vector<Upstream> up;
+  auto& up = up_scratch_;
+  up.clear();
   for (const auto& e : t) {
     const int zi = e.row() >> 2, si = e.row() & 3, zj = e.col() >> 2, sj = e.col() & 3;
     if (zi >= n || zj >= n) return false;
@@ -280,7 +280,9 @@ void ZoneBlockSolver::apply_schur(const Eigen::VectorXd& v, Eigen::VectorXd& out
     s_c_[k] = b;
   }
   gas_sweep(t_gas_);
-  const Eigen::VectorXd jo = j_oo_ * s_o_, jc = j_cc_ * s_c_;
+  jo_.noalias() = j_oo_ * s_o_;
+  jc_.noalias() = j_cc_ * s_c_;
+  const Eigen::VectorXd &jo = jo_, &jc = jc_;
   out.resize(2 * n_);
   for (int k = 0; k < n_; ++k) {
     const Block& m = lg_[k];

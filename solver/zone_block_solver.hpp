@@ -56,6 +56,7 @@ class ScalarLu {
   Eigen::VectorXi perm_, pattern_outer_, pattern_inner_;  // new index of old row/col; pattern the ordering was made for
   std::vector<int> l_start_, l_row_, u_start_, u_row_;
   std::vector<double> l_val_, u_val_, diag_;
+  mutable Eigen::VectorXd solve_scratch_;
   // Scratch for the factorisation.
   std::vector<double> work_;
   std::vector<int> mark_, stack_, next_, reach_;
@@ -98,7 +99,14 @@ class ZoneBlockSolver {
   bool factored_ = false, have_jacobian_ = false;
   int factorisations_ = 0, last_iterations_ = 0;
   // Scratch.
-  Eigen::VectorXd t_gas_, s_o_, s_c_;
+  Eigen::VectorXd t_gas_, s_o_, s_c_, jo_, jc_;
+  struct Upstream {
+    int zone, col;
+    unsigned char row;
+    double value;
+  };
+  Triplets oo_scratch_, cc_scratch_;
+  std::vector<Upstream> up_scratch_;
   std::vector<Eigen::VectorXd> basis_;
 };
 
