@@ -44,25 +44,32 @@ void BM_NetworkBuild(benchmark::State& state) {
 }
 BENCHMARK(BM_NetworkBuild)->Arg(2000)->Unit(benchmark::kMillisecond)->UseRealTime();
 
-// The coupled steady solve (outer holdup/kLa loop around damped Newton), cold start each time.
-void BM_SteadySolve(benchmark::State& state) {
+// The coupled steady solve (outer holdup/kLa loop around damped Newton), cold start each time;
+// `structured` false forces the general sparse LU of the whole Jacobian (the previous solver).
+void steady_solve(benchmark::State& state, bool structured) {
   const auto loaded = load_case(kDemo, grid_for_zones(static_cast<double>(state.range(0))));
   const auto n = build(loaded.data);
   const OxygenContext ctx{loaded.data, n.net, n.hydro, n.routing};
+  NewtonOptions newton;
+  newton.structured = structured;
   OxygenField f;
   for (auto _ : state) {
-    f = solve_oxygen_field(ctx);
+    f = solve_oxygen_field(ctx, -1.0, nullptr, nullptr, newton);
     benchmark::DoNotOptimize(f.do_min);
   }
   state.counters["zones"] = n.net.size();
   state.counters["newton"] = f.newton_iterations;
   state.counters["outer"] = f.outer_iterations;
+  state.counters["linear"] = f.linear_iterations;
   state.counters["do_min_mol_m3"] = f.do_min;
 }
-BENCHMARK(BM_SteadySolve)->Arg(2000)->Unit(benchmark::kMillisecond)->UseRealTime();
+void BM_SteadySolve(benchmark::State& state) { steady_solve(state, true); }
+void BM_SteadySolveGeneralLu(benchmark::State& state) { steady_solve(state, false); }
+BENCHMARK(BM_SteadySolve)->Arg(500)->Arg(2000)->Unit(benchmark::kMillisecond)->UseRealTime();
+BENCHMARK(BM_SteadySolveGeneralLu)->Arg(2000)->Unit(benchmark::kMillisecond)->UseRealTime();
 BENCHMARK(BM_SteadySolve)
     ->Name("BM_SteadySolveScaling")
-    ->Arg(10000)->Arg(20000)->Arg(50000)->Arg(100000)
+    ->Arg(10000)->Arg(20000)->Arg(50000)->Arg(100000)->Arg(200000)
     ->Unit(benchmark::kMillisecond)->UseRealTime()->MinTime(2.0);
 
 }  // namespace
