@@ -407,11 +407,12 @@ void merge_includes(toml::table& root, const std::string& file_name) {
     }
     seen.push_back(shown);
     std::ifstream in(path, std::ios::binary);
-    if (!in || !std::filesystem::is_regular_file(path)) {
+    std::error_code ec;  // the non-throwing tests: a name the system refuses (too long) is just "cannot open"
+    if (!in || !std::filesystem::is_regular_file(path, ec)) {
       throw CaseError(fmt::format("{}:{}: include = \"{}\": cannot open {}{} (a relative path is taken from the case "
                                   "file's folder)",
                                   file_name, line, name, shown,
-                                  std::filesystem::is_directory(path) ? ": it is a folder; name the file in it, e.g. "
+                                  std::filesystem::is_directory(path, ec) ? ": it is a folder; name the file in it, e.g. "
                                                                         "calibration.toml"
                                                                       : ""));
     }
