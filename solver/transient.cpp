@@ -42,6 +42,8 @@ class EulerStep : public SteadyProblem {
     }
   }
   double residual_scale() const override { return scale_; }
+  //! Same unknowns and gas routing as the steady problem: the structured solve applies.
+  ZoneLayout zone_layout() const override { return p_.zone_layout(); }
 
  private:
   const OxygenProblem& p_;
