@@ -14,6 +14,7 @@
 #include <numbers>
 #include <sstream>
 
+#include "csv_cells.hpp"
 #include "case/units.hpp"
 #include "gas_routing.hpp"
 #include "kla_fit.hpp"
@@ -30,41 +31,9 @@ constexpr double kR = 8.314462618;     // gas constant [J/(mol K)] (CODATA 2018)
 // ---------------------------------------------------------------------------------------------
 // Reading the data file
 
-std::string_view trim(std::string_view s) {
-  while (!s.empty() && std::isspace(static_cast<unsigned char>(s.front()))) s.remove_prefix(1);
-  while (!s.empty() && std::isspace(static_cast<unsigned char>(s.back()))) s.remove_suffix(1);
-  return s;
-}
-
-std::string_view unquote(std::string_view s) {
-  s = trim(s);
-  if (s.size() >= 2 && s.front() == '"' && s.back() == '"') s = trim(s.substr(1, s.size() - 2));
-  return s;
-}
-
-std::vector<std::string> split_cells(std::string_view line, char sep) {
-  std::vector<std::string> cells;
-  size_t start = 0;
-  while (true) {
-    const size_t at = line.find(sep, start);
-    cells.emplace_back(unquote(line.substr(start, at == std::string_view::npos ? std::string_view::npos : at - start)));
-    if (at == std::string_view::npos) break;
-    start = at + 1;
-  }
-  return cells;
-}
-
-std::optional<double> parse_number(std::string_view cell, bool decimal_comma) {
-  std::string text(trim(cell));
-  if (decimal_comma) std::replace(text.begin(), text.end(), ',', '.');
-  const char* first = text.data();
-  const char* last = text.data() + text.size();
-  if (first != last && *first == '+') ++first;
-  double v = 0.0;
-  const auto [ptr, ec] = std::from_chars(first, last, v);
-  if (ec != std::errc() || ptr != last || first == last || !std::isfinite(v)) return std::nullopt;
-  return v;
-}
+using csv::parse_number;
+using csv::split_cells;
+using csv::trim;
 
 // Lower case, '_' as a space, runs of spaces as one: "Gas_Flow" -> "gas flow".
 std::string normalised(std::string_view s) {
