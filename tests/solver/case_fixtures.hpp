@@ -6,6 +6,9 @@
 #include <string>
 
 #include "case/case_reader.hpp"
+#include "gas_routing.hpp"
+#include "hydrodynamics.hpp"
+#include "zone_network.hpp"
 #include "reference_cases.hpp"
 
 namespace oxystrat::testing {
@@ -17,6 +20,14 @@ inline Case single_impeller(const std::string& type, double d_over_t, int radial
 
 //! A gassed 2.5 m3 vessel with two Rushtons and a culture: the oxygen-field workhorse.
 inline Case gassed_vessel(int radial = 6, int axial = 16) { return reference_gassed_vessel(radial, axial, 15.0); }
+
+//! The chain from a case to what the oxygen solve needs: zones, hydrodynamics, gas routing.
+struct Chain {
+  ZoneNetwork net;
+  Hydrodynamics hydro;
+  GasRouting routing;
+  explicit Chain(const Case& c) : net(build_zone_geometry(c)), hydro(compute_hydrodynamics(c, net)), routing(route_gas(c, net, hydro)) {}
+};
 
 inline std::string source_dir() { return OXYSTRAT_SOURCE_DIR; }
 

@@ -13,12 +13,7 @@
 namespace oxystrat {
 namespace {
 
-struct Chain {
-  ZoneNetwork net;
-  Hydrodynamics hydro;
-  GasRouting routing;
-  explicit Chain(const Case& c) : net(build_zone_geometry(c)), hydro(compute_hydrodynamics(c, net)), routing(route_gas(c, net, hydro)) {}
-};
+using testing::Chain;
 
 OxygenField solve(const Case& c) {
   const Chain ch(c);

@@ -16,12 +16,7 @@
 namespace oxystrat {
 namespace {
 
-struct Chain {
-  ZoneNetwork net;
-  Hydrodynamics hydro;
-  GasRouting routing;
-  explicit Chain(const Case& c) : net(build_zone_geometry(c)), hydro(compute_hydrodynamics(c, net)), routing(route_gas(c, net, hydro)) {}
-};
+using testing::Chain;
 
 double max_abs(const std::vector<double>& v) {
   double m = 0.0;
