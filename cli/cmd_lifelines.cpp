@@ -69,6 +69,16 @@ void add_lifelines_command(CLI::App& app) {
     if (!(lo.duration_s > 0.0 && lo.duration_s <= 30 * 86400.0)) {
       throw CaseError(fmt::format("--duration '{}': allowed more than 0 s and at most 30 d", o->duration));
     }
+    // Every excursion and interval is kept: ~440 MB per 1e5 cell-hours on the 60 m3 demo
+    // (docs/lifelines-speed.md). Refuse what would not fit before anything is allocated.
+    const double cell_hours = lo.cells * lo.duration_s / 3600.0;
+    constexpr double kBytesPerCellHour = 4.4e3, kLimitBytes = 8.0 * 1024 * 1024 * 1024;
+    if (cell_hours * kBytesPerCellHour > kLimitBytes) {
+      throw CaseError(fmt::format("--cells {} over --duration '{}' is {:.3g} cell-hours, about {:.0f} GB of excursion "
+                                  "records (at most {:.0f} GB); follow fewer cells or a shorter time",
+                                  lo.cells, o->duration, cell_hours, cell_hours * kBytesPerCellHour / 1e9,
+                                  kLimitBytes / 1e9));
+    }
     if (!o->min_excursion.empty()) {
       try {
         lo.min_excursion_s = units::parse(units::Dimension::time, o->min_excursion);

@@ -48,6 +48,15 @@ TEST_F(LifelinesCli, MinimumExcursionAndRegimesReachTheResultFile) {
   EXPECT_FALSE(read_doubles(file, "/lifelines/regimes/impeller2/return_histogram_counts").empty());
 }
 
+TEST_F(LifelinesCli, RunsTooLargeToRecordAreRefusedBeforeAnyWork) {
+  // 1e7 cells over 10 h = 1e8 cell-hours; at ~4.4e8 B per 1e5 cell-hours that is ~440 GB of records.
+  const auto r = oxystrat({"lifelines", (kSourceDir / "cases/tall-3rushton.toml").string(), "--cells", "10000000",
+                           "--duration", "10 h", "--out", "x"});
+  EXPECT_NE(r.exit_code, 0);
+  EXPECT_THAT(r.err, HasSubstr("cell-hours"));
+  EXPECT_FALSE(fs::exists(work() / "x"));
+}
+
 TEST_F(LifelinesCli, BadMinimumExcursionIsAClearError) {
   for (const char* bad : {"0 s", "3 kg", "2 h"}) {
     const auto r = oxystrat({"lifelines", (kSourceDir / "cases/tall-3rushton.toml").string(), "--duration", "1 h",
