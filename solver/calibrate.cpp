@@ -142,13 +142,11 @@ CalibrationData parse_calibration_data(const std::string& text, const std::strin
   double uncertainty_si = 0.0; // SI value of one unit of the uncertainty; 0: percent
   while (std::getline(in, raw)) {
     ++line_no;
-    std::string_view line = raw;
-    if (line_no == 1 && line.substr(0, 3) == "\xEF\xBB\xBF") line.remove_prefix(3);  // UTF-8 byte-order mark
-    line = trim(line);
-    if (line.empty() || line.front() == '#') continue;
+    const std::string_view line = csv::content_line(raw, line_no);
+    if (line.empty()) continue;
     const auto where = fmt::format("{}:{}", file_name, line_no);
     if (!have_header) {
-      sep = line.find(';') != std::string_view::npos ? ';' : ',';
+      sep = csv::separator_of(line);
       const auto cells = split_cells(line, sep);
       if (parse_number(cells.front(), sep == ';')) {
         throw CaseError(fmt::format("{}: expected a header row naming the columns with their units, e.g. {}, before "

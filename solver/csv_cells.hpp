@@ -26,6 +26,17 @@ inline std::string_view unquote(std::string_view s) {
   return s;
 }
 
+//! The content of one line of a data file: trimmed, without the UTF-8 byte-order mark on line 1;
+//! empty for blank lines and `#` comments (which carry nothing).
+inline std::string_view content_line(std::string_view raw, int line_no) {
+  if (line_no == 1 && raw.substr(0, 3) == "\xEF\xBB\xBF") raw.remove_prefix(3);
+  raw = trim(raw);
+  return !raw.empty() && raw.front() == '#' ? std::string_view{} : raw;
+}
+
+//! ';' when the line has one (then a decimal comma is allowed), else ','.
+inline char separator_of(std::string_view header) { return header.find(';') != std::string_view::npos ? ';' : ','; }
+
 inline std::vector<std::string> split_cells(std::string_view line, char sep) {
   std::vector<std::string> cells;
   size_t start = 0;
