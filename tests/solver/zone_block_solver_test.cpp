@@ -112,6 +112,13 @@ TEST(ScalarLu, SolvesATransportMatrixWithTransferDiagonalInBothModes) {
       ASSERT_TRUE(lu.factorize(a));
     }
     EXPECT_GT(lu.nonzeros(), a.nonZeros() / 2);
+    // New values on the same pattern (a numeric-only refactorisation in the plain mode).
+    SparseMatrix changed = a;
+    for (int k = 0; k < changed.rows(); ++k) changed.coeffRef(k, k) *= 1.5 + 0.5 * std::cos(k);
+    ASSERT_TRUE(lu.factorize(changed));
+    Eigen::VectorXd x = b;
+    lu.solve(x);
+    EXPECT_LE((changed * x - b).norm(), 1e-10 * b.norm()) << from;  // as above
   }
   ScalarLu::supernodal_from = saved;
   // A zero pivot (a structurally empty column) is refused, not divided by.
