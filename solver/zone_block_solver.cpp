@@ -239,6 +239,8 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   have_jacobian_ = false;
   const int n = layout.zones;
   if (n <= 0 || layout.gas_order == nullptr || static_cast<int>(layout.gas_order->size()) != n) return false;
+  if (accept_same_pattern(layout, t)) return true;
+  slot_.clear();
   if (n != n_) factored_ = false;
   n_ = n;
   order_ = *layout.gas_order;
@@ -311,6 +313,52 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   j_cc_.resize(n, n);
   j_oo_.setFromTriplets(oo.begin(), oo.end());
   j_cc_.setFromTriplets(cc.begin(), cc.end());
+  remember_slots(t, fill);
+  have_jacobian_ = true;
+  return true;
+}
+
+// Where each triplet of the last full accept() went, so that a Jacobian with the same pattern
+// (every Newton step of one problem) is taken apart by one scatter instead of sorting again.
+void ZoneBlockSolver::remember_slots(const Triplets& t, std::vector<int>& fill) {
+  std::copy(up_start_.begin(), up_start_.end() - 1, fill.begin());
+  slot_.resize(t.size());
+  pattern_.resize(t.size());
+  for (size_t i = 0; i < t.size(); ++i) {
+    const auto& e = t[i];
+    pattern_[i] = {e.row(), e.col()};
+    const int zi = e.row() >> 2, si = e.row() & 3, zj = e.col() >> 2, sj = e.col() & 3;
+    double* to = nullptr;
+    if (si < 2 && sj < 2) {
+      to = si == sj ? &(si == 0 ? j_oo_ : j_cc_).coeffRef(zi, zj) : &(si == 0 ? x01_ : x10_)[zi];
+    } else if (si < 2) {
+      to = &lg_[zi][2 * si + sj - 2];
+    } else if (sj < 2) {
+      to = &gl_[zi][2 * (si - 2) + sj];
+    } else if (zi == zj) {
+      to = &gg_[zi][2 * (si - 2) + sj - 2];
+    } else {
+      to = &up_val_[fill[zi]++];  // the counting sort's order above
+    }
+    slot_[i] = to;
+  }
+}
+
+bool ZoneBlockSolver::accept_same_pattern(const ZoneLayout& layout, const Triplets& t) {
+  if (slot_.empty() || t.size() != slot_.size() || layout.zones != n_ || *layout.gas_order != order_) return false;
+  for (size_t i = 0; i < t.size(); ++i) {
+    if (t[i].row() != pattern_[i][0] || t[i].col() != pattern_[i][1]) return false;
+  }
+  std::fill_n(j_oo_.valuePtr(), j_oo_.nonZeros(), 0.0);
+  std::fill_n(j_cc_.valuePtr(), j_cc_.nonZeros(), 0.0);
+  std::fill(x01_.begin(), x01_.end(), 0.0);
+  std::fill(x10_.begin(), x10_.end(), 0.0);
+  for (auto* blocks : {&lg_, &gl_, &gg_}) std::fill(blocks->begin(), blocks->end(), Block{});
+  std::fill(up_val_.begin(), up_val_.end(), 0.0);
+  for (size_t i = 0; i < t.size(); ++i) *slot_[i] += t[i].value();
+  for (int k = 0; k < n_; ++k) {
+    if (!invert(gg_[k], gg_inv_[k])) return false;
+  }
   have_jacobian_ = true;
   return true;
 }

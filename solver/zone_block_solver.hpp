@@ -89,6 +89,8 @@ class ZoneBlockSolver {
 
  private:
   using Block = std::array<double, 4>;  // row-major 2 x 2
+  bool accept_same_pattern(const ZoneLayout& layout, const Triplets& t);
+  void remember_slots(const Triplets& t, std::vector<int>& fill);
   void gas_sweep(Eigen::VectorXd& g) const;                      // g <- J_gg^-1 g (length 2n)
   void apply_schur(const Eigen::VectorXd& v, Eigen::VectorXd& out);  // out = S v (length 2n)
   void precondition(const Eigen::VectorXd& v, Eigen::VectorXd& out);  // out ~ S^-1 v
@@ -103,6 +105,9 @@ class ZoneBlockSolver {
   std::vector<unsigned char> up_row_;            // receiving gas species (0, 1)
   std::vector<double> up_val_;
   std::vector<Block> gg_inv_;
+  // The pattern of the last full accept() and where each of its triplets was added.
+  std::vector<std::array<int, 2>> pattern_;
+  std::vector<double*> slot_;
   // The preconditioner (frozen between refreshes).
   Eigen::SparseMatrix<double> p_oo_, p_cc_;
   ScalarLu lu_o_, lu_c_;
