@@ -7,6 +7,8 @@
 #include <cmath>
 #include <limits>
 #include <stdexcept>
+#include <utility>
+
 
 namespace oxystrat {
 namespace {
@@ -55,10 +57,13 @@ Histogram fixed_bin_histogram(const long* counts) {
 // 64-bit coin. Only when they equal the top bits of the column's
 // threshold (probability 2^-(24-b)) does the comparison need the coin's other bits: a further draw.
 // So the pick is exact to 2^-64, like a comparison of two 64-bit uniforms.
+// Zones: [0] the alias, [1] the column's own outcome, each with kChangeBit set when entering it
+// changes the key (so the common move reads no key). The full threshold of slot s is
+// Chain::threshold[s].
+constexpr std::uint32_t kChangeBit = 1u << 31;
 struct Slot {
-  int to[2];            // zones: [0] the alias, [1] the column's own outcome
-  std::uint32_t top;    // threshold >> (64 - coin bits)
-  std::uint32_t index;  // of the full threshold in Chain::threshold
+  std::uint32_t to[2];
+  std::uint32_t top;  // threshold >> (64 - coin bits)
 };
 
 struct Chain {
@@ -76,6 +81,7 @@ struct Chain {
 Chain build_chain(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<LifelineField>& fields,
                   const LifelineRegimes& regimes) {
   const int n = net.size();
+  if (static_cast<std::uint64_t>(n) >= kChangeBit) throw std::invalid_argument("lifelines: too many zones");
   std::vector<std::vector<std::pair<int, double>>> out(n);
   for (size_t f = 0; f < net.faces.size(); ++f) {
     const int a = net.faces[f].zone_a, b = net.faces[f].zone_b;
@@ -89,6 +95,22 @@ Chain build_chain(const ZoneNetwork& net, const Hydrodynamics& h, const std::vec
   if (degree > 256) throw std::invalid_argument("lifelines: a zone with more than 256 neighbours");
   Chain c;
   c.zones = n;
+  c.key.assign(n, 0u);
+  if (!regimes.names.empty()) {
+    if (regimes.names.size() > 256 || static_cast<int>(regimes.of_zone.size()) != n) {
+      throw std::invalid_argument("lifelines: regimes need one label per zone, at most 256 labels");
+    }
+    for (int k = 0; k < n; ++k) c.key[k] = static_cast<std::uint32_t>(regimes.of_zone[k]);
+  }
+  if (fields.size() > 24) throw std::invalid_argument("lifelines: at most 24 fields");
+  for (size_t f = 0; f < fields.size(); ++f) {
+    if (static_cast<int>(fields[f].value.size()) != n) throw std::invalid_argument("lifelines: field '" + fields[f].name + "' needs one value per zone");
+    for (int k = 0; k < n; ++k) {
+      const double v = fields[f].value[k];
+      const bool outside = fields[f].below ? v < fields[f].threshold : v > fields[f].threshold;
+      if (outside) c.key[k] |= 1u << (8 + f);
+    }
+  }
   c.log_columns = std::bit_width(std::bit_ceil(degree)) - 1;
   const int columns = 1 << c.log_columns;
   c.column_mask = static_cast<std::uint32_t>(columns - 1);
@@ -107,27 +129,14 @@ Chain build_chain(const ZoneNetwork& net, const Hydrodynamics& h, const std::vec
     } else {
       c.mean_dwell[k] = net.volume[k] / total;
     }
+    auto target = [&](int outcome) {
+      const int z = out[k][outcome].first;
+      return static_cast<std::uint32_t>(z) | (c.key[z] != c.key[k] ? kChangeBit : 0u);
+    };
     const AliasTable t(w, columns);
     for (int j = 0; j < columns; ++j) {
       c.threshold[row + j] = t.threshold[j];
-      c.slots[row + j] = {{out[k][t.alias[j]].first, out[k][t.own[j]].first},
-                          static_cast<std::uint32_t>(t.threshold[j] >> (64 - c.coin_bits)), static_cast<std::uint32_t>(row + j)};
-    }
-  }
-  c.key.assign(n, 0u);
-  if (!regimes.names.empty()) {
-    if (regimes.names.size() > 256 || static_cast<int>(regimes.of_zone.size()) != n) {
-      throw std::invalid_argument("lifelines: regimes need one label per zone, at most 256 labels");
-    }
-    for (int k = 0; k < n; ++k) c.key[k] = static_cast<std::uint32_t>(regimes.of_zone[k]);
-  }
-  if (fields.size() > 24) throw std::invalid_argument("lifelines: at most 24 fields");
-  for (size_t f = 0; f < fields.size(); ++f) {
-    if (static_cast<int>(fields[f].value.size()) != n) throw std::invalid_argument("lifelines: field '" + fields[f].name + "' needs one value per zone");
-    for (int k = 0; k < n; ++k) {
-      const double v = fields[f].value[k];
-      const bool outside = fields[f].below ? v < fields[f].threshold : v > fields[f].threshold;
-      if (outside) c.key[k] |= 1u << (8 + f);
+      c.slots[row + j] = {{target(t.alias[j]), target(t.own[j])}, static_cast<std::uint32_t>(t.threshold[j] >> (64 - c.coin_bits))};
     }
   }
   c.start_cdf.resize(n);
@@ -200,17 +209,22 @@ struct CellState {
   FieldEvents* events = nullptr;   // per field, this cell's lists
 };
 
-// A cell being followed: what the hot loop reads and writes on every move.
+// A cell being followed: what the hot loop reads and writes on every move (the rest of a cell's
+// state, read at key changes and the end, is in its CellState and its Lane).
 struct Walker {
-  CellRandom rng{0, 0};
+  CellRandom::Words rng{1, 0};
   double t = 0.0;
-  int zone = 0;
-  std::uint32_t key = 0;
-  int cell = -1;  // -1: idle
+  std::uint32_t zone = 0;
+};
+
+// What a lane knows of its cell apart from the walker: touched only at key changes and the end.
+struct Lane {
+  std::uint32_t key = 0;  // of the walker's zone
+  int cell = -1;          // -1: idle
 };
 
 constexpr int kBlock = 64;  // cells per block: the unit of work and of the ordered merge
-constexpr int kLanes = 8;   // cells followed side by side in one thread
+constexpr int kLanes = 4;   // cells followed side by side in one thread (3-4 measured best, 8 slower)
 
 class Simulator {
  public:
@@ -221,18 +235,20 @@ class Simulator {
   int fields() const { return n_fields_; }
   int regimes() const { return n_regimes_; }
 
-  void start(Walker& w, CellState& st, int cell) const {
-    w.rng = CellRandom(seed_, static_cast<std::uint64_t>(cell));
-    w.cell = cell;
-    w.t = 0.0;
-    int zone = static_cast<int>(std::lower_bound(c_.start_cdf.begin(), c_.start_cdf.end(), w.rng.uniform()) - c_.start_cdf.begin());
-    w.zone = std::min(zone, c_.zones - 1);
-    w.key = c_.key[w.zone];
-    for (int f = 0; f < n_fields_; ++f) st.fields[f] = FieldCell{((w.key >> (8 + f)) & 1u) != 0};
-    st.regime = static_cast<int>(w.key & 0xffu);
+  [[gnu::noinline]] Walker start(Lane& lane, CellState& st, int cell) const {
+    CellRandom rng(seed_, static_cast<std::uint64_t>(cell));
+    const int zone = static_cast<int>(std::lower_bound(c_.start_cdf.begin(), c_.start_cdf.end(), rng.uniform()) - c_.start_cdf.begin());
+    Walker w;
+    w.rng = rng.words();
+    w.zone = static_cast<std::uint32_t>(std::min(zone, c_.zones - 1));
+    lane.cell = cell;
+    lane.key = c_.key[w.zone];
+    for (int f = 0; f < n_fields_; ++f) st.fields[f] = FieldCell{((lane.key >> (8 + f)) & 1u) != 0};
+    st.regime = static_cast<int>(lane.key & 0xffu);
     st.regime_seen_change = false;
     st.regime_since = 0.0;
     std::fill(st.last_entry.begin(), st.last_entry.end(), -1.0);
+    return w;
   }
 
   // What the hot loop reads, as plain pointers and values (kept in registers: no member of the
@@ -240,19 +256,18 @@ class Simulator {
   struct Hot {
     const Slot* slots;
     const double* mean;
-    const std::uint32_t* key;
     ZoneTally* zone;
     double duration;
   };
-  Hot hot(Tally& tally) const { return {c_.slots.data(), c_.mean_dwell.data(), c_.key.data(), tally.zone.data(), duration_}; }
+  Hot hot(Tally& tally) const { return {c_.slots.data(), c_.mean_dwell.data(), tally.zone.data(), duration_}; }
   int log_columns() const { return c_.log_columns; }
 
   // One move of w; false (and the last partial stay booked) when the cell reaches the end.
   // LogColumns: log2 of the alias columns per zone, a constant so that the indexing is immediate.
   template <int LogColumns>
-  [[gnu::always_inline]] bool step(const Hot& h, Walker& w, Tally& tally, CellState& st) const {
-    const std::uint64_t r = w.rng.next();
-    const int zone = w.zone;
+  [[gnu::always_inline]] bool step(const Hot& h, Walker& w, Lane& lane, Tally& tally, CellState& st) const {
+    const std::uint64_t r = CellRandom::next(w.rng);
+    const std::uint32_t zone = w.zone;
     const double t_next = w.t + zig_.from_draw(r, w.rng) * h.mean[zone];
     ZoneTally& zt = h.zone[zone];
     if (!(t_next < h.duration)) [[unlikely]] {  // also catches +inf (no outflow)
@@ -261,19 +276,19 @@ class Simulator {
     }
     zt.sum += Pair{t_next - w.t, 1.0};
     const auto low = static_cast<std::uint32_t>(r) & 0xffffffu;
-    const Slot& s = h.slots[(static_cast<std::uint32_t>(zone) << LogColumns) | (low & ((1u << LogColumns) - 1))];
+    const std::uint32_t slot = (zone << LogColumns) | (low & ((1u << LogColumns) - 1));
+    const Slot& s = h.slots[slot];
     const std::uint32_t coin = low >> LogColumns;
     // Own or alias by an index, not a branch: the choice is close to a coin toss, a branch on it
     // would be mispredicted on a large share of the moves.
-    int next = s.to[coin < s.top];
-    if (coin == s.top) [[unlikely]] next = refine(w, s, coin);
-    w.t = t_next;
-    const std::uint32_t next_key = h.key[next];
-    if (next_key != w.key) [[unlikely]] {
-      change(w.key, next_key, t_next, tally, st);
-      w.key = next_key;
+    std::uint32_t next = s.to[coin < s.top];
+    if (coin == s.top) [[unlikely]] {
+      const Refined d = refine(w.rng, slot, coin);
+      next = d.to, w.rng = d.rng;
     }
-    w.zone = next;
+    w.t = t_next;
+    w.zone = next & ~kChangeBit;
+    if (next & kChangeBit) [[unlikely]] lane.key = change(lane.key, w.zone, t_next, tally, st);
     return true;
   }
 
@@ -286,12 +301,20 @@ class Simulator {
   }
 
  private:
-  [[gnu::noinline]] int refine(Walker& w, const Slot& s, std::uint32_t coin) const {
-    const std::uint64_t full = (static_cast<std::uint64_t>(coin) << (64 - c_.coin_bits)) | (w.rng.next() >> c_.coin_bits);
-    return s.to[full < c_.threshold[s.index]];
+  // The pick when the coin's top bits tie with the threshold's: the coin's other bits decide.
+  // Generator words by value: a walker whose address escaped could not be kept unrolled.
+  struct Refined {
+    std::uint32_t to;
+    CellRandom::Words rng;
+  };
+  [[gnu::noinline]] Refined refine(CellRandom::Words rng, std::uint32_t slot, std::uint32_t coin) const {
+    const std::uint64_t full = (static_cast<std::uint64_t>(coin) << (64 - c_.coin_bits)) | (CellRandom::next(rng) >> c_.coin_bits);
+    return {c_.slots[slot].to[full < c_.threshold[slot]], rng};
   }
 
-  void change(std::uint32_t from, std::uint32_t to, double t, Tally& tally, CellState& st) const {
+  // A cell with key `from` enters `zone` (another key) at t; returns the new key.
+  [[gnu::noinline]] std::uint32_t change(std::uint32_t from, std::uint32_t zone, double t, Tally& tally, CellState& st) const {
+    const std::uint32_t to = c_.key[zone];
     const std::uint32_t diff = from ^ to;
     if ((diff & 0xffu) && count_regimes_) {
       const int a = static_cast<int>(from & 0xffu), b = static_cast<int>(to & 0xffu);
@@ -334,6 +357,7 @@ class Simulator {
       fc.seen_change = true;
       fc.since = t;
     }
+    return to;
   }
 
   const Chain& c_;
@@ -349,7 +373,7 @@ class Simulator {
 struct BlockWork {
   Tally tally;
   std::vector<std::vector<FieldEvents>> events;  // [cell in block][field]
-  std::array<Walker, kLanes> lanes;
+  std::array<Lane, kLanes> lanes;
   std::vector<CellState> states;                 // per lane
   std::vector<double> outside;
 
@@ -359,8 +383,36 @@ struct BlockWork {
   }
 };
 
+// The lanes' walkers are locals reached only through constant indices (the folds below): the
+// round of moves is unrolled, each lane's state at a fixed place, with no lane index to carry.
+template <int LogColumns, typename Begin, typename Done, int... L>
+[[gnu::always_inline]] inline void run_lanes(const Simulator& sim, const Simulator::Hot& h, BlockWork& work, int& next, int last,
+                                             Begin& begin, Done& done, std::integer_sequence<int, L...>) {
+  Walker w[kLanes];
+  int live = 0;
+  ((next < last ? (w[L] = begin(L), ++live) : 0), ...);
+  auto move = [&](Walker& x, int l) __attribute__((always_inline)) {
+    if (!sim.step<LogColumns>(h, x, work.lanes[l], work.tally, work.states[l])) [[unlikely]] {
+      done(l);
+      if (next < last) {
+        x = begin(l);
+      } else {
+        --live;
+      }
+    }
+  };
+  while (live == kLanes) (move(w[L], L), ...);
+  auto finish = [&](Walker& x, int l) {
+    if (work.lanes[l].cell < 0) return;
+    while (sim.step<LogColumns>(h, x, work.lanes[l], work.tally, work.states[l])) {
+    }
+    done(l);
+  };
+  (finish(w[L], L), ...);
+}
+
 // Follows cells [first, last) (one block), writing each cell's time outside into `outside[f][c]`
-// and its path, for c < paths->size(), into (*paths)[c].
+// and its path, for c < paths.size(), into paths[c].
 template <int LogColumns>
 void run_block(const Simulator& sim, int first, int last, BlockWork& work, std::vector<std::vector<double>>& outside,
                std::vector<Trajectory>& paths) {
@@ -368,55 +420,29 @@ void run_block(const Simulator& sim, int first, int last, BlockWork& work, std::
   for (int c = first; c < last; ++c) {
     for (auto& e : work.events[c - first]) e.clear();
   }
-  auto done = [&](Walker& w, CellState& st) {
-    sim.finish(st, work.outside.data());
-    for (int f = 0; f < sim.fields(); ++f) outside[f][w.cell] = work.outside[f];
-    w.cell = -1;
+  for (Lane& lane : work.lanes) lane = Lane{};
+  int next = first;
+  auto begin = [&](int l) {
+    work.states[l].events = work.events[next - first].data();
+    return sim.start(work.lanes[l], work.states[l], next++);
+  };
+  auto done = [&](int l) {
+    sim.finish(work.states[l], work.outside.data());
+    for (int f = 0; f < sim.fields(); ++f) outside[f][work.lanes[l].cell] = work.outside[f];
+    work.lanes[l].cell = -1;
   };
   const auto h = sim.hot(work.tally);
-  int next = first;
   // Cells whose path is kept: one by one, recording every entry.
   while (next < last && next < static_cast<int>(paths.size())) {
-    Walker& w = work.lanes[0];
-    CellState& st = work.states[0];
-    st.events = work.events[next - first].data();
-    sim.start(w, st, next);
-    Trajectory& p = paths[next++];
+    Trajectory& p = paths[next];
+    Walker w = begin(0);
     do {
-      p.time_s.push_back(w.t), p.zone.push_back(w.zone);
-    } while (sim.step<LogColumns>(h, w, work.tally, st));
-    done(w, st);
+      p.time_s.push_back(w.t), p.zone.push_back(static_cast<int>(w.zone));
+    } while (sim.step<LogColumns>(h, w, work.lanes[0], work.tally, work.states[0]));
+    done(0);
   }
   // The others side by side: kLanes independent chains of loads overlap in the processor.
-  int live = 0;
-  for (int l = 0; l < kLanes; ++l) {
-    if (next < last) {
-      work.states[l].events = work.events[next - first].data();
-      sim.start(work.lanes[l], work.states[l], next++);
-      ++live;
-    }
-  }
-  while (live == kLanes) {
-    for (int l = 0; l < kLanes; ++l) {
-      Walker& w = work.lanes[l];
-      if (!sim.step<LogColumns>(h, w, work.tally, work.states[l])) [[unlikely]] {
-        done(w, work.states[l]);
-        if (next < last) {
-          work.states[l].events = work.events[next - first].data();
-          sim.start(w, work.states[l], next++);
-        } else {
-          --live;
-        }
-      }
-    }
-  }
-  for (int l = 0; l < kLanes; ++l) {
-    Walker& w = work.lanes[l];
-    if (w.cell < 0) continue;
-    while (sim.step<LogColumns>(h, w, work.tally, work.states[l])) {
-    }
-    done(w, work.states[l]);
-  }
+  run_lanes<LogColumns>(sim, h, work, next, last, begin, done, std::make_integer_sequence<int, kLanes>{});
 }
 
 // run_block with the column count as a constant (0 .. 8; the (r, z) grid has at most four
@@ -561,21 +587,29 @@ LifelineField do_lifeline_field(const std::vector<double>& do_mol_m3, double cri
   return {"do", "critical DO", "mol/m3", "mmol/L", 1.0, do_mol_m3, critical_do_mol_m3, true};
 }
 
-Histogram log_histogram(const std::vector<double>& values, int bins) {
+Histogram log_histogram(const std::vector<double>& values, int bins, int threads) {
   Histogram h;
   double lo = 1e300, hi = 0.0;
-  for (double v : values) {
-    if (v > 0.0) lo = std::min(lo, v), hi = std::max(hi, v);
+  const auto n = static_cast<std::ptrdiff_t>(values.size());
+  const double* x = values.data();
+  // Lists of 10^7 values at 10^5 cells: split over the threads (they are idle by now).
+  threads = n > (1 << 16) ? std::max(threads, 1) : 1;
+#pragma omp parallel for num_threads(threads) reduction(min : lo) reduction(max : hi)
+  for (std::ptrdiff_t i = 0; i < n; ++i) {
+    if (x[i] > 0.0) lo = std::min(lo, x[i]), hi = std::max(hi, x[i]);
   }
   if (hi <= 0.0) return h;
   if (hi <= lo) hi = lo * 1.0001;
   for (int i = 0; i <= bins; ++i) h.edges.push_back(lo * std::pow(hi / lo, static_cast<double>(i) / bins));
-  h.counts.assign(bins, 0.0);
-  for (double v : values) {
-    if (v <= 0.0) continue;
-    const int b = std::clamp(static_cast<int>(std::log(v / lo) / std::log(hi / lo) * bins), 0, bins - 1);
-    h.counts[b] += 1.0;
+  const double span = std::log(hi / lo);  // once: the compiler may not hoist it (log sets errno)
+  std::vector<long> counts(bins, 0);
+  long* c = counts.data();
+#pragma omp parallel for num_threads(threads) reduction(+ : c[:bins])
+  for (std::ptrdiff_t i = 0; i < n; ++i) {
+    if (x[i] <= 0.0) continue;
+    ++c[std::clamp(static_cast<int>(std::log(x[i] / lo) / span * bins), 0, bins - 1)];
   }
+  h.counts.assign(counts.begin(), counts.end());
   return h;
 }
 
@@ -655,10 +689,10 @@ LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h
     s.between_long_excursions_s = std::move(ev.long_between);
     s.excursions_per_hour = cell_hours > 0 ? s.excursion_durations_s.size() / cell_hours : 0.0;
     s.long_excursions_per_hour = cell_hours > 0 ? s.long_excursion_durations_s.size() / cell_hours : 0.0;
-    s.excursion_histogram = log_histogram(s.excursion_durations_s);
-    s.between_histogram = log_histogram(s.between_excursions_s);
-    s.long_excursion_histogram = log_histogram(s.long_excursion_durations_s);
-    s.between_long_histogram = log_histogram(s.between_long_excursions_s);
+    s.excursion_histogram = log_histogram(s.excursion_durations_s, 20, threads);
+    s.between_histogram = log_histogram(s.between_excursions_s, 20, threads);
+    s.long_excursion_histogram = log_histogram(s.long_excursion_durations_s, 20, threads);
+    s.between_long_histogram = log_histogram(s.between_long_excursions_s, 20, threads);
     res.fields.push_back(std::move(s));
   }
   RegimeStatistics& rs = res.regimes;

@@ -127,8 +127,9 @@ LifelineField do_lifeline_field(const std::vector<double>& do_mol_m3, double cri
 LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<double>& do_mol_m3,
                                   double critical_do_mol_m3, const LifelineOptions& opts);
 
-//! Logarithmic histogram of positive values between the smallest and largest.
-Histogram log_histogram(const std::vector<double>& values, int bins = 20);
+//! Logarithmic histogram of positive values between the smallest and largest; the same counts for
+//! any thread count (integer counts, exact minimum and maximum).
+Histogram log_histogram(const std::vector<double>& values, int bins = 20, int threads = 1);
 
 // ---- building blocks, exposed for their tests ----
 
@@ -143,12 +144,24 @@ Histogram log_histogram(const std::vector<double>& values, int bins = 20);
 class CellRandom {
  public:
   CellRandom(std::uint64_t seed, std::uint64_t stream);
-  std::uint64_t next() {
+  //! The state as two words, for loops that keep several generators as plain values.
+  struct Words {
+    std::uint64_t lo, hi;
+  };
+  explicit CellRandom(Words w) : lo_(w.lo), hi_(w.hi) {}
+  Words words() const { return {lo_, hi_}; }
+  [[gnu::always_inline]] static std::uint64_t next(Words& s) {
     // (hi 2^64 + lo) a = (hi a + high(lo a)) 2^64 + low(lo a), mod 2^128.
-    const auto p = static_cast<Wide>(lo_) * kMultiplier;
-    lo_ = static_cast<std::uint64_t>(p);
-    hi_ = hi_ * kMultiplier + static_cast<std::uint64_t>(p >> 64);
-    return hi_;
+    const auto p = static_cast<Wide>(s.lo) * kMultiplier;
+    s.lo = static_cast<std::uint64_t>(p);
+    s.hi = s.hi * kMultiplier + static_cast<std::uint64_t>(p >> 64);
+    return s.hi;
+  }
+  std::uint64_t next() {
+    Words s{lo_, hi_};
+    const std::uint64_t r = next(s);
+    lo_ = s.lo, hi_ = s.hi;
+    return r;
   }
   //! Uniform on [0, 1) with 53 random bits.
   double uniform() { return static_cast<double>(next() >> 11) * 0x1.0p-53; }
@@ -175,9 +188,27 @@ class ExponentialZiggurat {
     if (j < k_[i]) [[likely]] return static_cast<double>(j) * w_[i];
     return slow(rng, i, j);
   }
+  //! The same for a generator held as words: the rare slow path takes and returns them by value.
+  [[gnu::always_inline]] double from_draw(std::uint64_t r, CellRandom::Words& s) const {
+    const auto i = static_cast<unsigned>((r >> 24) & 255u);
+    const auto j = static_cast<std::uint32_t>(r >> 32);
+    if (j < k_[i]) [[likely]] return static_cast<double>(j) * w_[i];
+    const Slow d = slow_words(s, i, j);
+    s = d.words;
+    return d.x;
+  }
 
  private:
   double slow(CellRandom& rng, unsigned i, std::uint32_t j) const;
+  struct Slow {
+    double x;
+    CellRandom::Words words;
+  };
+  [[gnu::noinline]] Slow slow_words(CellRandom::Words s, unsigned i, std::uint32_t j) const {
+    CellRandom rng(s);
+    const double x = slow(rng, i, j);
+    return {x, rng.words()};
+  }
   std::array<std::uint32_t, 256> k_{};
   std::array<double, 256> w_{}, f_{};
   // Wedge squeeze of layer i (exp(-x) is convex): the right edge x_i, 1 / (x_i - x_{i-1}), and the

@@ -167,6 +167,89 @@ TEST(Lifelines, RegimePassagesBalanceAndFollowKacsLemma) {
   }
 }
 
+// Flow out of each zone to each neighbour (convective plus exchange), the chain's jump rates times V.
+std::vector<std::vector<std::pair<int, double>>> outflows(const Small& s) {
+  std::vector<std::vector<std::pair<int, double>>> out(s.net.size());
+  for (size_t f = 0; f < s.net.faces.size(); ++f) {
+    const int a = s.net.faces[f].zone_a, b = s.net.faces[f].zone_b;
+    const double q = s.h.face_flow[f], e = s.h.face_exchange[f];
+    out[a].push_back({b, (q > 0 ? q : 0) + e});
+    out[b].push_back({a, (q < 0 ? -q : 0) + e});
+  }
+  return out;
+}
+
+TEST(Lifelines, RegimePassageRatesAreTheStationaryFlowsBetweenRegimes) {
+  // Cells start in the stationary distribution (V_i / V), so the expected number of jumps from
+  // zone i to j per unit time is exactly (V_i / V) (Q_ij / V_i) = Q_ij / V at every instant.
+  const Small s;
+  LifelineOptions o;
+  o.cells = 200;
+  o.duration_s = 900.0;
+  const auto regimes = impeller_regimes(s.net);
+  const auto r = simulate_lifelines(s.net, s.h, {}, regimes, o);
+  const size_t n = regimes.names.size();
+  std::vector<double> exact(n * n, 0.0);
+  const auto out = outflows(s);
+  for (int i = 0; i < s.net.size(); ++i) {
+    for (const auto& [j, q] : out[i]) {
+      const int a = regimes.of_zone[i], b = regimes.of_zone[j];
+      if (a != b) exact[a * n + b] += 3600.0 * q / s.net.total_volume();
+    }
+  }
+  for (size_t k = 0; k < n * n; ++k) {
+    if (exact[k] == 0.0) {
+      EXPECT_EQ(r.regimes.transitions_per_hour[k], 0.0);
+      continue;
+    }
+    // ~10^5 passages: 0.3 % Poisson error, but passages come in runs (a cell near the boundary
+    // crosses it back and forth) and the time in each regime fluctuates as the occupancy does:
+    // the 3 % of the occupancy test.
+    EXPECT_NEAR(r.regimes.transitions_per_hour[k] / exact[k], 1.0, 0.03) << "passage " << k / n << " -> " << k % n;
+  }
+}
+
+TEST(Lifelines, KeptPathsJumpWithTheChainsProbabilitiesAfterExponentialDwells) {
+  const Small s;
+  LifelineOptions o;
+  o.cells = 40;
+  o.trajectories = 40;
+  o.duration_s = 3000.0;
+  const auto r = simulate_lifelines(s.net, s.h, {}, 0.0, o);
+  const auto out = outflows(s);
+  std::vector<double> total(s.net.size(), 0.0);
+  for (int i = 0; i < s.net.size(); ++i) {
+    for (const auto& [j, q] : out[i]) total[i] += q;
+  }
+  // Dwell over its exact mean V_i / outflow_i: unit exponential, whatever the zone.
+  double n = 0.0, sum = 0.0, sum2 = 0.0;
+  std::vector<std::vector<double>> jumps(s.net.size(), std::vector<double>(s.net.size(), 0.0));
+  std::vector<double> leaves(s.net.size(), 0.0);
+  for (const auto& p : r.trajectories) {
+    for (size_t k = 0; k + 1 < p.zone.size(); ++k) {
+      const int i = p.zone[k];
+      const double d = (p.time_s[k + 1] - p.time_s[k]) / (s.net.volume[i] / total[i]);
+      n += 1.0, sum += d, sum2 += d * d;
+      jumps[i][p.zone[k + 1]] += 1.0;
+      leaves[i] += 1.0;
+    }
+  }
+  ASSERT_GT(n, 1e5);
+  // Mean 1 and second moment 2, standard errors 1/sqrt(n) and sqrt(20/n): 5 sigma.
+  EXPECT_NEAR(sum / n, 1.0, 5.0 / std::sqrt(n));
+  EXPECT_NEAR(sum2 / n, 2.0, 5.0 * std::sqrt(20.0 / n));
+  // Each jump out of i goes to j with probability Q_ij / sum_k Q_ik (binomial, 5 sigma).
+  for (int i = 0; i < s.net.size(); ++i) {
+    double known = 0.0;
+    for (const auto& [j, q] : out[i]) {
+      const double p = q / total[i];
+      known += jumps[i][j];
+      EXPECT_NEAR(jumps[i][j] / leaves[i], p, 5.0 * std::sqrt(p * (1 - p) / leaves[i]) + 1e-12) << i << " -> " << j;
+    }
+    EXPECT_EQ(known, leaves[i]) << "zone " << i << ": a jump to a zone that is not a neighbour";
+  }
+}
+
 TEST(Lifelines, ZigguratExponentialHasTheExponentialDistribution) {
   const ExponentialZiggurat zig;
   CellRandom rng(7, 3);
