@@ -502,9 +502,16 @@ ExponentialZiggurat::ExponentialZiggurat() {
 }
 
 double ExponentialZiggurat::slow(CellRandom& rng, unsigned i, std::uint32_t j) const {
+  const Slow d = slow_words(rng.words(), i, j);
+  rng = CellRandom(d.words);
+  return d.x;
+}
+
+ExponentialZiggurat::Slow ExponentialZiggurat::slow_words(CellRandom::Words words, unsigned i, std::uint32_t j) const {
   constexpr double r = 7.697117470131487;
+  CellRandom rng(words);
   for (;;) {
-    if (i == 0) return r - std::log1p(-rng.uniform());  // memoryless tail beyond r
+    if (i == 0) return {r - std::log1p(-rng.uniform()), rng.words()};  // memoryless tail beyond r
     const double x = static_cast<double>(j) * w_[i];
     // y = f_i + u (f_{i-1} - f_i) against exp(-x). With s the position under the chord (1 at
     // x_{i-1}, 0 at x_i): above the chord is above the curve; below either tangent is below it.
@@ -512,13 +519,13 @@ double ExponentialZiggurat::slow(CellRandom& rng, unsigned i, std::uint32_t j) c
     const double u = rng.uniform();
     const double s = (x_[i] - x) * inv_width_[i];
     if (u <= s) {
-      if (u < s * tangent_right_[i] || u < 1.0 - (1.0 - s) * tangent_left_[i]) return x;
-      if (f_[i] + u * (f_[i - 1] - f_[i]) < std::exp(-x)) return x;
+      if (u < s * tangent_right_[i] || u < 1.0 - (1.0 - s) * tangent_left_[i]) return {x, rng.words()};
+      if (f_[i] + u * (f_[i - 1] - f_[i]) < std::exp(-x)) return {x, rng.words()};
     }
     const std::uint64_t b = rng.next();
     i = static_cast<unsigned>((b >> 24) & 255u);
     j = static_cast<std::uint32_t>(b >> 32);
-    if (j < k_[i]) return static_cast<double>(j) * w_[i];
+    if (j < k_[i]) return {static_cast<double>(j) * w_[i], rng.words()};
   }
 }
 

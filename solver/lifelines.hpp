@@ -204,11 +204,7 @@ class ExponentialZiggurat {
     double x;
     CellRandom::Words words;
   };
-  [[gnu::noinline]] Slow slow_words(CellRandom::Words s, unsigned i, std::uint32_t j) const {
-    CellRandom rng(s);
-    const double x = slow(rng, i, j);
-    return {x, rng.words()};
-  }
+  [[gnu::noinline]] Slow slow_words(CellRandom::Words s, unsigned i, std::uint32_t j) const;
   std::array<std::uint32_t, 256> k_{};
   std::array<double, 256> w_{}, f_{};
   // Wedge squeeze of layer i (exp(-x) is convex): the right edge x_i, 1 / (x_i - x_{i-1}), and the
