@@ -1,0 +1,56 @@
+// Exact sparse LU of one scalar liquid block (transport plus transfer diagonal): the zone block
+// solver's preconditioner on small and mid-sized networks, and the coarsest level of the
+// multigrid on large ones.
+#pragma once
+
+#include <Eigen/Core>
+#include <Eigen/Sparse>
+#include <Eigen/SparseLU>
+#include <vector>
+
+namespace oxystrat {
+
+//! Sparse LU without pivoting of P A P^T (left-looking, Gilbert & Peierls 1988), P a fill-reducing
+//! ordering (approximate minimum degree on A + A^T, Amestoy, Davis & Duff 1996) applied to rows
+//! and columns alike. Meant for the
+//! liquid blocks here: transport with zero column sums minus a non-negative diagonal is column
+//! diagonally dominant, so the diagonal pivots are stable; a pivot that is not (below 1e-12 of
+//! its column) makes factorize() fail. Plain compressed-column factors, so a solve is two simple
+//! triangular sweeps.
+class ScalarLu {
+ public:
+  bool factorize(const Eigen::SparseMatrix<double>& a);  //!< keeps the ordering while the pattern stays
+  void solve(Eigen::VectorXd& x) const;                   //!< in place
+  long nonzeros() const {
+    return supernodal_ ? static_cast<long>(big_.nnzL() + big_.nnzU())
+                       : static_cast<long>(l_val_.size() + u_val_.size() + diag_.size());
+  }
+  //! From this size on, Eigen's supernodal SparseLU (COLAMD, partial pivoting that picks the
+  //! diagonal here, dense kernels on the supernodes). With COLAMD for both, the crossover was
+  //! 5000-10000 zones; with AMD the plain columns have so much less fill that they were faster at
+  //! every size measured (to 2e5 zones, bench/notes.md), so the switch is only for larger blocks.
+  //! Eigen's SparseLU with AMD was 3-5x slower than with COLAMD. Benchmarks may set it.
+  static int supernodal_from;
+
+ private:
+  bool supernodal_ = false;
+  Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> big_;
+  int n_ = 0;
+  Eigen::VectorXi perm_, pattern_outer_, pattern_inner_;  // new index of old row/col; pattern the ordering was made for
+  bool factor_with_patterns();  // symbolic and numeric, on b_*
+  bool refactor_numeric();      // numeric only, on the patterns found before
+  void transpose_factors();     // the row copies the solves use
+  bool symbolic_ = false;       // l_/u_ patterns are those of the current ordering
+  std::vector<int> b_start_, b_row_;  // P A P^T by columns
+  std::vector<double> b_val_;
+  std::vector<int> l_start_, l_row_, u_start_, u_row_;  // by columns (U in elimination order)
+  std::vector<double> l_val_, u_val_, diag_;
+  std::vector<int> lr_start_, lr_col_, ur_start_, ur_col_;  // the same by rows
+  std::vector<double> lr_val_, ur_val_, inv_diag_;
+  mutable Eigen::VectorXd solve_scratch_;
+  // Scratch for the factorisation.
+  std::vector<double> work_;
+  std::vector<int> mark_, stack_, next_, reach_;
+};
+
+}  // namespace oxystrat
