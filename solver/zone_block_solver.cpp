@@ -234,12 +234,15 @@ bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, doubl
   }
   // Restarted, right-preconditioned GMRES on S y = rhs (modified Gram-Schmidt, Givens rotations).
   // Right preconditioning keeps the residual GMRES minimises the true one, which is the whole
-  // Newton system's: the gas rows are solved exactly.
+  // Newton system's: the gas rows are solved exactly. Flexible form (Saad 1993): the
+  // preconditioned vectors are kept, so the preconditioner may vary from one iteration to the
+  // next (a multigrid K-cycle does), and the update at a restart needs no further solve.
   const double target = rel_tol * b.norm();
   const int restart = m > 400000 ? 15 : 30;
   const int max_iterations = 300;
-  Eigen::VectorXd y = Eigen::VectorXd::Zero(m), r = rhs, w(m), z(m);
+  Eigen::VectorXd y = Eigen::VectorXd::Zero(m), r = rhs, w(m);
   basis_.resize(restart + 1);
+  z_basis_.resize(restart);
   Eigen::MatrixXd h = Eigen::MatrixXd::Zero(restart + 1, restart);
   Eigen::VectorXd cs(restart), sn(restart), s(restart + 1);
   double beta = r.norm();
@@ -251,8 +254,8 @@ bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, doubl
     int j = 0;
     for (; j < restart && last_iterations_ < max_iterations; ++j) {
       ++last_iterations_;
-      precondition(basis_[j], z);
-      apply_schur(z, w);
+      precondition(basis_[j], z_basis_[j]);
+      apply_schur(z_basis_[j], w);
       for (int i = 0; i <= j; ++i) {
         h(i, j) = w.dot(basis_[i]);
         w -= h(i, j) * basis_[i];
@@ -280,10 +283,7 @@ bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, doubl
     }
     // Update with the least-squares solution of the small Hessenberg system.
     Eigen::VectorXd c = h.topLeftCorner(j, j).triangularView<Eigen::Upper>().solve(s.head(j));
-    w.setZero();
-    for (int i = 0; i < j; ++i) w += c[i] * basis_[i];
-    precondition(w, z);
-    y += z;
+    for (int i = 0; i < j; ++i) y += c[i] * z_basis_[i];
     apply_schur(y, w);
     r = rhs - w;
     beta = r.norm();

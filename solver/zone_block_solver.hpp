@@ -10,10 +10,10 @@
 //
 // With J = [J_ll J_lg; J_gl J_gg] (liquid, gas), J_gg is block lower-triangular in gas order, so
 // the gas is eliminated exactly by forward sweeps and the Newton step reduces to the liquid Schur
-// complement S = J_ll - J_lg J_gg^-1 J_gl (applied, never formed). S is solved by restarted GMRES
-// (Saad & Schultz 1986), right-preconditioned by the zone-local approximation of S (J_gg replaced
-// by its diagonal blocks), one scalar sparse LU per liquid species, block Gauss-Seidel between
-// the species. The factorisations are kept from one Newton step (and solve) to the next and
+// complement S = J_ll - J_lg J_gg^-1 J_gl (applied, never formed). S is solved by restarted
+// flexible GMRES (Saad & Schultz 1986; Saad 1993), right-preconditioned by the zone-local
+// approximation of S (J_gg replaced by its diagonal blocks), one scalar sparse LU per liquid
+// species, block Gauss-Seidel between the species. The factorisations are kept from one Newton step (and solve) to the next and
 // refreshed only when the Krylov iteration count shows they have drifted.
 #pragma once
 
@@ -81,7 +81,7 @@ class ZoneBlockSolver {
   };
   Triplets oo_scratch_, cc_scratch_;
   std::vector<Upstream> up_scratch_;
-  std::vector<Eigen::VectorXd> basis_;
+  std::vector<Eigen::VectorXd> basis_, z_basis_;  // Krylov basis and its preconditioned images (flexible GMRES)
 };
 
 }  // namespace oxystrat
