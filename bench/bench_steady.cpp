@@ -11,6 +11,7 @@
 #include "hydrodynamics.hpp"
 #include "oxygen_field.hpp"
 #include "zone_network.hpp"
+#include "zone_block_solver.hpp"
 
 namespace oxystrat::bench {
 namespace {
@@ -67,6 +68,17 @@ void BM_SteadySolve(benchmark::State& state) { steady_solve(state, true); }
 void BM_SteadySolveGeneralLu(benchmark::State& state) { steady_solve(state, false); }
 BENCHMARK(BM_SteadySolve)->Arg(500)->Arg(2000)->Unit(benchmark::kMillisecond)->UseRealTime();
 BENCHMARK(BM_SteadySolveGeneralLu)->Arg(2000)->Unit(benchmark::kMillisecond)->UseRealTime();
+// The choice of the liquid blocks' preconditioner by size: range(1) = 0 exact scalar LU at any
+// size, 1 aggregation multigrid at any size (ZoneBlockSolver::multigrid_from is the crossover).
+void BM_SteadySolveByPreconditioner(benchmark::State& state) {
+  const int saved = ZoneBlockSolver::multigrid_from;
+  ZoneBlockSolver::multigrid_from = state.range(1) == 1 ? 1 : 1 << 30;
+  steady_solve(state, true);
+  ZoneBlockSolver::multigrid_from = saved;
+}
+BENCHMARK(BM_SteadySolveByPreconditioner)
+    ->ArgsProduct({{500, 1000, 2000, 5000, 10000, 20000}, {0, 1}})
+    ->Unit(benchmark::kMillisecond)->UseRealTime()->MinTime(1.0);
 BENCHMARK(BM_SteadySolve)
     ->Name("BM_SteadySolveScaling")
     ->Arg(10000)->Arg(20000)->Arg(50000)->Arg(100000)->Arg(200000)

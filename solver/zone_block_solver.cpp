@@ -21,6 +21,8 @@ Block multiply(const Block& a, const Block& b) {
 
 }  // namespace
 
+int ZoneBlockSolver::multigrid_from = 3000;
+
 bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   have_jacobian_ = false;
   const int n = layout.zones;
@@ -162,7 +164,10 @@ bool ZoneBlockSolver::refresh_preconditioner() {
     p_cc_.coeffRef(k, k) -= c[3];
     p_co_[k] = x10_[k] - c[2];
   }
-  if (!lu_o_.factorize(p_oo_) || !lu_c_.factorize(p_cc_)) return false;
+  multigrid_ = n_ >= multigrid_from;
+  if (multigrid_ ? !mg_o_.setup(p_oo_) || !mg_c_.setup(p_cc_) : !lu_o_.factorize(p_oo_) || !lu_c_.factorize(p_cc_)) {
+    return false;
+  }
   ++factorisations_;
   factored_ = true;
   return true;
@@ -206,11 +211,19 @@ void ZoneBlockSolver::apply_schur(const Eigen::VectorXd& v, Eigen::VectorXd& out
 void ZoneBlockSolver::precondition(const Eigen::VectorXd& v, Eigen::VectorXd& out) {
   s_o_.resize(n_);
   for (int k = 0; k < n_; ++k) s_o_[k] = v[2 * k];
-  lu_o_.solve(s_o_);
+  if (multigrid_) {
+    mg_o_.solve(s_o_);
+  } else {
+    lu_o_.solve(s_o_);
+  }
   const Eigen::VectorXd& zo = s_o_;
   s_c_.resize(n_);
   for (int k = 0; k < n_; ++k) s_c_[k] = v[2 * k + 1] - p_co_[k] * zo[k];
-  lu_c_.solve(s_c_);
+  if (multigrid_) {
+    mg_c_.solve(s_c_);
+  } else {
+    lu_c_.solve(s_c_);
+  }
   const Eigen::VectorXd& zc = s_c_;
   out.resize(2 * n_);
   for (int k = 0; k < n_; ++k) {

@@ -13,7 +13,7 @@
 // complement S = J_ll - J_lg J_gg^-1 J_gl (applied, never formed). S is solved by restarted
 // flexible GMRES (Saad & Schultz 1986; Saad 1993), right-preconditioned by the zone-local
 // approximation of S (J_gg replaced by its diagonal blocks), one scalar sparse LU per liquid
-// species, block Gauss-Seidel between the species. The factorisations are kept from one Newton step (and solve) to the next and
+// species (aggregation multigrid on large networks), block Gauss-Seidel between the species. The factorisations are kept from one Newton step (and solve) to the next and
 // refreshed only when the Krylov iteration count shows they have drifted.
 #pragma once
 
@@ -23,6 +23,7 @@
 #include <vector>
 
 #include "scalar_lu.hpp"
+#include "scalar_multigrid.hpp"
 
 namespace oxystrat {
 
@@ -44,6 +45,10 @@ class ZoneBlockSolver {
   bool solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, double rel_tol);
   int last_iterations() const { return last_iterations_; }
   int factorisations() const { return factorisations_; }
+  //! From this many zones on, the liquid blocks are preconditioned by aggregation multigrid
+  //! (ScalarMultigrid, O(N) cost and memory) instead of the exact ScalarLu, whose fill grows
+  //! faster than N (measured crossover: bench/notes.md). Benchmarks and tests may set it.
+  static int multigrid_from;
 
  private:
   using Block = std::array<double, 4>;  // row-major 2 x 2
@@ -69,6 +74,8 @@ class ZoneBlockSolver {
   // The preconditioner (frozen between refreshes).
   Eigen::SparseMatrix<double> p_oo_, p_cc_;
   ScalarLu lu_o_, lu_c_;
+  ScalarMultigrid mg_o_, mg_c_;
+  bool multigrid_ = false;
   std::vector<double> p_co_;
   bool factored_ = false, have_jacobian_ = false;
   int factorisations_ = 0, last_iterations_ = 0;
