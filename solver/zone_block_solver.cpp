@@ -102,6 +102,12 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   j_oo_.setFromTriplets(oo.begin(), oo.end());
   j_cc_.setFromTriplets(cc.begin(), cc.end());
   remember_slots(t, fill);
+  if (n >= multigrid_from) {
+    // Large networks: memory is what limits them, and the scratch only serves a new pattern.
+    Triplets().swap(oo);
+    Triplets().swap(cc);
+    std::vector<Upstream>().swap(up);
+  }
   have_jacobian_ = true;
   return true;
 }
@@ -165,7 +171,11 @@ bool ZoneBlockSolver::refresh_preconditioner() {
     p_co_[k] = x10_[k] - c[2];
   }
   multigrid_ = n_ >= multigrid_from;
-  if (multigrid_ ? !mg_o_.setup(p_oo_) || !mg_c_.setup(p_cc_) : !lu_o_.factorize(p_oo_) || !lu_c_.factorize(p_cc_)) {
+  if (multigrid_) {
+    if (!mg_o_.setup(p_oo_) || !mg_c_.setup(p_cc_)) return false;
+    p_oo_ = Eigen::SparseMatrix<double>();  // the hierarchy holds its own copy
+    p_cc_ = Eigen::SparseMatrix<double>();
+  } else if (!lu_o_.factorize(p_oo_) || !lu_c_.factorize(p_cc_)) {
     return false;
   }
   ++factorisations_;
