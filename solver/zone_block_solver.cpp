@@ -222,18 +222,31 @@ void ZoneBlockSolver::precondition(const Eigen::VectorXd& v, Eigen::VectorXd& ou
   s_o_.resize(n_);
   for (int k = 0; k < n_; ++k) s_o_[k] = v[2 * k];
   if (multigrid_) {
-    mg_o_.solve(s_o_);
-  } else {
-    lu_o_.solve(s_o_);
+    // Block Jacobi between the species (the CO2 block does not wait for the O2 one), so the two
+    // cycles run side by side on two threads; each is sequential in itself, so the result is
+    // the same for any thread count. Measured 9808 / 97,953 zones: 94 / 116 Krylov iterations
+    // instead of 93 / 108 with Gauss-Seidel between the species, 147 -> 95 ms and 2.55 -> 2.01 s.
+    s_c_.resize(n_);
+    for (int k = 0; k < n_; ++k) s_c_[k] = v[2 * k + 1];
+#pragma omp parallel sections
+    {
+#pragma omp section
+      mg_o_.solve(s_o_);
+#pragma omp section
+      mg_c_.solve(s_c_);
+    }
+    out.resize(2 * n_);
+    for (int k = 0; k < n_; ++k) {
+      out[2 * k] = s_o_[k];
+      out[2 * k + 1] = s_c_[k];
+    }
+    return;
   }
+  lu_o_.solve(s_o_);
   const Eigen::VectorXd& zo = s_o_;
   s_c_.resize(n_);
   for (int k = 0; k < n_; ++k) s_c_[k] = v[2 * k + 1] - p_co_[k] * zo[k];
-  if (multigrid_) {
-    mg_c_.solve(s_c_);
-  } else {
-    lu_c_.solve(s_c_);
-  }
+  lu_c_.solve(s_c_);
   const Eigen::VectorXd& zc = s_c_;
   out.resize(2 * n_);
   for (int k = 0; k < n_; ++k) {

@@ -13,7 +13,8 @@
 // complement S = J_ll - J_lg J_gg^-1 J_gl (applied, never formed). S is solved by restarted
 // flexible GMRES (Saad & Schultz 1986; Saad 1993), right-preconditioned by the zone-local
 // approximation of S (J_gg replaced by its diagonal blocks), one scalar sparse LU per liquid
-// species (aggregation multigrid on large networks), block Gauss-Seidel between the species. The factorisations are kept from one Newton step (and solve) to the next and
+// species, block Gauss-Seidel between the species (on large networks: aggregation multigrid per
+// species, block Jacobi between them, the two on two threads). The factorisations are kept from one Newton step (and solve) to the next and
 // refreshed only when the Krylov iteration count shows they have drifted.
 #pragma once
 

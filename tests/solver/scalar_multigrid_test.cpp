@@ -5,6 +5,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <omp.h>
 
 #include "case_fixtures.hpp"
 #include "oxygen_field.hpp"
@@ -109,6 +110,24 @@ TEST(ScalarMultigrid, AsPreconditionerGivesTheFieldOfTheExactScalarLu) {
     EXPECT_NEAR(mg.do_mol_m3[k], exact.do_mol_m3[k], 1e-8 * scale_o) << k;
     EXPECT_NEAR(mg.co2_mol_m3[k], exact.co2_mol_m3[k], 1e-8 * scale_c) << k;
   }
+}
+
+TEST(ScalarMultigrid, OneAndTwoThreadsGiveBitIdenticalFields) {
+  // The two species' cycles run on two threads; each is sequential, so the field must not
+  // depend on the thread count in any bit.
+  const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml").data;
+  const Chain ch(c);
+  const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
+  const Setting from(ZoneBlockSolver::multigrid_from, 1), coarsest(ScalarMultigrid::coarsest_size, 30);
+  const int saved = omp_get_max_threads();
+  omp_set_num_threads(1);
+  const auto one = solve_oxygen_field(ctx);
+  omp_set_num_threads(2);
+  const auto two = solve_oxygen_field(ctx);
+  omp_set_num_threads(saved);
+  EXPECT_EQ(one.linear_iterations, two.linear_iterations);
+  EXPECT_EQ(one.do_mol_m3, two.do_mol_m3);
+  EXPECT_EQ(one.co2_mol_m3, two.co2_mol_m3);
 }
 
 }  // namespace
