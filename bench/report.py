@@ -150,6 +150,16 @@ def main():
         t = seconds(mb)
         rows.append((f"theta95 of cases/tall-3rushton.toml ({mb['zones']:.0f} zones; theta95 = {mb['theta95_s']:.1f} s)",
                      f"{t:.3g} s", "< 0.5 s", verdict(t < 0.5), "bench_mixing"))
+    lives = benchmarks(out, "lifelines")
+    for cells, threads in ((10000, 1), (10000, 2), (100000, 2)):
+        lb = find(lives, rf"BM_LifelinesDemoHour/{cells}/{threads}/")
+        if not lb:
+            continue
+        t = seconds(lb)
+        target = cells == 100000 and threads == 2
+        rows.append((f"{cells:.0e} lifelines x 1 h on the demo ({lb['zones']:.0f} zones), {threads} thread(s); "
+                     f"{lb['moves']:.3g} moves, {lb['ns_per_move']:.2g} ns per move of wall time",
+                     f"{t:.3g} s", "< 5 s" if target else "", verdict(t < 5.0) if target else "", "bench_lifelines"))
     peers = []
     for name in sorted(os.listdir(out)):
         m = re.match(r"peer-(\d+)-scipy\.json$", name)
