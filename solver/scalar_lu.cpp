@@ -123,12 +123,8 @@ bool ScalarLu::factor_with_patterns() {
       const double xj = work_[j];
       for (int e = l_start_[j]; e < l_start_[j + 1]; ++e) work_[l_row_[e]] -= l_val_[e] * xj;
     }
-    const double pivot = work_[k];
-    if (!(std::abs(pivot) > 1e-12 * column_max) || !std::isfinite(pivot)) {
-      std::fill(work_.begin(), work_.end(), 0.0);
-      return false;
-    }
-    diag_[k] = pivot;
+    if (!take_pivot(k, column_max)) return false;
+    const double pivot = diag_[k];
     // U's column keeps the topological order: a numeric refactorisation eliminates in it.
     for (int t = top - 1; t >= 0; --t) {
       const int i = reach_[t];
@@ -148,6 +144,18 @@ bool ScalarLu::factor_with_patterns() {
   return true;
 }
 
+// Diagonal pivots only: one below 1e-12 of its column is refused (the caller falls back), and
+// the scratch is left clean for the next factorisation.
+bool ScalarLu::take_pivot(int k, double column_max) {
+  const double pivot = work_[k];
+  if (!(std::abs(pivot) > 1e-12 * column_max) || !std::isfinite(pivot)) {
+    std::fill(work_.begin(), work_.end(), 0.0);
+    return false;
+  }
+  diag_[k] = pivot;
+  return true;
+}
+
 bool ScalarLu::refactor_numeric() {
   for (int k = 0; k < n_; ++k) {
     double column_max = 0.0;
@@ -160,12 +168,8 @@ bool ScalarLu::refactor_numeric() {
       const double xj = work_[j];
       for (int f = l_start_[j]; f < l_start_[j + 1]; ++f) work_[l_row_[f]] -= l_val_[f] * xj;
     }
-    const double pivot = work_[k];
-    if (!(std::abs(pivot) > 1e-12 * column_max) || !std::isfinite(pivot)) {
-      std::fill(work_.begin(), work_.end(), 0.0);
-      return false;
-    }
-    diag_[k] = pivot;
+    if (!take_pivot(k, column_max)) return false;
+    const double pivot = diag_[k];
     work_[k] = 0.0;
     for (int e = u_start_[k]; e < u_start_[k + 1]; ++e) u_val_[e] = std::exchange(work_[u_row_[e]], 0.0);
     for (int e = l_start_[k]; e < l_start_[k + 1]; ++e) l_val_[e] = std::exchange(work_[l_row_[e]], 0.0) / pivot;

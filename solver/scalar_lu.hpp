@@ -39,6 +39,7 @@ class ScalarLu {
   Eigen::VectorXi perm_, pattern_outer_, pattern_inner_;  // new index of old row/col; pattern the ordering was made for
   bool factor_with_patterns();  // symbolic and numeric, on b_*
   bool refactor_numeric();      // numeric only, on the patterns found before
+  bool take_pivot(int k, double column_max);  // diag_[k] = work_[k] when it is a usable pivot
   void transpose_factors();     // the row copies the solves use
   bool symbolic_ = false;       // l_/u_ patterns are those of the current ordering
   std::vector<int> b_start_, b_row_;  // P A P^T by columns
