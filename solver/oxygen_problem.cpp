@@ -16,10 +16,19 @@ OxygenProblem::OxygenProblem(const ZoneNetwork& net, const GasRouting& routing, 
       inlet_o2_(inlet_o2_mol_s),
       inlet_co2_(inlet_co2_mol_s),
       n_(net.size()) {
-  inflows_.assign(n_, {});
+  // Gas links grouped by receiving zone (counting sort: sending zones in increasing order).
+  inflow_start_.assign(n_ + 1, 0);
   for (int k = 0; k < n_; ++k) {
     for (const auto& l : routing.out[k]) {
-      if (l.to >= 0) inflows_[l.to].push_back({k, l.share});
+      if (l.to >= 0) ++inflow_start_[l.to + 1];
+    }
+  }
+  for (int k = 0; k < n_; ++k) inflow_start_[k + 1] += inflow_start_[k];
+  inflows_.resize(inflow_start_[n_]);
+  std::vector<int> at(inflow_start_.begin(), inflow_start_.end() - 1);
+  for (int k = 0; k < n_; ++k) {
+    for (const auto& l : routing.out[k]) {
+      if (l.to >= 0) inflows_[at[l.to]++] = {k, l.share};
     }
   }
   // Zero for a residual means small against the O2 fed and the largest possible uptake.
@@ -46,7 +55,8 @@ void OxygenProblem::residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const
     const double ctr = coeff_.transfer_co2[k] * (coeff_.cstar_per_y_co2[k] * yc - d);
     const double our = uptake_.our(c) * uptake_.scale(k) * net_.volume[k];
     double in_o = inlet_o2_ * net_.sparger_share[k], in_c = inlet_co2_ * net_.sparger_share[k];
-    for (const auto& f : inflows_[k]) {
+    for (int e = inflow_start_[k]; e < inflow_start_[k + 1]; ++e) {
+      const Inflow& f = inflows_[e];
       in_o += f.share * x[4 * f.from + 2];
       in_c += f.share * x[4 * f.from + 3];
     }
@@ -58,13 +68,24 @@ void OxygenProblem::residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const
 }
 
 void OxygenProblem::jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const {
-  for (int col = 0; col < transport_.outerSize(); ++col) {
-    for (SparseMatrix::InnerIterator it(transport_, col); it; ++it) {
-      t.emplace_back(4 * it.row(), 4 * col, it.value());
-      t.emplace_back(4 * it.row() + 1, 4 * col + 1, it.value());
+  jacobian_zones(x, 0, n_, t);
+}
+
+// Zone by zone: the zone's column of the transport (both species), then its local block and gas
+// inflows. Any split into ranges gives the same list, and every matrix entry receives its terms in
+// the same order (transport before local), so the sums are the same to the bit.
+bool OxygenProblem::jacobian_zones(const Eigen::VectorXd& x, int zone_begin, int zone_end,
+                                   std::vector<Eigen::Triplet<double>>& t) const {
+  const int* outer = transport_.outerIndexPtr();
+  std::size_t count = 0;
+  for (int k = zone_begin; k < zone_end; ++k) count += 2 * (outer[k + 1] - outer[k]) + 13 + 2 * (inflow_start_[k + 1] - inflow_start_[k]);
+  // Exact for a fresh list (no doubling of a large one), geometric when appended to piece by piece.
+  if (t.capacity() < t.size() + count) t.reserve(t.empty() ? count : std::max(t.size() + count, 2 * t.capacity()));
+  for (int k = zone_begin; k < zone_end; ++k) {
+    for (SparseMatrix::InnerIterator it(transport_, k); it; ++it) {
+      t.emplace_back(4 * it.row(), 4 * k, it.value());
+      t.emplace_back(4 * it.row() + 1, 4 * k + 1, it.value());
     }
-  }
-  for (int k = 0; k < n_; ++k) {
     const int c = 4 * k, d = c + 1, o = c + 2, q = c + 3;
     const double no = x[o], nc = x[q];
     const double total = no + nc + coeff_.inert_flow[k];
@@ -96,11 +117,13 @@ void OxygenProblem::jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triple
     t.emplace_back(q, d, -ctr_d);
     t.emplace_back(q, q, -1.0 - ctr_nc);
     t.emplace_back(q, o, -ctr_no);
-    for (const auto& f : inflows_[k]) {
+    for (int e = inflow_start_[k]; e < inflow_start_[k + 1]; ++e) {
+      const Inflow& f = inflows_[e];
       t.emplace_back(o, 4 * f.from + 2, f.share);
       t.emplace_back(q, 4 * f.from + 3, f.share);
     }
   }
+  return true;
 }
 
 }  // namespace oxystrat

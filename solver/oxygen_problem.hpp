@@ -60,6 +60,8 @@ class OxygenProblem : public SteadyProblem {
   int size() const override { return 4 * n_; }
   void residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const override;
   void jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const override;
+  bool jacobian_zones(const Eigen::VectorXd& x, int zone_begin, int zone_end,
+                      std::vector<Eigen::Triplet<double>>& t) const override;
   double residual_scale() const override { return scale_; }
   //! Liquid O2, CO2 then gas O2, CO2 per zone; gas flows along the routing order.
   ZoneLayout zone_layout() const override { return {n_, order_}; }
@@ -77,7 +79,8 @@ class OxygenProblem : public SteadyProblem {
   double inlet_o2_, inlet_co2_;
   int n_;
   double scale_;
-  std::vector<std::vector<Inflow>> inflows_;  //!< gas links into each zone
+  std::vector<int> inflow_start_;  //!< gas links into zone k: inflows_[inflow_start_[k] .. inflow_start_[k + 1])
+  std::vector<Inflow> inflows_;
 };
 
 }  // namespace oxystrat

@@ -26,9 +26,9 @@ namespace oxystrat {
 
 class ScalarMultigrid {
  public:
-  //! Builds the hierarchy. False when a pivot of the ILU(0) or of the coarsest LU is not of the
-  //! sign of an M-matrix block.
-  bool setup(const Eigen::SparseMatrix<double>& a);
+  //! Builds the hierarchy for A - diag(diagonal_shift) (no shift when empty). False when a pivot
+  //! of the ILU(0) or of the coarsest LU is not of the sign of an M-matrix block.
+  bool setup(const Eigen::SparseMatrix<double>& a, const std::vector<double>& diagonal_shift = {});
   //! x <- M^-1 x in place, M^-1 ~ A^-1: one K-cycle from a zero guess.
   void solve(Eigen::VectorXd& x) const;
   int levels() const { return static_cast<int>(levels_.size()); }
@@ -40,11 +40,11 @@ class ScalarMultigrid {
   struct Level {
     int n = 0;
     std::vector<int> start, col;  // B = -A of this level, compressed rows sorted by column
-    std::vector<double> val;
+    std::vector<float> val;       // single precision: see setup()
     std::vector<int> diag_pos;    // ILU(0): position of the diagonal in each row
-    std::vector<double> lu;       // ILU(0) factors on the pattern of B
+    std::vector<float> lu;        // ILU(0) factors on the pattern of B
     std::vector<int> aggregate;   // coarse index of each row, -1 when left out of the coarse level
-    mutable std::vector<double> x, b, r, v, w;  // v, w: the K-cycle's first direction and its image
+    mutable std::vector<double> x, b, r, v, w;  // v, w: the K-cycle's first direction and its image (not on level 0)
   };
   void cycle(int l) const;
   static void multiply(const Level& lev, const std::vector<double>& in, std::vector<double>& out);

@@ -15,6 +15,25 @@ double merit(const SteadyProblem& p, const Eigen::VectorXd& x, Eigen::VectorXd& 
   return (r / p.residual_scale()).squaredNorm();
 }
 
+// The Jacobian into the block solver: in pieces of zones while the pattern is the remembered one
+// and the problem lists its Jacobian by zones (a large network then never holds the whole list
+// again: 26 entries of 16 bytes per zone), else whole.
+bool take_jacobian(const SteadyProblem& p, const ZoneLayout& layout, const Eigen::VectorXd& x, ZoneBlockSolver& blocks,
+                   std::vector<Eigen::Triplet<double>>& piece) {
+  constexpr int kZonesPerPiece = 1 << 14;
+  if (blocks.begin_same_pattern(layout)) {
+    bool ok = true;
+    for (int b = 0; ok && b < layout.zones; b += kZonesPerPiece) {
+      piece.clear();
+      ok = p.jacobian_zones(x, b, std::min(layout.zones, b + kZonesPerPiece), piece) && blocks.add_same_pattern(piece);
+    }
+    if (ok && blocks.finish_same_pattern()) return true;
+  }
+  std::vector<Eigen::Triplet<double>> all;
+  p.jacobian(x, all);
+  return blocks.accept(layout, all);
+}
+
 // Inexact Newton with the structured linear solve. Returns false when it cannot go on (the
 // Jacobian lacks the structure, GMRES fails even with a fresh preconditioner, or the line search
 // finds no decrease); x then holds the last accepted iterate and the caller continues from it.
@@ -22,7 +41,7 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
                        NewtonWorkspace& ws, NewtonReport& rep) {
   const int n = p.size();
   Eigen::VectorXd r(n), r_try(n), dx(n), x_try(n);
-  std::vector<Eigen::Triplet<double>> triplets;
+  std::vector<Eigen::Triplet<double>> piece;
   double m = merit(p, x, r);
   double r2_previous = 0.0;
   auto& blocks = ws.blocks;
@@ -32,9 +51,7 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
       rep.converged = rep.structured = true;
       return true;
     }
-    triplets.clear();
-    p.jacobian(x, triplets);
-    if (!blocks.accept(layout, triplets)) return false;
+    if (!take_jacobian(p, layout, x, blocks, piece)) return false;
     bool fresh = false;
     if (ws.refresh_blocks || !blocks.has_preconditioner()) {
       if (!blocks.refresh_preconditioner()) return false;

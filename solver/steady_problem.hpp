@@ -17,6 +17,14 @@ class SteadyProblem {
   virtual int size() const = 0;
   virtual void residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const = 0;
   virtual void jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const = 0;
+  //! Appends the Jacobian entries that zones [zone_begin, zone_end) of the zone layout contribute,
+  //! such that jacobian() is their concatenation over any split into consecutive ranges. The
+  //! structured solve then takes a large Jacobian in pieces (memory); a problem that cannot split
+  //! its Jacobian returns false (the default) and is taken whole.
+  virtual bool jacobian_zones(const Eigen::VectorXd& /*x*/, int /*zone_begin*/, int /*zone_end*/,
+                              std::vector<Eigen::Triplet<double>>& /*t*/) const {
+    return false;
+  }
   //! Residual magnitude that counts as zero for each equation (same units as the residual).
   virtual double residual_scale() const = 0;
   //! A problem with the zone layout of zone_block_solver.hpp says so here (zones > 0), and

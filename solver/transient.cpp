@@ -35,11 +35,16 @@ class EulerStep : public SteadyProblem {
     }
   }
   void jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const override {
-    p_.jacobian(x, t);
-    for (int k = 0; k < net_.size(); ++k) {
+    jacobian_zones(x, 0, net_.size(), t);
+  }
+  bool jacobian_zones(const Eigen::VectorXd& x, int zone_begin, int zone_end,
+                      std::vector<Eigen::Triplet<double>>& t) const override {
+    for (int k = zone_begin; k < zone_end; ++k) {  // zone by zone, so that any split lists the same
+      p_.jacobian_zones(x, k, k + 1, t);
       t.emplace_back(4 * k, 4 * k, -net_.volume[k] / h_);
       t.emplace_back(4 * k + 1, 4 * k + 1, -net_.volume[k] / h_);
     }
+    return true;
   }
   double residual_scale() const override { return scale_; }
   //! Same unknowns and gas routing as the steady problem: the structured solve applies.

@@ -8,15 +8,48 @@ namespace {
 
 using Block = std::array<double, 4>;
 
+// inv may be a itself.
 bool invert(const Block& a, Block& inv) {
   const double det = a[0] * a[3] - a[1] * a[2];
   if (!(std::abs(det) > 0.0) || !std::isfinite(det)) return false;
-  inv = {a[3] / det, -a[1] / det, -a[2] / det, a[0] / det};
+  const Block r = {a[3] / det, -a[1] / det, -a[2] / det, a[0] / det};
+  inv = r;
   return true;
 }
 
 Block multiply(const Block& a, const Block& b) {
   return {a[0] * b[0] + a[1] * b[2], a[0] * b[1] + a[1] * b[3], a[2] * b[0] + a[3] * b[2], a[2] * b[1] + a[3] * b[3]};
+}
+
+// Entries filled column by column in list order (column c at [start[c], start[c + 1])) become a
+// compressed column matrix: rows sorted, stably, and repeated rows summed in list order, as a
+// triplet assembly sums them (the same numbers to the bit). In place: the list is never copied.
+void compress_columns(Eigen::SparseMatrix<double>& m, const std::vector<int>& start) {
+  const int n = static_cast<int>(m.cols());
+  int* outer = m.outerIndexPtr();
+  int* inner = m.innerIndexPtr();
+  double* val = m.valuePtr();
+  int out = 0;
+  for (int c = 0; c < n; ++c) {
+    const int b = start[c], e = start[c + 1];
+    for (int i = b + 1; i < e; ++i) {  // insertion sort: columns hold a handful of entries
+      const int row = inner[i];
+      const double v = val[i];
+      int j = i;
+      for (; j > b && inner[j - 1] > row; --j) inner[j] = inner[j - 1], val[j] = val[j - 1];
+      inner[j] = row, val[j] = v;
+    }
+    outer[c] = out;
+    for (int i = b; i < e; ++i) {
+      if (out > outer[c] && inner[out - 1] == inner[i]) {
+        val[out - 1] += val[i];
+      } else {
+        inner[out] = inner[i], val[out] = val[i], ++out;
+      }
+    }
+  }
+  outer[n] = out;
+  m.resizeNonZeros(out);
 }
 
 }  // namespace
@@ -27,7 +60,7 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   have_jacobian_ = false;
   const int n = layout.zones;
   if (n <= 0 || layout.gas_order == nullptr || static_cast<int>(layout.gas_order->size()) != n) return false;
-  if (accept_same_pattern(layout, t)) return true;
+  if (begin_same_pattern(layout) && add_same_pattern(t) && finish_same_pattern()) return true;
   slot_.clear();
   if (n != n_) factored_ = false;
   n_ = n;
@@ -42,25 +75,19 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   lg_.assign(n, Block{});
   gl_.assign(n, Block{});
   gg_.assign(n, Block{});
-  Triplets& oo = oo_scratch_;
-  Triplets& cc = cc_scratch_;
-  oo.clear();
-  cc.clear();
-  oo.reserve(t.size() / 4 + n);
-  cc.reserve(t.size() / 4 + n);
-  for (int k = 0; k < n; ++k) {  // explicit diagonals: the preconditioner modifies them in place
-    oo.emplace_back(k, k, 0.0);
-    cc.emplace_back(k, k, 0.0);
-  }
-  auto& up = up_scratch_;
-  up.clear();
+  // First pass: check the structure, add the zone-local entries, count the others per column
+  // (liquid blocks; one explicit diagonal each, which the preconditioner modifies in place) and
+  // per receiving zone (upstream gas).
+  std::vector<int> col_o(n + 1, 1), col_c(n + 1, 1);
+  col_o[0] = col_c[0] = 0;
+  up_start_.assign(n + 1, 0);
   for (const auto& e : t) {
     const int zi = e.row() >> 2, si = e.row() & 3, zj = e.col() >> 2, sj = e.col() & 3;
     if (zi >= n || zj >= n) return false;
     const double v = e.value();
     if (si < 2 && sj < 2) {
       if (si == sj) {
-        (si == 0 ? oo : cc).emplace_back(zi, zj, v);
+        ++(si == 0 ? col_o : col_c)[zj + 1];
       } else if (zi == zj) {
         (si == 0 ? x01_ : x10_)[zi] += v;
       } else {
@@ -76,82 +103,166 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
       gg_[zi][2 * (si - 2) + sj - 2] += v;
     } else {
       if (position[zj] >= position[zi]) return false;  // gas against the routing order
-      up.push_back({zi, 2 * zj + sj - 2, static_cast<unsigned char>(si - 2), v});
+      ++up_start_[zi + 1];
     }
   }
-  // Upstream entries grouped by receiving zone (counting sort keeps the triplet order: deterministic).
-  up_start_.assign(n + 1, 0);
-  for (const auto& u : up) ++up_start_[u.zone + 1];
-  for (int k = 0; k < n; ++k) up_start_[k + 1] += up_start_[k];
-  up_col_.resize(up.size());
-  up_row_.resize(up.size());
-  up_val_.resize(up.size());
-  std::vector<int> fill(up_start_.begin(), up_start_.end() - 1);
-  for (const auto& u : up) {
-    const int at = fill[u.zone]++;
-    up_col_[at] = u.col;
-    up_row_[at] = u.row;
-    up_val_[at] = u.value;
-  }
-  gg_inv_.resize(n);
   for (int k = 0; k < n; ++k) {
-    if (!invert(gg_[k], gg_inv_[k])) return false;
+    col_o[k + 1] += col_o[k];
+    col_c[k + 1] += col_c[k];
+    up_start_[k + 1] += up_start_[k];
   }
-  j_oo_.resize(n, n);
-  j_cc_.resize(n, n);
-  j_oo_.setFromTriplets(oo.begin(), oo.end());
-  j_cc_.setFromTriplets(cc.begin(), cc.end());
+  // Second pass: the transported and upstream entries in list order (so grouped stably).
+  for (auto* m : {&j_oo_, &j_cc_}) {
+    const auto& col = m == &j_oo_ ? col_o : col_c;
+    m->resize(n, n);
+    m->resizeNonZeros(col[n]);
+  }
+  std::vector<int> fill_o(col_o.begin(), col_o.end() - 1), fill_c(col_c.begin(), col_c.end() - 1);
+  for (int k = 0; k < n; ++k) {
+    for (auto* m : {&j_oo_, &j_cc_}) {
+      const int at = (m == &j_oo_ ? fill_o : fill_c)[k]++;
+      m->innerIndexPtr()[at] = k;
+      m->valuePtr()[at] = 0.0;
+    }
+  }
+  const std::size_t ups = up_start_[n];
+  up_col_.resize(ups);
+  up_row_.resize(ups);
+  up_val_.resize(ups);
+  std::vector<int> fill(up_start_.begin(), up_start_.end() - 1);
+  for (const auto& e : t) {
+    const int zi = e.row() >> 2, si = e.row() & 3, zj = e.col() >> 2, sj = e.col() & 3;
+    if (si < 2 && si == sj) {
+      auto& m = si == 0 ? j_oo_ : j_cc_;
+      const int at = (si == 0 ? fill_o : fill_c)[zj]++;
+      m.innerIndexPtr()[at] = zi;
+      m.valuePtr()[at] = e.value();
+    } else if (si >= 2 && sj >= 2 && zi != zj) {
+      const int at = fill[zi]++;
+      up_col_[at] = 2 * zj + sj - 2;
+      up_row_[at] = static_cast<unsigned char>(si - 2);
+      up_val_[at] = e.value();
+    }
+  }
+  compress_columns(j_oo_, col_o);
+  compress_columns(j_cc_, col_c);
+  for (int k = 0; k < n; ++k) {
+    if (!invert(gg_[k], gg_[k])) return false;
+  }
   remember_slots(t, fill);
-  if (n >= multigrid_from) {
-    // Large networks: memory is what limits them, and the scratch only serves a new pattern.
-    Triplets().swap(oo);
-    Triplets().swap(cc);
-    std::vector<Upstream>().swap(up);
-  }
   have_jacobian_ = true;
   return true;
 }
 
 // Where each triplet of the last full accept() went, so that a Jacobian with the same pattern
-// (every Newton step of one problem) is taken apart by one scatter instead of sorting again.
+// (every Newton step of one problem) is taken apart by one scatter instead of sorting again. A
+// slot is the part (top three bits) and the position in it; 4 bytes per entry, no copy of the
+// pattern: the intake checks each entry against the parts' own structure instead.
 void ZoneBlockSolver::remember_slots(const Triplets& t, std::vector<int>& fill) {
+  slot_.clear();
+  const std::size_t largest = std::max({static_cast<std::size_t>(j_oo_.nonZeros()), static_cast<std::size_t>(j_cc_.nonZeros()),
+                                        4 * static_cast<std::size_t>(n_), up_val_.size()});
+  if (largest >= kSlotMask) return;  // too large to encode: every Jacobian is taken apart in full
   std::copy(up_start_.begin(), up_start_.end() - 1, fill.begin());
   slot_.resize(t.size());
-  pattern_.resize(t.size());
   for (size_t i = 0; i < t.size(); ++i) {
     const auto& e = t[i];
-    pattern_[i] = {e.row(), e.col()};
     const int zi = e.row() >> 2, si = e.row() & 3, zj = e.col() >> 2, sj = e.col() & 3;
-    double* to = nullptr;
+    std::uint32_t part = 0, offset = 0;
     if (si < 2 && sj < 2) {
-      to = si == sj ? &(si == 0 ? j_oo_ : j_cc_).coeffRef(zi, zj) : &(si == 0 ? x01_ : x10_)[zi];
+      if (si == sj) {
+        auto& m = si == 0 ? j_oo_ : j_cc_;
+        part = si == 0 ? kOo : kCc;
+        offset = static_cast<std::uint32_t>(&m.coeffRef(zi, zj) - m.valuePtr());
+      } else {
+        part = si == 0 ? kX01 : kX10;
+        offset = static_cast<std::uint32_t>(zi);
+      }
     } else if (si < 2) {
-      to = &lg_[zi][2 * si + sj - 2];
+      part = kLg, offset = 4 * zi + 2 * si + sj - 2;
     } else if (sj < 2) {
-      to = &gl_[zi][2 * (si - 2) + sj];
+      part = kGl, offset = 4 * zi + 2 * (si - 2) + sj;
     } else if (zi == zj) {
-      to = &gg_[zi][2 * (si - 2) + sj - 2];
+      part = kGg, offset = 4 * zi + 2 * (si - 2) + sj - 2;
     } else {
-      to = &up_val_[fill[zi]++];  // the counting sort's order above
+      part = kUp, offset = static_cast<std::uint32_t>(fill[zi]++);  // the counting sort's order above
     }
-    slot_[i] = to;
+    slot_[i] = part << kPartShift | offset;
   }
 }
 
-bool ZoneBlockSolver::accept_same_pattern(const ZoneLayout& layout, const Triplets& t) {
-  if (slot_.empty() || t.size() != slot_.size() || layout.zones != n_ || *layout.gas_order != order_) return false;
-  for (size_t i = 0; i < t.size(); ++i) {
-    if (t[i].row() != pattern_[i][0] || t[i].col() != pattern_[i][1]) return false;
-  }
+bool ZoneBlockSolver::begin_same_pattern(const ZoneLayout& layout) {
+  have_jacobian_ = false;
+  taken_ = 0;
+  if (slot_.empty() || layout.zones != n_ || layout.gas_order == nullptr || *layout.gas_order != order_) return false;
   std::fill_n(j_oo_.valuePtr(), j_oo_.nonZeros(), 0.0);
   std::fill_n(j_cc_.valuePtr(), j_cc_.nonZeros(), 0.0);
   std::fill(x01_.begin(), x01_.end(), 0.0);
   std::fill(x10_.begin(), x10_.end(), 0.0);
   for (auto* blocks : {&lg_, &gl_, &gg_}) std::fill(blocks->begin(), blocks->end(), Block{});
   std::fill(up_val_.begin(), up_val_.end(), 0.0);
-  for (size_t i = 0; i < t.size(); ++i) *slot_[i] += t[i].value();
+  return true;
+}
+
+// Each entry must land where the remembered slot says, and the slot must be the place of its
+// (row, column) in the part: otherwise the pattern has changed and the caller takes it in full.
+bool ZoneBlockSolver::add_same_pattern(const Triplets& piece) {
+  if (taken_ + piece.size() > slot_.size()) return false;
+  const std::uint32_t* slot = slot_.data() + taken_;
+  const int* oo_outer = j_oo_.outerIndexPtr();
+  const int* oo_inner = j_oo_.innerIndexPtr();
+  const int* cc_outer = j_cc_.outerIndexPtr();
+  const int* cc_inner = j_cc_.innerIndexPtr();
+  for (size_t i = 0; i < piece.size(); ++i) {
+    const auto& e = piece[i];
+    const int zi = e.row() >> 2, si = e.row() & 3, zj = e.col() >> 2, sj = e.col() & 3;
+    const std::uint32_t part = slot[i] >> kPartShift, at = slot[i] & kSlotMask;
+    const int local = 2 * (si & 1) + (sj & 1);  // entry of a 2 x 2 block
+    const double v = e.value();
+    bool ok = zi < n_ && zj < n_;
+    switch (part) {
+      case kOo:
+      case kCc: {
+        const int* outer = part == kOo ? oo_outer : cc_outer;
+        const int* inner = part == kOo ? oo_inner : cc_inner;
+        ok = ok && si == sj && si == static_cast<int>(part - kOo) && static_cast<int>(at) >= outer[zj] &&
+             static_cast<int>(at) < outer[zj + 1] && inner[at] == zi;
+        if (ok) (part == kOo ? j_oo_ : j_cc_).valuePtr()[at] += v;
+        break;
+      }
+      case kX01:
+      case kX10:
+        ok = ok && si < 2 && sj == 1 - si && si == static_cast<int>(part - kX01) && zi == zj && static_cast<int>(at) == zi;
+        if (ok) (part == kX01 ? x01_ : x10_)[zi] += v;
+        break;
+      case kLg:
+        ok = ok && si < 2 && sj >= 2 && zi == zj && at == static_cast<std::uint32_t>(4 * zi + local);
+        if (ok) lg_[zi][local] += v;
+        break;
+      case kGl:
+        ok = ok && si >= 2 && sj < 2 && zi == zj && at == static_cast<std::uint32_t>(4 * zi + local);
+        if (ok) gl_[zi][local] += v;
+        break;
+      case kGg:
+        ok = ok && si >= 2 && sj >= 2 && zi == zj && at == static_cast<std::uint32_t>(4 * zi + local);
+        if (ok) gg_[zi][local] += v;
+        break;
+      default:  // kUp
+        ok = ok && si >= 2 && sj >= 2 && zi != zj && static_cast<int>(at) >= up_start_[zi] &&
+             static_cast<int>(at) < up_start_[zi + 1] && up_col_[at] == 2 * zj + sj - 2 && up_row_[at] == si - 2;
+        if (ok) up_val_[at] += v;
+        break;
+    }
+    if (!ok) return false;
+  }
+  taken_ += piece.size();
+  return true;
+}
+
+bool ZoneBlockSolver::finish_same_pattern() {
+  if (taken_ != slot_.size()) return false;
   for (int k = 0; k < n_; ++k) {
-    if (!invert(gg_[k], gg_inv_[k])) return false;
+    if (!invert(gg_[k], gg_[k])) return false;
   }
   have_jacobian_ = true;
   return true;
@@ -160,23 +271,27 @@ bool ZoneBlockSolver::accept_same_pattern(const ZoneLayout& layout, const Triple
 bool ZoneBlockSolver::refresh_preconditioner() {
   factored_ = false;
   if (!have_jacobian_) return false;
-  p_oo_ = j_oo_;
-  p_cc_ = j_cc_;
+  std::vector<double> shift_o(n_), shift_c(n_);
   p_co_.resize(n_);
   for (int k = 0; k < n_; ++k) {
     // Local Schur complement: the gas of the zone itself eliminated, the gas from below frozen.
-    const Block c = multiply(lg_[k], multiply(gg_inv_[k], gl_[k]));
-    p_oo_.coeffRef(k, k) -= c[0];
-    p_cc_.coeffRef(k, k) -= c[3];
+    const Block c = multiply(lg_[k], multiply(gg_[k], gl_[k]));
+    shift_o[k] = c[0];
+    shift_c[k] = c[3];
     p_co_[k] = x10_[k] - c[2];
   }
   multigrid_ = n_ >= multigrid_from;
   if (multigrid_) {
-    if (!mg_o_.setup(p_oo_) || !mg_c_.setup(p_cc_)) return false;
-    p_oo_ = Eigen::SparseMatrix<double>();  // the hierarchy holds its own copy
-    p_cc_ = Eigen::SparseMatrix<double>();
-  } else if (!lu_o_.factorize(p_oo_) || !lu_c_.factorize(p_cc_)) {
-    return false;
+    // The hierarchy takes the shifted blocks straight from the Jacobian's (no copy of them).
+    if (!mg_o_.setup(j_oo_, shift_o) || !mg_c_.setup(j_cc_, shift_c)) return false;
+  } else {
+    p_oo_ = j_oo_;
+    p_cc_ = j_cc_;
+    for (int k = 0; k < n_; ++k) {
+      p_oo_.coeffRef(k, k) -= shift_o[k];
+      p_cc_.coeffRef(k, k) -= shift_c[k];
+    }
+    if (!lu_o_.factorize(p_oo_) || !lu_c_.factorize(p_cc_)) return false;
   }
   ++factorisations_;
   factored_ = true;
@@ -187,7 +302,7 @@ void ZoneBlockSolver::gas_sweep(Eigen::VectorXd& g) const {
   for (const int k : order_) {
     double a = g[2 * k], b = g[2 * k + 1];
     for (int e = up_start_[k]; e < up_start_[k + 1]; ++e) (up_row_[e] == 0 ? a : b) -= up_val_[e] * g[up_col_[e]];
-    const Block& m = gg_inv_[k];
+    const Block& m = gg_[k];
     g[2 * k] = m[0] * a + m[1] * b;
     g[2 * k + 1] = m[2] * a + m[3] * b;
   }
@@ -260,7 +375,10 @@ bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, doubl
   if (!have_jacobian_ || !factored_) return false;
   const int n = n_, m = 2 * n;
   // Gas eliminated: rhs of the Schur system.
-  Eigen::VectorXd g(m), rhs(m);
+  Eigen::VectorXd &rhs = rhs_, &y = y_, &r = r_, &w = w_;
+  Eigen::VectorXd& g = w;  // the gas part, before and after the Krylov iteration
+  g.resize(m);
+  rhs.resize(m);
   for (int k = 0; k < n; ++k) g[2 * k] = b[4 * k + 2], g[2 * k + 1] = b[4 * k + 3];
   gas_sweep(g);
   for (int k = 0; k < n; ++k) {
@@ -272,11 +390,18 @@ bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, doubl
   // Right preconditioning keeps the residual GMRES minimises the true one, which is the whole
   // Newton system's: the gas rows are solved exactly. Flexible form (Saad 1993): the
   // preconditioned vectors are kept, so the preconditioner may vary from one iteration to the
-  // next (a multigrid K-cycle does), and the update at a restart needs no further solve.
+  // next (a multigrid K-cycle does), and the update at a restart needs no further solve. Both the
+  // basis and the images are stored in single precision, all arithmetic in double (a compressed
+  // basis, as Aliaga et al. 2023 [mem] show for GMRES): a rounded image is only another varying
+  // preconditioner, used as rounded, so the Arnoldi relation holds for it exactly; the rounded
+  // basis is orthonormal to ~1e-7, which bounds what one cycle can gain (7 decades, more than a
+  // Newton step asks), and every restart measures the true residual in double. Half the memory
+  // and the traffic of the vectors, the largest store of a large network after the network.
   const double target = rel_tol * b.norm();
   const int restart = m > 400000 ? 15 : 30;
   const int max_iterations = 300;
-  Eigen::VectorXd y = Eigen::VectorXd::Zero(m), r = rhs, w(m);
+  y.setZero(m);
+  r = rhs;
   basis_.resize(restart + 1);
   z_basis_.resize(restart);
   Eigen::MatrixXd h = Eigen::MatrixXd::Zero(restart + 1, restart);
@@ -284,21 +409,24 @@ bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, doubl
   double beta = r.norm();
   bool converged = beta <= target;
   while (!converged && last_iterations_ < max_iterations) {
-    basis_[0] = r / beta;
+    basis_[0] = (r / beta).cast<float>();
     s.setZero();
     s[0] = beta;
     int j = 0;
     for (; j < restart && last_iterations_ < max_iterations; ++j) {
       ++last_iterations_;
-      precondition(basis_[j], z_basis_[j]);
-      apply_schur(z_basis_[j], w);
+      r = basis_[j].cast<double>();  // r is free within a cycle
+      precondition(r, w);
+      z_basis_[j] = w.cast<float>();
+      r = z_basis_[j].cast<double>();
+      apply_schur(r, w);
       for (int i = 0; i <= j; ++i) {
-        h(i, j) = w.dot(basis_[i]);
-        w -= h(i, j) * basis_[i];
+        h(i, j) = w.dot(basis_[i].cast<double>());
+        w -= h(i, j) * basis_[i].cast<double>();
       }
       const double next = w.norm();
       h(j + 1, j) = next;
-      if (next > 0.0) basis_[j + 1] = w / next;
+      if (next > 0.0) basis_[j + 1] = (w / next).cast<float>();
       for (int i = 0; i < j; ++i) {
         const double t = cs[i] * h(i, j) + sn[i] * h(i + 1, j);
         h(i + 1, j) = -sn[i] * h(i, j) + cs[i] * h(i + 1, j);
@@ -319,7 +447,7 @@ bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, doubl
     }
     // Update with the least-squares solution of the small Hessenberg system.
     Eigen::VectorXd c = h.topLeftCorner(j, j).triangularView<Eigen::Upper>().solve(s.head(j));
-    for (int i = 0; i < j; ++i) y += c[i] * z_basis_[i];
+    for (int i = 0; i < j; ++i) y += c[i] * z_basis_[i].cast<double>();
     apply_schur(y, w);
     r = rhs - w;
     beta = r.norm();

@@ -21,6 +21,7 @@
 #include <Eigen/Core>
 #include <Eigen/Sparse>
 #include <array>
+#include <cstdint>
 #include <vector>
 
 #include "scalar_lu.hpp"
@@ -39,6 +40,12 @@ class ZoneBlockSolver {
   //! Takes the Jacobian (triplets, duplicates summed) of a problem with this layout. False when
   //! the Jacobian does not have the structure above.
   bool accept(const ZoneLayout& layout, const Triplets& t);
+  //! The same in pieces, for a Jacobian with the pattern of the last full accept(): begin, add
+  //! the pieces in the order of that accept's list, finish. False (at any stage) when there is
+  //! no remembered pattern or the pieces do not follow it; the caller then takes it in full.
+  bool begin_same_pattern(const ZoneLayout& layout);
+  bool add_same_pattern(const Triplets& piece);
+  bool finish_same_pattern();
   //! Rebuilds the preconditioner's factorisations from the last accepted Jacobian.
   bool refresh_preconditioner();
   bool has_preconditioner() const { return factored_; }
@@ -53,7 +60,6 @@ class ZoneBlockSolver {
 
  private:
   using Block = std::array<double, 4>;  // row-major 2 x 2
-  bool accept_same_pattern(const ZoneLayout& layout, const Triplets& t);
   void remember_slots(const Triplets& t, std::vector<int>& fill);
   void gas_sweep(Eigen::VectorXd& g) const;                      // g <- J_gg^-1 g (length 2n)
   void apply_schur(const Eigen::VectorXd& v, Eigen::VectorXd& out);  // out = S v (length 2n)
@@ -64,14 +70,15 @@ class ZoneBlockSolver {
   // The Jacobian, by part.
   Eigen::SparseMatrix<double> j_oo_, j_cc_;      // liquid species 0 and 1, zone x zone
   std::vector<double> x01_, x10_;                // local liquid cross-species entries
-  std::vector<Block> lg_, gl_, gg_;              // local liquid-gas, gas-liquid, gas-gas blocks
+  std::vector<Block> lg_, gl_, gg_;              // local liquid-gas, gas-liquid, gas-gas blocks (gg_ inverted once taken)
   std::vector<int> up_start_, up_col_;           // upstream gas entries, grouped by receiving zone
   std::vector<unsigned char> up_row_;            // receiving gas species (0, 1)
   std::vector<double> up_val_;
-  std::vector<Block> gg_inv_;
-  // The pattern of the last full accept() and where each of its triplets was added.
-  std::vector<std::array<int, 2>> pattern_;
-  std::vector<double*> slot_;
+  // Where each triplet of the last full accept() was added: part << kPartShift | position.
+  enum Part : std::uint32_t { kOo, kCc, kX01, kX10, kLg, kGl, kGg, kUp };
+  static constexpr std::uint32_t kPartShift = 29, kSlotMask = (1u << kPartShift) - 1;
+  std::vector<std::uint32_t> slot_;
+  std::size_t taken_ = 0;  // entries of the Jacobian taken in pieces so far
   // The preconditioner (frozen between refreshes).
   Eigen::SparseMatrix<double> p_oo_, p_cc_;
   ScalarLu lu_o_, lu_c_;
@@ -82,14 +89,8 @@ class ZoneBlockSolver {
   int factorisations_ = 0, last_iterations_ = 0;
   // Scratch.
   Eigen::VectorXd t_gas_, s_o_, s_c_, jo_, jc_;
-  struct Upstream {
-    int zone, col;
-    unsigned char row;
-    double value;
-  };
-  Triplets oo_scratch_, cc_scratch_;
-  std::vector<Upstream> up_scratch_;
-  std::vector<Eigen::VectorXd> basis_, z_basis_;  // Krylov basis and its preconditioned images (flexible GMRES)
+  Eigen::VectorXd rhs_, y_, r_, w_;               // GMRES vectors, kept to spare a large network reallocations
+  std::vector<Eigen::VectorXf> basis_, z_basis_;  // Krylov basis and its preconditioned images, rounded
 };
 
 }  // namespace oxystrat
