@@ -186,6 +186,71 @@ TEST(ZoneBlockSolver, LinearSolveMeetsItsResidualOnTheAssembledJacobian) {
   EXPECT_LE((j2 * dx - b).norm(), 1e-10 * b.norm() + 1e-13 * b.norm());
 }
 
+TEST(ZoneBlockSolver, JacobianByZonesIsTheWholeJacobianInPieces) {
+  const Balances bal(testing::gassed_vessel(5, 12));
+  const auto p = bal.problem();
+  const int n = bal.ch.net.size();
+  std::vector<Eigen::Triplet<double>> whole;
+  p.jacobian(bal.f.state, whole);
+  for (int piece : {1, 7, n / 3, n}) {
+    std::vector<Eigen::Triplet<double>> joined;
+    for (int b = 0; b < n; b += piece) ASSERT_TRUE(p.jacobian_zones(bal.f.state, b, std::min(n, b + piece), joined));
+    ASSERT_EQ(joined.size(), whole.size()) << piece;
+    for (size_t i = 0; i < whole.size(); ++i) {  // the same list, entry for entry, to the bit
+      ASSERT_EQ(joined[i].row(), whole[i].row()) << i;
+      ASSERT_EQ(joined[i].col(), whole[i].col()) << i;
+      ASSERT_EQ(joined[i].value(), whole[i].value()) << i;
+    }
+  }
+}
+
+TEST(ZoneBlockSolver, JacobianTakenInPiecesSolvesAsTakenWholeAndAChangedPatternIsRefused) {
+  const Balances bal(testing::gassed_vessel(5, 12));
+  const auto p = bal.problem();
+  const int n = bal.ch.net.size();
+  const ZoneLayout layout = p.zone_layout();
+  Eigen::VectorXd x1 = bal.f.state, x2 = bal.f.state;
+  for (int i = 0; i < x2.size(); ++i) x2[i] *= 1.0 + 0.1 * std::sin(1.7 * i);
+  std::vector<Eigen::Triplet<double>> t1, t2;
+  p.jacobian(x1, t1);
+  p.jacobian(x2, t2);
+  Eigen::VectorXd b(p.size());
+  for (int i = 0; i < b.size(); ++i) b[i] = std::cos(0.3 * i);
+  ZoneBlockSolver whole, pieces;
+  ASSERT_TRUE(whole.accept(layout, t1));
+  ASSERT_TRUE(pieces.accept(layout, t1));
+  ASSERT_TRUE(whole.accept(layout, t2));
+  ASSERT_TRUE(pieces.begin_same_pattern(layout));
+  for (int z = 0; z < n; z += 9) {
+    std::vector<Eigen::Triplet<double>> piece;
+    p.jacobian_zones(x2, z, std::min(n, z + 9), piece);
+    ASSERT_TRUE(pieces.add_same_pattern(piece)) << z;
+  }
+  ASSERT_TRUE(pieces.finish_same_pattern());
+  Eigen::VectorXd d_whole, d_pieces;
+  ASSERT_TRUE(whole.refresh_preconditioner() && whole.solve(b, d_whole, 1e-10));
+  ASSERT_TRUE(pieces.refresh_preconditioner() && pieces.solve(b, d_pieces, 1e-10));
+  EXPECT_EQ((d_whole - d_pieces).cwiseAbs().maxCoeff(), 0.0);  // the same parts, so the same numbers
+
+  // One entry moved to another column, or a list cut short: refused, and a full accept recovers.
+  auto moved = t2;
+  for (auto& e : moved) {
+    if (e.row() % 4 == 0 && e.col() % 4 == 0 && e.row() != e.col()) {
+      e = Eigen::Triplet<double>(e.row(), (e.row() + 4 * 3) % (4 * n), e.value());
+      break;
+    }
+  }
+  ASSERT_TRUE(pieces.begin_same_pattern(layout));
+  EXPECT_FALSE(pieces.add_same_pattern(moved));
+  ASSERT_TRUE(pieces.begin_same_pattern(layout));
+  ASSERT_TRUE(pieces.add_same_pattern({t2.begin(), t2.end() - 1}));
+  EXPECT_FALSE(pieces.finish_same_pattern());
+  EXPECT_FALSE(pieces.solve(b, d_pieces, 1e-10));  // no Jacobian taken: no answer
+  ASSERT_TRUE(pieces.accept(layout, t2));
+  ASSERT_TRUE(pieces.refresh_preconditioner() && pieces.solve(b, d_pieces, 1e-10));
+  EXPECT_EQ((d_whole - d_pieces).cwiseAbs().maxCoeff(), 0.0);
+}
+
 TEST(ZoneBlockSolver, RefusesGasAgainstTheOrderAndNewtonFallsBackToTheLu) {
   const Balances bal(testing::gassed_vessel(4, 10));
   const auto p = bal.problem();
