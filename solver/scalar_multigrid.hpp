@@ -43,6 +43,7 @@ class ScalarMultigrid {
     std::vector<float> val;       // single precision: see setup()
     std::vector<int> diag_pos;    // ILU(0): position of the diagonal in each row
     std::vector<float> lu;        // ILU(0) factors on the pattern of B
+    std::vector<float> inv_diag;  // 1 / U's diagonal: a product, not a division, on the solve's critical path
     std::vector<int> aggregate;   // coarse index of each row, -1 when left out of the coarse level
     mutable std::vector<double> x, b, r, v, w;  // v, w: the K-cycle's first direction and its image (not on level 0)
   };
