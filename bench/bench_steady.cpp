@@ -62,6 +62,10 @@ void steady_solve(benchmark::State& state, bool structured) {
   state.counters["newton"] = f.newton_iterations;
   state.counters["outer"] = f.outer_iterations;
   state.counters["linear"] = f.linear_iterations;
+  // Nested cold start: the solves on the coarser grids behind the fine one, all levels.
+  state.counters["coarse_levels"] = f.coarse_levels;
+  state.counters["coarse_newton"] = f.coarse_newton_iterations;
+  state.counters["coarse_linear"] = f.coarse_linear_iterations;
   state.counters["do_min_mol_m3"] = f.do_min;
 }
 void BM_SteadySolve(benchmark::State& state) { steady_solve(state, true); }

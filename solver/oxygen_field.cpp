@@ -8,6 +8,7 @@
 #include <numeric>
 
 #include "mass_transfer.hpp"
+#include "nested_start.hpp"
 #include "oxygen_problem.hpp"
 #include "physics/solubility.hpp"
 #include "transport.hpp"
@@ -178,9 +179,21 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   const double in_o2 = setup.inlet_o2_mol_s, in_co2 = setup.inlet_co2_mol_s;
   const double h_co2 = setup.henry_co2;
   const double salt_o2 = physics::salting_out_factor(physics::Gas::o2, t, c.broth.ions_mol_m3);
-  Eigen::VectorXd x = warm != nullptr && warm->state.size() == 4 * n ? warm->state : setup.initial_state();
-
   OxygenField f;
+  Eigen::VectorXd x;
+  if (warm != nullptr && warm->state.size() == 4 * n) {
+    x = warm->state;
+  } else {
+    x = setup.initial_state();
+    CoarseWork coarse;
+    if (seed_from_coarse_grid(ctx, biomass_kg_m3, newton, coeff.inert_flow, x, coarse)) {
+      f.coarse_levels = coarse.levels;
+      f.coarse_newton_iterations = coarse.newton_iterations;
+      f.coarse_outer_iterations = coarse.outer_iterations;
+      f.coarse_linear_iterations = coarse.linear_iterations;
+    }
+  }
+
   NewtonReport rep;
   constexpr int kMaxOuter = 30;
   std::vector<double> previous;

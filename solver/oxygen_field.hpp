@@ -53,6 +53,12 @@ struct OxygenField {
   int newton_iterations = 0;
   int outer_iterations = 0;
   int linear_iterations = 0;            //!< Krylov iterations of the structured Newton steps
+  // The counts above are this network's own solve; a nested cold start (nested_start.hpp) adds
+  // the solves on the coarser grids that seeded it, summed over all levels:
+  int coarse_levels = 0;                //!< coarser grids solved first (0: no nesting)
+  int coarse_newton_iterations = 0;
+  int coarse_outer_iterations = 0;
+  int coarse_linear_iterations = 0;
   Eigen::VectorXd state;                //!< solver state, for warm starts
 };
 
@@ -85,7 +91,9 @@ struct OxygenSetup {
 };
 
 //! Steady field at biomass `biomass_kg_m3` (the case's own when negative). `warm` may hold a
-//! previous field of the same network to start from. Throws SolveError on failure.
+//! previous field of the same network to start from; without it, a network of at least
+//! NestedStart::from_zones zones starts from the field on its halved grid (nested_start.hpp).
+//! Throws SolveError on failure.
 //! `workspace` (optional) carries the sparse factorisation from one solve to the next.
 //! `newton.structured = false` forces the general sparse LU path (for tests and benchmarks);
 //! the tolerance of `newton` is that of the final field.
