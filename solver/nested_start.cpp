@@ -2,6 +2,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <exception>
+#include <optional>
 
 #include "gas_routing.hpp"
 #include "hydrodynamics.hpp"
@@ -119,22 +121,25 @@ bool seed_from_coarse_grid(const OxygenContext& ctx, double biomass_kg_m3, const
   coarse_case.grid.axial = std::max(1, ctx.c.grid.axial / 2);
   if (coarse_case.grid.radial == ctx.c.grid.radial && coarse_case.grid.axial == ctx.c.grid.axial) return false;
   // The coarse network lives only in this scope: the fine solve's peak memory does not carry it.
-  const ZoneNetwork net = build_zone_geometry(coarse_case);
-  const Hydrodynamics hydro = compute_hydrodynamics(coarse_case, net);
-  const GasRouting routing = route_gas(coarse_case, net, hydro);
+  // It is only a seed: whatever fails on it (a grid too coarse for the hydrodynamics, a solve
+  // that does not converge) leaves the fine solve to start cold, as it would without nesting.
+  std::optional<ZoneNetwork> net;
   OxygenField coarse;
   try {
+    net = build_zone_geometry(coarse_case);
+    const Hydrodynamics hydro = compute_hydrodynamics(coarse_case, *net);
+    const GasRouting routing = route_gas(coarse_case, *net, hydro);
     NewtonOptions loose = newton;
     loose.tolerance = std::max(newton.tolerance, kCoarseTolerance);
-    coarse = solve_oxygen_field({coarse_case, net, hydro, routing}, biomass_kg_m3, nullptr, nullptr, loose);
-  } catch (const SolveError&) {
-    return false;  // the fine solve starts cold, as it would without nesting
+    coarse = solve_oxygen_field({coarse_case, *net, hydro, routing}, biomass_kg_m3, nullptr, nullptr, loose);
+  } catch (const std::exception&) {
+    return false;
   }
   work.levels = 1 + coarse.coarse_levels;
   work.newton_iterations = coarse.newton_iterations + coarse.coarse_newton_iterations;
   work.linear_iterations = coarse.linear_iterations + coarse.coarse_linear_iterations;
   work.outer_iterations = coarse.outer_iterations + coarse.coarse_outer_iterations;
-  x = nested_state(net, coarse, ctx.net, inert_mol_s, x);
+  x = nested_state(*net, coarse, ctx.net, inert_mol_s, x);
   return true;
 }
 
