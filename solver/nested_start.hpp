@@ -13,7 +13,7 @@ namespace oxystrat {
 //! Cold starts of networks with at least `from_zones` zones are seeded from the same case solved
 //! on the grid with half the radial and half the axial count (nested iteration or mesh
 //! sequencing: Brandt 1977, Math. Comp. 31, full multigrid; Knoll & Keyes 2004, J. Comput. Phys.
-//! 193, section on mesh sequencing). Tests and benchmarks may change it.
+//! 193, section on mesh sequencing; both cited from memory). Tests and benchmarks may change it.
 struct NestedStart {
   static int from_zones;
 };
