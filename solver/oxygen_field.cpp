@@ -51,6 +51,7 @@ GasState gas_state(const OxygenContext& ctx, const std::vector<double>& molar_fl
   g.superficial.assign(net.size(), 0.0);
   for (int sweep = 0; sweep < 4; ++sweep) {
     g.pressure = column_pressures(ctx.c, net, g.holdup);
+#pragma omp parallel for schedule(static) if (net.size() >= 50000)
     for (int k = 0; k < net.size(); ++k) {
       const double q = molar_flow[k] * kR * t / (g.pressure[k] - pw);  // wet gas volume flow
       g.superficial[k] = q / ctx.routing.area[k];

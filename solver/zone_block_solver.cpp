@@ -283,7 +283,17 @@ bool ZoneBlockSolver::refresh_preconditioner() {
   multigrid_ = n_ >= multigrid_from;
   if (multigrid_) {
     // The hierarchy takes the shifted blocks straight from the Jacobian's (no copy of them).
-    if (!mg_o_.setup(j_oo_, shift_o) || !mg_c_.setup(j_cc_, shift_c)) return false;
+    // The two hierarchies are independent: built side by side (each sequential: the same for any
+    // thread count).
+    bool ok_o = false, ok_c = false;
+#pragma omp parallel sections
+    {
+#pragma omp section
+      ok_o = mg_o_.setup(j_oo_, shift_o);
+#pragma omp section
+      ok_c = mg_c_.setup(j_cc_, shift_c);
+    }
+    if (!ok_o || !ok_c) return false;
   } else {
     p_oo_ = j_oo_;
     p_cc_ = j_cc_;
@@ -321,8 +331,18 @@ void ZoneBlockSolver::apply_schur(const Eigen::VectorXd& v, Eigen::VectorXd& out
     s_c_[k] = b;
   }
   gas_sweep(t_gas_);
-  jo_.noalias() = j_oo_ * s_o_;
-  jc_.noalias() = j_cc_ * s_c_;
+  if (multigrid_) {  // large: the two species' products side by side
+#pragma omp parallel sections
+    {
+#pragma omp section
+      jo_.noalias() = j_oo_ * s_o_;
+#pragma omp section
+      jc_.noalias() = j_cc_ * s_c_;
+    }
+  } else {
+    jo_.noalias() = j_oo_ * s_o_;
+    jc_.noalias() = j_cc_ * s_c_;
+  }
   const Eigen::VectorXd &jo = jo_, &jc = jc_;
   out.resize(2 * n_);
   for (int k = 0; k < n_; ++k) {
