@@ -21,9 +21,11 @@ double merit(const SteadyProblem& p, const Eigen::VectorXd& x, Eigen::VectorXd& 
 bool take_jacobian(const SteadyProblem& p, const ZoneLayout& layout, const Eigen::VectorXd& x, ZoneBlockSolver& blocks,
                    std::vector<Eigen::Triplet<double>>& piece) {
   constexpr int kZonesPerPiece = 1 << 14;
-  if (blocks.begin_same_pattern(layout)) {
-    bool ok = true;
-    for (int b = 0; ok && b < layout.zones; b += kZonesPerPiece) {
+  piece.clear();
+  // The first piece before anything is reset: a problem that cannot list by zones goes straight on.
+  if (p.jacobian_zones(x, 0, std::min(layout.zones, kZonesPerPiece), piece) && blocks.begin_same_pattern(layout)) {
+    bool ok = blocks.add_same_pattern(piece);
+    for (int b = kZonesPerPiece; ok && b < layout.zones; b += kZonesPerPiece) {
       piece.clear();
       ok = p.jacobian_zones(x, b, std::min(layout.zones, b + kZonesPerPiece), piece) && blocks.add_same_pattern(piece);
     }
