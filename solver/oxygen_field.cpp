@@ -23,18 +23,19 @@ struct GasState {
   std::vector<double> holdup, pressure, superficial;
 };
 
-// Pressure at zone centres from the head space down each column through the gassed liquid.
+// Pressure at zone centres from the head space down each column through the gassed liquid. Row
+// by row from the top, all columns at once (the zones of a row are neighbours in memory).
 std::vector<double> column_pressures(const Case& c, const ZoneNetwork& net, const std::vector<double>& holdup) {
   std::vector<double> p(net.size());
+  std::vector<double> top(net.columns(), c.vessel.head_pressure_pa);
   const double rho_g = c.broth.density_kg_m3 * kG;
-  for (int col = 0; col < net.columns(); ++col) {
-    double top = c.vessel.head_pressure_pa;
-    for (int row = net.rows() - 1; row >= 0; --row) {
+  for (int row = net.rows() - 1; row >= 0; --row) {
+    for (int col = 0; col < net.columns(); ++col) {
       const int k = net.zone_at(col, row);
       if (k < 0) continue;
       const double liquid = 1.0 - holdup[k];
-      p[k] = top + rho_g * liquid * (net.z1[k] - net.z[k]);
-      top += rho_g * liquid * (net.z1[k] - std::min(net.z_floor_inner[k], net.z_floor_outer[k]));
+      p[k] = top[col] + rho_g * liquid * (net.z1[k] - net.z[k]);
+      top[col] += rho_g * liquid * (net.z1[k] - std::min(net.z_floor_inner[k], net.z_floor_outer[k]));
     }
   }
   return p;
@@ -149,11 +150,11 @@ void OxygenSetup::update(const Eigen::VectorXd& x) {
   coeff.cstar_per_y_o2.resize(n);
   coeff.cstar_per_y_co2.resize(n);
   std::vector<double> kla(n);
+  // Zone by zone in parallel, summed in zone order (the same total for any thread count).
+#pragma omp parallel for schedule(static) if (n >= 50000)
+  for (int k = 0; k < n; ++k) kla[k] = local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k]);
   double kla_volume = 0.0;
-  for (int k = 0; k < n; ++k) {
-    kla[k] = local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k]);
-    kla_volume += kla[k] * net.volume[k];
-  }
+  for (int k = 0; k < n; ++k) kla_volume += kla[k] * net.volume[k];
   // The published correlation fixes the vessel's total; the local form only distributes it.
   const bool normalise = c.model.kla_normalise && c.model.kla_model == KlaModel::local_correlation;
   const double scale = normalise && kla_volume > 0.0 ? kla_vessel_1_s * net.total_volume() / kla_volume : 1.0;

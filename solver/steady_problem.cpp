@@ -15,21 +15,31 @@ double merit(const SteadyProblem& p, const Eigen::VectorXd& x, Eigen::VectorXd& 
   return (r / p.residual_scale()).squaredNorm();
 }
 
-// The Jacobian into the block solver: in pieces of zones while the pattern is the remembered one
-// and the problem lists its Jacobian by zones (a large network then never holds the whole list
-// again: 26 entries of 16 bytes per zone), else whole.
+// The Jacobian into the block solver in pieces of zones when the problem lists its Jacobian by
+// zones, so that a large network never holds the whole list (26 entries of 16 bytes per zone):
+// by one scatter while the pattern is the remembered one, else by the solver's two-pass intake.
+// A problem that cannot list by zones is taken whole.
 bool take_jacobian(const SteadyProblem& p, const ZoneLayout& layout, const Eigen::VectorXd& x, ZoneBlockSolver& blocks,
                    std::vector<Eigen::Triplet<double>>& piece) {
   constexpr int kZonesPerPiece = 1 << 14;
   piece.clear();
   // The first piece before anything is reset: a problem that cannot list by zones goes straight on.
-  if (p.jacobian_zones(x, 0, std::min(layout.zones, kZonesPerPiece), piece) && blocks.begin_same_pattern(layout)) {
-    bool ok = blocks.add_same_pattern(piece);
-    for (int b = kZonesPerPiece; ok && b < layout.zones; b += kZonesPerPiece) {
-      piece.clear();
-      ok = p.jacobian_zones(x, b, std::min(layout.zones, b + kZonesPerPiece), piece) && blocks.add_same_pattern(piece);
+  if (p.jacobian_zones(x, 0, std::min(layout.zones, kZonesPerPiece), piece)) {
+    if (blocks.begin_same_pattern(layout)) {
+      bool ok = blocks.add_same_pattern(piece);
+      for (int b = kZonesPerPiece; ok && b < layout.zones; b += kZonesPerPiece) {
+        piece.clear();
+        ok = p.jacobian_zones(x, b, std::min(layout.zones, b + kZonesPerPiece), piece) && blocks.add_same_pattern(piece);
+      }
+      if (ok && blocks.finish_same_pattern()) return true;
     }
-    if (ok && blocks.finish_same_pattern()) return true;
+    return blocks.accept(layout, [&](const ZoneBlockSolver::PieceTaker& take) {
+      for (int b = 0; b < layout.zones; b += kZonesPerPiece) {
+        piece.clear();
+        if (!p.jacobian_zones(x, b, std::min(layout.zones, b + kZonesPerPiece), piece) || !take(piece)) return false;
+      }
+      return true;
+    });
   }
   std::vector<Eigen::Triplet<double>> all;
   p.jacobian(x, all);
@@ -81,7 +91,7 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
     // are. A numeric-only refactorisation costs about ten Krylov iterations, so refactor early
     // (measured at 494/1972 zones: more than 6 iterations -> 51/53 Krylov iterations per field
     // and 2.7/13.7 ms; more than 12 -> 79/95 and 3.1/16.9 ms; every step -> 49/50 and 3.0/15.4 ms).
-    if (!fresh && blocks.last_iterations() > 6) ws.refresh_blocks = true;
+    if (!fresh && blocks.last_iterations() > (blocks.multigrid() ? 25 : 6)) ws.refresh_blocks = true;
     double lambda = 1.0, m_try = m;
     for (int k = 0; k < 40; ++k, lambda *= 0.5) {
       x_try = x + lambda * dx;

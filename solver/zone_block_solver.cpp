@@ -24,20 +24,24 @@ Block multiply(const Block& a, const Block& b) {
 // Entries filled column by column in list order (column c at [start[c], start[c + 1])) become a
 // compressed column matrix: rows sorted, stably, and repeated rows summed in list order, as a
 // triplet assembly sums them (the same numbers to the bit). In place: the list is never copied.
-void compress_columns(Eigen::SparseMatrix<double>& m, const std::vector<int>& start) {
+// moved[i] is where the entry first filled at position i ended up.
+void compress_columns(Eigen::SparseMatrix<double>& m, const std::vector<int>& start, std::vector<int>& moved) {
   const int n = static_cast<int>(m.cols());
   int* outer = m.outerIndexPtr();
   int* inner = m.innerIndexPtr();
   double* val = m.valuePtr();
+  std::vector<int> origin(start[n]);
+  for (int i = 0; i < start[n]; ++i) origin[i] = i;
+  moved.resize(start[n]);
   int out = 0;
   for (int c = 0; c < n; ++c) {
     const int b = start[c], e = start[c + 1];
     for (int i = b + 1; i < e; ++i) {  // insertion sort: columns hold a handful of entries
-      const int row = inner[i];
+      const int row = inner[i], from = origin[i];
       const double v = val[i];
       int j = i;
-      for (; j > b && inner[j - 1] > row; --j) inner[j] = inner[j - 1], val[j] = val[j - 1];
-      inner[j] = row, val[j] = v;
+      for (; j > b && inner[j - 1] > row; --j) inner[j] = inner[j - 1], val[j] = val[j - 1], origin[j] = origin[j - 1];
+      inner[j] = row, val[j] = v, origin[j] = from;
     }
     outer[c] = out;
     for (int i = b; i < e; ++i) {
@@ -46,6 +50,7 @@ void compress_columns(Eigen::SparseMatrix<double>& m, const std::vector<int>& st
       } else {
         inner[out] = inner[i], val[out] = val[i], ++out;
       }
+      moved[origin[i]] = out - 1;
     }
   }
   outer[n] = out;
@@ -58,10 +63,22 @@ int ZoneBlockSolver::multigrid_from = 3000;
 
 bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   have_jacobian_ = false;
+  if (begin_same_pattern(layout) && add_same_pattern(t) && finish_same_pattern()) return true;
+  return accept(layout, [&t](const PieceTaker& take) { return take(t); });
+}
+
+// Two passes over the pieces, so that the whole list never exists: the first checks the
+// structure, adds the zone-local entries and counts the others per column (liquid blocks; one
+// explicit diagonal each, which the preconditioner modifies in place) and per receiving zone
+// (upstream gas); the second places the others in list order (so grouped stably). Each entry's
+// slot is remembered on the way, so that the next Jacobian with this pattern is taken apart by
+// one scatter. A slot is the part (top three bits) and the position in it: 4 bytes per entry,
+// no copy of the pattern (the intake checks each entry against the parts' own structure).
+bool ZoneBlockSolver::accept(const ZoneLayout& layout, const PieceList& pieces) {
+  have_jacobian_ = false;
+  slot_.clear();
   const int n = layout.zones;
   if (n <= 0 || layout.gas_order == nullptr || static_cast<int>(layout.gas_order->size()) != n) return false;
-  if (begin_same_pattern(layout) && add_same_pattern(t) && finish_same_pattern()) return true;
-  slot_.clear();
   if (n != n_) factored_ = false;
   n_ = n;
   order_ = *layout.gas_order;
@@ -75,43 +92,45 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   lg_.assign(n, Block{});
   gl_.assign(n, Block{});
   gg_.assign(n, Block{});
-  // First pass: check the structure, add the zone-local entries, count the others per column
-  // (liquid blocks; one explicit diagonal each, which the preconditioner modifies in place) and
-  // per receiving zone (upstream gas).
   std::vector<int> col_o(n + 1, 1), col_c(n + 1, 1);
   col_o[0] = col_c[0] = 0;
   up_start_.assign(n + 1, 0);
-  for (const auto& e : t) {
-    const int zi = e.row() >> 2, si = e.row() & 3, zj = e.col() >> 2, sj = e.col() & 3;
-    if (zi >= n || zj >= n) return false;
-    const double v = e.value();
-    if (si < 2 && sj < 2) {
-      if (si == sj) {
-        ++(si == 0 ? col_o : col_c)[zj + 1];
+  std::size_t total = 0;
+  const bool counted = pieces([&](const Triplets& piece) {
+    for (const auto& e : piece) {
+      const int zi = e.row() >> 2, si = e.row() & 3, zj = e.col() >> 2, sj = e.col() & 3;
+      if (e.row() < 0 || e.col() < 0 || zi >= n || zj >= n) return false;
+      const double v = e.value();
+      if (si < 2 && sj < 2) {
+        if (si == sj) {
+          ++(si == 0 ? col_o : col_c)[zj + 1];
+        } else if (zi == zj) {
+          (si == 0 ? x01_ : x10_)[zi] += v;
+        } else {
+          return false;
+        }
+      } else if (si < 2) {
+        if (zi != zj) return false;
+        lg_[zi][2 * si + sj - 2] += v;
+      } else if (sj < 2) {
+        if (zi != zj) return false;
+        gl_[zi][2 * (si - 2) + sj] += v;
       } else if (zi == zj) {
-        (si == 0 ? x01_ : x10_)[zi] += v;
+        gg_[zi][2 * (si - 2) + sj - 2] += v;
       } else {
-        return false;
+        if (position[zj] >= position[zi]) return false;  // gas against the routing order
+        ++up_start_[zi + 1];
       }
-    } else if (si < 2) {
-      if (zi != zj) return false;
-      lg_[zi][2 * si + sj - 2] += v;
-    } else if (sj < 2) {
-      if (zi != zj) return false;
-      gl_[zi][2 * (si - 2) + sj] += v;
-    } else if (zi == zj) {
-      gg_[zi][2 * (si - 2) + sj - 2] += v;
-    } else {
-      if (position[zj] >= position[zi]) return false;  // gas against the routing order
-      ++up_start_[zi + 1];
     }
-  }
+    total += piece.size();
+    return true;
+  });
+  if (!counted) return false;
   for (int k = 0; k < n; ++k) {
     col_o[k + 1] += col_o[k];
     col_c[k + 1] += col_c[k];
     up_start_[k + 1] += up_start_[k];
   }
-  // Second pass: the transported and upstream entries in list order (so grouped stably).
   for (auto* m : {&j_oo_, &j_cc_}) {
     const auto& col = m == &j_oo_ ? col_o : col_c;
     m->resize(n, n);
@@ -130,65 +149,62 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   up_row_.resize(ups);
   up_val_.resize(ups);
   std::vector<int> fill(up_start_.begin(), up_start_.end() - 1);
-  for (const auto& e : t) {
-    const int zi = e.row() >> 2, si = e.row() & 3, zj = e.col() >> 2, sj = e.col() & 3;
-    if (si < 2 && si == sj) {
-      auto& m = si == 0 ? j_oo_ : j_cc_;
-      const int at = (si == 0 ? fill_o : fill_c)[zj]++;
-      m.innerIndexPtr()[at] = zi;
-      m.valuePtr()[at] = e.value();
-    } else if (si >= 2 && sj >= 2 && zi != zj) {
-      const int at = fill[zi]++;
-      up_col_[at] = 2 * zj + sj - 2;
-      up_row_[at] = static_cast<unsigned char>(si - 2);
-      up_val_[at] = e.value();
+  const std::size_t largest = std::max({static_cast<std::size_t>(col_o[n]), static_cast<std::size_t>(col_c[n]), 4 * static_cast<std::size_t>(n), ups});
+  const bool remember = largest < kSlotMask;  // else too large to encode: every Jacobian is taken apart in full
+  if (remember) slot_.resize(total);
+  std::size_t i = 0;
+  const bool placed = pieces([&](const Triplets& piece) {
+    if (i + piece.size() > total) return false;  // not the list of the first pass
+    for (const auto& e : piece) {
+      const int zi = e.row() >> 2, si = e.row() & 3, zj = e.col() >> 2, sj = e.col() & 3;
+      std::uint32_t part = 0, offset = 0;
+      if (si < 2 && sj < 2) {
+        if (si == sj) {
+          auto& m = si == 0 ? j_oo_ : j_cc_;
+          const int at = (si == 0 ? fill_o : fill_c)[zj]++;
+          m.innerIndexPtr()[at] = zi;
+          m.valuePtr()[at] = e.value();
+          part = si == 0 ? kOo : kCc, offset = static_cast<std::uint32_t>(at);  // renumbered after compression
+        } else {
+          part = si == 0 ? kX01 : kX10, offset = static_cast<std::uint32_t>(zi);
+        }
+      } else if (si < 2) {
+        part = kLg, offset = 4 * zi + 2 * si + sj - 2;
+      } else if (sj < 2) {
+        part = kGl, offset = 4 * zi + 2 * (si - 2) + sj;
+      } else if (zi == zj) {
+        part = kGg, offset = 4 * zi + 2 * (si - 2) + sj - 2;
+      } else {
+        const int at = fill[zi]++;
+        up_col_[at] = 2 * zj + sj - 2;
+        up_row_[at] = static_cast<unsigned char>(si - 2);
+        up_val_[at] = e.value();
+        part = kUp, offset = static_cast<std::uint32_t>(at);
+      }
+      if (remember) slot_[i] = part << kPartShift | offset;
+      ++i;
+    }
+    return true;
+  });
+  if (!placed || i != total) {
+    slot_.clear();
+    return false;
+  }
+  std::vector<int> moved_o, moved_c;
+  compress_columns(j_oo_, col_o, moved_o);
+  compress_columns(j_cc_, col_c, moved_c);
+  for (auto& s : slot_) {
+    const std::uint32_t part = s >> kPartShift;
+    if (part == kOo || part == kCc) s = part << kPartShift | static_cast<std::uint32_t>((part == kOo ? moved_o : moved_c)[s & kSlotMask]);
+  }
+  for (int k = 0; k < n; ++k) {
+    if (!invert(gg_[k], gg_[k])) {
+      slot_.clear();
+      return false;
     }
   }
-  compress_columns(j_oo_, col_o);
-  compress_columns(j_cc_, col_c);
-  for (int k = 0; k < n; ++k) {
-    if (!invert(gg_[k], gg_[k])) return false;
-  }
-  remember_slots(t, fill);
   have_jacobian_ = true;
   return true;
-}
-
-// Where each triplet of the last full accept() went, so that a Jacobian with the same pattern
-// (every Newton step of one problem) is taken apart by one scatter instead of sorting again. A
-// slot is the part (top three bits) and the position in it; 4 bytes per entry, no copy of the
-// pattern: the intake checks each entry against the parts' own structure instead.
-void ZoneBlockSolver::remember_slots(const Triplets& t, std::vector<int>& fill) {
-  slot_.clear();
-  const std::size_t largest = std::max({static_cast<std::size_t>(j_oo_.nonZeros()), static_cast<std::size_t>(j_cc_.nonZeros()),
-                                        4 * static_cast<std::size_t>(n_), up_val_.size()});
-  if (largest >= kSlotMask) return;  // too large to encode: every Jacobian is taken apart in full
-  std::copy(up_start_.begin(), up_start_.end() - 1, fill.begin());
-  slot_.resize(t.size());
-  for (size_t i = 0; i < t.size(); ++i) {
-    const auto& e = t[i];
-    const int zi = e.row() >> 2, si = e.row() & 3, zj = e.col() >> 2, sj = e.col() & 3;
-    std::uint32_t part = 0, offset = 0;
-    if (si < 2 && sj < 2) {
-      if (si == sj) {
-        auto& m = si == 0 ? j_oo_ : j_cc_;
-        part = si == 0 ? kOo : kCc;
-        offset = static_cast<std::uint32_t>(&m.coeffRef(zi, zj) - m.valuePtr());
-      } else {
-        part = si == 0 ? kX01 : kX10;
-        offset = static_cast<std::uint32_t>(zi);
-      }
-    } else if (si < 2) {
-      part = kLg, offset = 4 * zi + 2 * si + sj - 2;
-    } else if (sj < 2) {
-      part = kGl, offset = 4 * zi + 2 * (si - 2) + sj;
-    } else if (zi == zj) {
-      part = kGg, offset = 4 * zi + 2 * (si - 2) + sj - 2;
-    } else {
-      part = kUp, offset = static_cast<std::uint32_t>(fill[zi]++);  // the counting sort's order above
-    }
-    slot_[i] = part << kPartShift | offset;
-  }
 }
 
 bool ZoneBlockSolver::begin_same_pattern(const ZoneLayout& layout) {

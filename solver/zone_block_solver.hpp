@@ -22,6 +22,7 @@
 #include <Eigen/Sparse>
 #include <array>
 #include <cstdint>
+#include <functional>
 #include <vector>
 
 #include "scalar_lu.hpp"
@@ -40,6 +41,12 @@ class ZoneBlockSolver {
   //! Takes the Jacobian (triplets, duplicates summed) of a problem with this layout. False when
   //! the Jacobian does not have the structure above.
   bool accept(const ZoneLayout& layout, const Triplets& t);
+  //! The same from a Jacobian listed in pieces: pieces(take) calls take(piece) for each piece in
+  //! list order and returns false when the listing or a take fails. It is called twice (the whole
+  //! list is never held) and must give the same list both times.
+  using PieceTaker = std::function<bool(const Triplets&)>;
+  using PieceList = std::function<bool(const PieceTaker&)>;
+  bool accept(const ZoneLayout& layout, const PieceList& pieces);
   //! The same in pieces, for a Jacobian with the pattern of the last full accept(): begin, add
   //! the pieces in the order of that accept's list, finish. False (at any stage) when there is
   //! no remembered pattern or the pieces do not follow it; the caller then takes it in full.
@@ -49,6 +56,8 @@ class ZoneBlockSolver {
   //! Rebuilds the preconditioner's factorisations from the last accepted Jacobian.
   bool refresh_preconditioner();
   bool has_preconditioner() const { return factored_; }
+  //! The preconditioner is the multigrid one (a large network), not the exact LU.
+  bool multigrid() const { return multigrid_; }
   //! Solves J dx = b to |J dx - b|_2 <= rel_tol |b|_2. False when GMRES does not get there.
   bool solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, double rel_tol);
   int last_iterations() const { return last_iterations_; }
@@ -60,7 +69,6 @@ class ZoneBlockSolver {
 
  private:
   using Block = std::array<double, 4>;  // row-major 2 x 2
-  void remember_slots(const Triplets& t, std::vector<int>& fill);
   void gas_sweep(Eigen::VectorXd& g) const;                      // g <- J_gg^-1 g (length 2n)
   void apply_schur(const Eigen::VectorXd& v, Eigen::VectorXd& out);  // out = S v (length 2n)
   void precondition(const Eigen::VectorXd& v, Eigen::VectorXd& out);  // out ~ S^-1 v
@@ -74,7 +82,7 @@ class ZoneBlockSolver {
   std::vector<int> up_start_, up_col_;           // upstream gas entries, grouped by receiving zone
   std::vector<unsigned char> up_row_;            // receiving gas species (0, 1)
   std::vector<double> up_val_;
-  // Where each triplet of the last full accept() was added: part << kPartShift | position.
+  // Where each entry of the last full accept() was added: part << kPartShift | position.
   enum Part : std::uint32_t { kOo, kCc, kX01, kX10, kLg, kGl, kGg, kUp };
   static constexpr std::uint32_t kPartShift = 29, kSlotMask = (1u << kPartShift) - 1;
   std::vector<std::uint32_t> slot_;

@@ -251,6 +251,56 @@ TEST(ZoneBlockSolver, JacobianTakenInPiecesSolvesAsTakenWholeAndAChangedPatternI
   EXPECT_EQ((d_whole - d_pieces).cwiseAbs().maxCoeff(), 0.0);
 }
 
+TEST(ZoneBlockSolver, FirstIntakeFromPiecesEqualsTheWholeListAndRemembersItsSlots) {
+  const Balances bal(testing::gassed_vessel(5, 12));
+  const auto p = bal.problem();
+  const int n = bal.ch.net.size();
+  const ZoneLayout layout = p.zone_layout();
+  Eigen::VectorXd x2 = bal.f.state;
+  for (int i = 0; i < x2.size(); ++i) x2[i] *= 1.0 + 0.1 * std::sin(1.7 * i);
+  std::vector<Eigen::Triplet<double>> whole_list, t2;
+  p.jacobian(bal.f.state, whole_list);
+  p.jacobian(x2, t2);
+  Eigen::VectorXd b(p.size());
+  for (int i = 0; i < b.size(); ++i) b[i] = std::cos(0.3 * i);
+  int calls = 0;
+  const auto in_pieces = [&](const Eigen::VectorXd& x, int size) {
+    return [&, size](const ZoneBlockSolver::PieceTaker& take) {
+      ++calls;
+      for (int z = 0; z < n; z += size) {
+        std::vector<Eigen::Triplet<double>> piece;
+        if (!p.jacobian_zones(x, z, std::min(n, z + size), piece) || !take(piece)) return false;
+      }
+      return true;
+    };
+  };
+  ZoneBlockSolver whole, pieces;
+  ASSERT_TRUE(whole.accept(layout, whole_list));
+  ASSERT_TRUE(pieces.accept(layout, in_pieces(bal.f.state, 7)));
+  EXPECT_EQ(calls, 2);  // counted, then placed: the list is never held whole
+  Eigen::VectorXd d_whole, d_pieces;
+  ASSERT_TRUE(whole.refresh_preconditioner() && whole.solve(b, d_whole, 1e-10));
+  ASSERT_TRUE(pieces.refresh_preconditioner() && pieces.solve(b, d_pieces, 1e-10));
+  EXPECT_EQ((d_whole - d_pieces).cwiseAbs().maxCoeff(), 0.0);  // the same parts, so the same numbers
+  // The slots remembered on the way take the next Jacobian of the pattern by scatter, as after a
+  // whole-list intake.
+  ASSERT_TRUE(whole.accept(layout, t2));
+  ASSERT_TRUE(pieces.begin_same_pattern(layout));
+  ASSERT_TRUE(pieces.add_same_pattern(t2));
+  ASSERT_TRUE(pieces.finish_same_pattern());
+  ASSERT_TRUE(whole.refresh_preconditioner() && whole.solve(b, d_whole, 1e-10));
+  ASSERT_TRUE(pieces.refresh_preconditioner() && pieces.solve(b, d_pieces, 1e-10));
+  EXPECT_EQ((d_whole - d_pieces).cwiseAbs().maxCoeff(), 0.0);
+  // A listing that changes between its two calls (here: one entry fewer the second time) is refused.
+  int call = 0;
+  const ZoneBlockSolver::PieceList unstable = [&](const ZoneBlockSolver::PieceTaker& take) {
+    return ++call == 1 ? take(whole_list) : take({whole_list.begin(), whole_list.end() - 1});
+  };
+  ZoneBlockSolver refused;
+  EXPECT_FALSE(refused.accept(layout, unstable));
+  EXPECT_FALSE(refused.solve(b, d_pieces, 1e-10));
+}
+
 TEST(ZoneBlockSolver, RefusesGasAgainstTheOrderAndNewtonFallsBackToTheLu) {
   const Balances bal(testing::gassed_vessel(4, 10));
   const auto p = bal.problem();
