@@ -8,6 +8,7 @@
 
 #include "bench_cases.hpp"
 #include "gas_routing.hpp"
+#include "memory_policy.hpp"
 #include "hydrodynamics.hpp"
 #include "oxygen_field.hpp"
 #include "zone_network.hpp"
@@ -93,6 +94,7 @@ BENCHMARK(BM_SteadySolve)
 
 // `--huge` adds one solve of a million zones (minutes and gigabytes: asked for explicitly).
 int main(int argc, char** argv) {
+  oxystrat::retain_freed_memory();  // as the command does
   std::vector<char*> args;
   bool huge = false;
   for (int i = 0; i < argc; ++i) {

@@ -26,6 +26,7 @@
 #include "h5_read.hpp"
 #include "h5_writer.hpp"
 #include "hydrodynamics.hpp"
+#include "memory_policy.hpp"
 #include "oxygen_field.hpp"
 #include "peer_problem.hpp"
 #include "transport.hpp"
@@ -133,6 +134,7 @@ int run(int argc, char** argv) {
 }  // namespace
 
 int main(int argc, char** argv) {
+  oxystrat::retain_freed_memory();  // as the command does
   try {
     return run(argc, argv);
   } catch (const std::exception& e) {

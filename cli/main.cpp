@@ -5,6 +5,7 @@
 #include <exception>
 
 #include "common.hpp"
+#include "memory_policy.hpp"
 #include "ranks.hpp"
 
 #ifndef OXYSTRAT_VERSION
@@ -42,6 +43,7 @@ int run(int argc, char** argv) {
 }  // namespace
 
 int main(int argc, char** argv) {
+  oxystrat::retain_freed_memory();
   oxystrat::cli::start_ranks(&argc, &argv);
   const int code = run(argc, argv);
   oxystrat::cli::stop_ranks();

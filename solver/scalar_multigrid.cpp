@@ -247,9 +247,15 @@ bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vec
       sort_rows(b);
       std::vector<double> lu = b.val;
       if (!ilu0(b.start, b.col, lu, lev.diag_pos)) return false;
-      lev.lu.assign(lu.begin(), lu.end());
+      // U's rows are kept divided by their diagonal, so that the backward sweep's chain from
+      // row to row is one multiply and one subtraction (see ilu_solve).
       lev.inv_diag.resize(b.n);
-      for (int i = 0; i < b.n; ++i) lev.inv_diag[i] = static_cast<float>(1.0 / lu[lev.diag_pos[i]]);
+      for (int i = 0; i < b.n; ++i) {
+        const double d = 1.0 / lu[lev.diag_pos[i]];
+        lev.inv_diag[i] = static_cast<float>(d);
+        for (int e = lev.diag_pos[i] + 1; e < b.start[i + 1]; ++e) lu[e] *= d;
+      }
+      lev.lu.assign(lu.begin(), lu.end());
     }
     // Operators and factors are computed in double and kept in single precision: a preconditioner
     // needs no more, and the cycle then streams 8 instead of 12 bytes per entry (on networks too
@@ -270,10 +276,15 @@ long ScalarMultigrid::nonzeros() const {
 }
 
 void ScalarMultigrid::multiply(const Level& lev, const std::vector<double>& in, std::vector<double>& out) {
+  const int* __restrict start = lev.start.data();
+  const int* __restrict col = lev.col.data();
+  const float* __restrict val = lev.val.data();
+  const double* __restrict x = in.data();
+  double* __restrict y = out.data();
   for (int i = 0; i < lev.n; ++i) {
     double s = 0.0;
-    for (int e = lev.start[i]; e < lev.start[i + 1]; ++e) s += lev.val[e] * in[lev.col[e]];
-    out[i] = s;
+    for (int e = start[i]; e < start[i + 1]; ++e) s += val[e] * x[col[e]];
+    y[i] = s;
   }
 }
 
@@ -283,18 +294,29 @@ void ScalarMultigrid::ilu_solve(const Level& lev, std::vector<double>& r) {
   const float* lu = lev.lu.data();
   const float* inv_diag = lev.inv_diag.data();
   const int* dp = lev.diag_pos.data();
+  double* x = r.data();
+  // Each sweep is a chain from row to row through the neighbour just finished (column i - 1
+  // forward, i + 1 backward; rows are sorted by column, so it is the entry next to the
+  // diagonal). That neighbour is taken from a register, not from memory, and subtracted last, so
+  // that the chain is one multiply and one subtraction per row; the other terms are ready
+  // before it arrives. (A row without that neighbour subtracts zero times it.)
+  double last = 0.0;
   for (int i = 0; i < lev.n; ++i) {
-    double s = r[i];
-    for (int e = start[i]; e < dp[i]; ++e) s -= lu[e] * r[col[e]];
-    r[i] = s;
+    const int near = dp[i] - 1;
+    const bool chained = near >= start[i] && col[near] == i - 1;
+    double s = x[i];
+    for (int e = start[i], end = chained ? near : dp[i]; e < end; ++e) s -= lu[e] * x[col[e]];
+    s -= (chained ? lu[near] : 0.0f) * last;
+    x[i] = last = s;
   }
-  // Each sweep adds the nearest unknown, just finished, last: rows are sorted by column, so the
-  // forward sweep runs up to column i - 1 and the backward one down to i + 1. The sum over the
-  // others is then ready when it arrives, and the chain from row to row is one multiply-add long.
+  last = 0.0;
   for (int i = lev.n - 1; i >= 0; --i) {
-    double s = r[i];
-    for (int e = start[i + 1] - 1; e > dp[i]; --e) s -= lu[e] * r[col[e]];
-    r[i] = s * inv_diag[i];
+    const int near = dp[i] + 1;
+    const bool chained = near < start[i + 1] && col[near] == i + 1;
+    double s = x[i] * inv_diag[i];  // U's rows are stored divided by the diagonal
+    for (int e = start[i + 1] - 1, end = chained ? near : dp[i]; e > end; --e) s -= lu[e] * x[col[e]];
+    s -= (chained ? lu[near] : 0.0f) * last;
+    x[i] = last = s;
   }
 }
 

@@ -60,6 +60,7 @@ void compress_columns(Eigen::SparseMatrix<double>& m, const std::vector<int>& st
 }  // namespace
 
 int ZoneBlockSolver::multigrid_from = 3000;
+int ZoneBlockSolver::parallel_from = 200000;
 
 bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   have_jacobian_ = false;
@@ -406,6 +407,67 @@ void ZoneBlockSolver::precondition(const Eigen::VectorXd& v, Eigen::VectorXd& ou
   }
 }
 
+namespace {
+// Sum of a[k] b[k] with eight partial sums, so that the additions do not wait for each other
+// (one running sum is a chain of dependent additions); a fixed order, so the same bits each time.
+template <typename T>
+double chunk_dot(const double* a, const T* b, int n) {
+  double acc[8] = {0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0};
+  int k = 0;
+  for (; k + 8 <= n; k += 8) {
+    for (int u = 0; u < 8; ++u) acc[u] += a[k + u] * b[k + u];
+  }
+  for (; k < n; ++k) acc[k % 8] += a[k] * b[k];
+  return ((acc[0] + acc[1]) + (acc[2] + acc[3])) + ((acc[4] + acc[5]) + (acc[6] + acc[7]));
+}
+}  // namespace
+
+// Classical Gram-Schmidt twice ("twice is enough": Giraud, Langou & Rozloznik 2005 [mem]) in
+// chunks: each pass reads the basis once with the chunk of w held in cache, where modified
+// Gram-Schmidt streams w once per basis vector; the chunks go to the threads, and their partial
+// sums are added in chunk order (the same bits for any thread count).
+double ZoneBlockSolver::orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<Eigen::VectorXd> h) {
+  constexpr int kChunk = 4096;
+  const int m = static_cast<int>(w.size());
+  const int chunks = (m + kChunk - 1) / kChunk;
+  partial_.resize(static_cast<size_t>(chunks) * count);
+  double* wp = w.data();
+  std::vector<double> d(count, 0.0);  // projections still to subtract
+  const auto chunk_sum = [&](int i) {
+    double sum = 0.0;
+    for (int c = 0; c < chunks; ++c) sum += partial_[static_cast<size_t>(c) * count + i];
+    return sum;
+  };
+  // One sweep over the chunks: subtract d (if asked), then either project on the basis or
+  // measure |w|^2 (partial sums in partial_).
+  const auto sweep = [&](bool subtract, bool measure) {
+#pragma omp parallel for schedule(static) if (m >= parallel_from)
+    for (int c = 0; c < chunks; ++c) {
+      const int b = c * kChunk, e = std::min(m, b + kChunk);
+      double* out = partial_.data() + static_cast<size_t>(c) * count;
+      if (subtract) {
+        for (int i = 0; i < count; ++i) {
+          const float* v = basis_[i].data();
+          const double di = d[i];
+          for (int k = b; k < e; ++k) wp[k] -= di * v[k];
+        }
+      }
+      if (measure) {
+        out[0] = chunk_dot(wp + b, wp + b, e - b);
+      } else {
+        for (int i = 0; i < count; ++i) out[i] = chunk_dot(wp + b, basis_[i].data() + b, e - b);
+      }
+    }
+  };
+  h.head(count).setZero();
+  for (int pass = 0; pass < 2; ++pass) {
+    sweep(pass > 0, false);
+    for (int i = 0; i < count; ++i) h[i] += (d[i] = chunk_sum(i));
+  }
+  sweep(true, true);
+  return std::sqrt(chunk_sum(0));
+}
+
 bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, double rel_tol) {
   last_iterations_ = 0;
   if (!have_jacobian_ || !factored_) return false;
@@ -456,11 +518,7 @@ bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, doubl
       z_basis_[j] = w.cast<float>();
       r = z_basis_[j].cast<double>();
       apply_schur(r, w);
-      for (int i = 0; i <= j; ++i) {
-        h(i, j) = w.dot(basis_[i].cast<double>());
-        w -= h(i, j) * basis_[i].cast<double>();
-      }
-      const double next = w.norm();
+      const double next = orthogonalise(w, j + 1, h.col(j));
       h(j + 1, j) = next;
       if (next > 0.0) basis_[j + 1] = (w / next).cast<float>();
       for (int i = 0; i < j; ++i) {

@@ -66,12 +66,17 @@ class ZoneBlockSolver {
   //! (ScalarMultigrid, O(N) cost and memory) instead of the exact ScalarLu, whose fill grows
   //! faster than N (measured crossover: bench/notes.md). Benchmarks and tests may set it.
   static int multigrid_from;
+  //! From this many liquid unknowns on, the Krylov basis sweeps are split over the threads (in
+  //! fixed chunks summed in order: the same bits for any thread count). Tests may set it.
+  static int parallel_from;
 
  private:
   using Block = std::array<double, 4>;  // row-major 2 x 2
   void gas_sweep(Eigen::VectorXd& g) const;                      // g <- J_gg^-1 g (length 2n)
   void apply_schur(const Eigen::VectorXd& v, Eigen::VectorXd& out);  // out = S v (length 2n)
   void precondition(const Eigen::VectorXd& v, Eigen::VectorXd& out);  // out ~ S^-1 v
+  // w <- w minus its projections on basis_[0, count), which go to h[0, count); returns |w|.
+  double orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<Eigen::VectorXd> h);
 
   int n_ = 0;
   std::vector<int> order_;
@@ -99,6 +104,7 @@ class ZoneBlockSolver {
   Eigen::VectorXd t_gas_, s_o_, s_c_, jo_, jc_;
   Eigen::VectorXd rhs_, y_, r_, w_;               // GMRES vectors, kept to spare a large network reallocations
   std::vector<Eigen::VectorXf> basis_, z_basis_;  // Krylov basis and its preconditioned images, rounded
+  std::vector<double> partial_;                   // per-chunk sums of the orthogonalisation
 };
 
 }  // namespace oxystrat

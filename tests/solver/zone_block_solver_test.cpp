@@ -6,6 +6,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <omp.h>
 
 #include "case_fixtures.hpp"
 #include "oxygen_field.hpp"
@@ -299,6 +300,33 @@ TEST(ZoneBlockSolver, FirstIntakeFromPiecesEqualsTheWholeListAndRemembersItsSlot
   ZoneBlockSolver refused;
   EXPECT_FALSE(refused.accept(layout, unstable));
   EXPECT_FALSE(refused.solve(b, d_pieces, 1e-10));
+}
+
+TEST(ZoneBlockSolver, ThreadedKrylovSweepsGiveTheSameBitsForAnyThreadCount) {
+  const Balances bal(testing::gassed_vessel(6, 14));
+  const auto p = bal.problem();
+  std::vector<Eigen::Triplet<double>> t;
+  p.jacobian(bal.f.state, t);
+  Eigen::VectorXd b(p.size());
+  for (int i = 0; i < b.size(); ++i) b[i] = std::cos(0.3 * i);
+  const int saved_from = ZoneBlockSolver::parallel_from, saved_mg = ZoneBlockSolver::multigrid_from;
+  const int saved_threads = omp_get_max_threads();
+  ZoneBlockSolver::multigrid_from = 1;  // the large-network path (sections and sweeps) on a small one
+  auto solve_with = [&](int parallel_from, int threads) {
+    ZoneBlockSolver::parallel_from = parallel_from;
+    omp_set_num_threads(threads);
+    ZoneBlockSolver s;
+    Eigen::VectorXd dx;
+    EXPECT_TRUE(s.accept(p.zone_layout(), t) && s.refresh_preconditioner() && s.solve(b, dx, 1e-10));
+    return dx;
+  };
+  const Eigen::VectorXd serial = solve_with(1 << 30, 1), one = solve_with(1, 1), two = solve_with(1, 2);
+  ZoneBlockSolver::parallel_from = saved_from;
+  ZoneBlockSolver::multigrid_from = saved_mg;
+  omp_set_num_threads(saved_threads);
+  ASSERT_EQ(serial.size(), p.size());
+  EXPECT_EQ((serial - one).cwiseAbs().maxCoeff(), 0.0);
+  EXPECT_EQ((serial - two).cwiseAbs().maxCoeff(), 0.0);
 }
 
 TEST(ZoneBlockSolver, RefusesGasAgainstTheOrderAndNewtonFallsBackToTheLu) {
