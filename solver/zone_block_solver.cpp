@@ -430,6 +430,14 @@ double ZoneBlockSolver::orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<
   constexpr int kChunk = 4096;
   const int m = static_cast<int>(w.size());
   const int chunks = (m + kChunk - 1) / kChunk;
+  if (chunks == 1) {
+    // A vector of one chunk stays in cache anyway: modified Gram-Schmidt, half the arithmetic.
+    for (int i = 0; i < count; ++i) {
+      h[i] = w.dot(basis_[i].cast<double>());
+      w -= h[i] * basis_[i].cast<double>();
+    }
+    return w.norm();
+  }
   partial_.resize(static_cast<size_t>(chunks) * count);
   double* wp = w.data();
   std::vector<double> d(count, 0.0);  // projections still to subtract

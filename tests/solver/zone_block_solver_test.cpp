@@ -303,7 +303,8 @@ TEST(ZoneBlockSolver, FirstIntakeFromPiecesEqualsTheWholeListAndRemembersItsSlot
 }
 
 TEST(ZoneBlockSolver, ThreadedKrylovSweepsGiveTheSameBitsForAnyThreadCount) {
-  const Balances bal(testing::gassed_vessel(6, 14));
+  // 3000 zones: 6000 liquid unknowns, two chunks of the orthogonalisation's sweeps.
+  const Balances bal(testing::gassed_vessel(30, 100));
   const auto p = bal.problem();
   std::vector<Eigen::Triplet<double>> t;
   p.jacobian(bal.f.state, t);
