@@ -288,12 +288,33 @@ void ScalarMultigrid::multiply(const Level& lev, const std::vector<double>& in, 
   }
 }
 
-void ScalarMultigrid::ilu_solve(const Level& lev, std::vector<double>& r) {
+// The residual b - B x row by row: into r, or (restrict) straight into the coarse right-hand side
+// (r then not written). One pass over the operator, none over r.
+void ScalarMultigrid::residual(const Level& lev, const std::vector<double>& b, const std::vector<double>& x,
+                               std::vector<double>& r, std::vector<double>* coarse) {
+  const int* __restrict start = lev.start.data();
+  const int* __restrict col = lev.col.data();
+  const float* __restrict val = lev.val.data();
+  const double* __restrict xp = x.data();
+  for (int i = 0; i < lev.n; ++i) {
+    double s = 0.0;
+    for (int e = start[i]; e < start[i + 1]; ++e) s += val[e] * xp[col[e]];
+    if (coarse == nullptr) {
+      r[i] = b[i] - s;
+    } else if (lev.aggregate[i] >= 0) {
+      (*coarse)[lev.aggregate[i]] += b[i] - s;
+    }
+  }
+}
+
+// r = (LU)^-1 in (in may be r itself); with add_to, also add_to += r in the same sweep.
+void ScalarMultigrid::ilu_solve(const Level& lev, const std::vector<double>& in, std::vector<double>& r, std::vector<double>* add_to) {
   const int* start = lev.start.data();
   const int* col = lev.col.data();
   const float* lu = lev.lu.data();
   const float* inv_diag = lev.inv_diag.data();
   const int* dp = lev.diag_pos.data();
+  const double* b = in.data();
   double* x = r.data();
   // Each sweep is a chain from row to row through the neighbour just finished (column i - 1
   // forward, i + 1 backward; rows are sorted by column, so it is the entry next to the
@@ -304,12 +325,13 @@ void ScalarMultigrid::ilu_solve(const Level& lev, std::vector<double>& r) {
   for (int i = 0; i < lev.n; ++i) {
     const int near = dp[i] - 1;
     const bool chained = near >= start[i] && col[near] == i - 1;
-    double s = x[i];
+    double s = b[i];
     for (int e = start[i], end = chained ? near : dp[i]; e < end; ++e) s -= lu[e] * x[col[e]];
     s -= (chained ? lu[near] : 0.0f) * last;
     x[i] = last = s;
   }
   last = 0.0;
+  double* sum = add_to != nullptr ? add_to->data() : nullptr;
   for (int i = lev.n - 1; i >= 0; --i) {
     const int near = dp[i] + 1;
     const bool chained = near < start[i + 1] && col[near] == i + 1;
@@ -317,6 +339,7 @@ void ScalarMultigrid::ilu_solve(const Level& lev, std::vector<double>& r) {
     for (int e = start[i + 1] - 1, end = chained ? near : dp[i]; e > end; --e) s -= lu[e] * x[col[e]];
     s -= (chained ? lu[near] : 0.0f) * last;
     x[i] = last = s;
+    if (sum != nullptr) sum[i] += s;
   }
 }
 
@@ -332,17 +355,12 @@ void ScalarMultigrid::cycle(int l) const {
     for (int i = 0; i < n; ++i) x[i] = coarse_scratch_[i];
     return;
   }
-  // Pre-smoothing from zero: x = (LU)^-1 b.
-  x = b;
-  ilu_solve(lev, x);
-  // Restricted residual.
+  // Pre-smoothing from zero: x = (LU)^-1 b; its residual restricted to the next level.
+  ilu_solve(lev, b, x, nullptr);
   const Level& next = levels_[l + 1];
   const int nc = next.n;
-  multiply(lev, x, r);
   std::fill(next.b.begin(), next.b.end(), 0.0);
-  for (int i = 0; i < n; ++i) {
-    if (lev.aggregate[i] >= 0) next.b[lev.aggregate[i]] += b[i] - r[i];
-  }
+  residual(lev, b, x, r, &next.b);
   if (l + 2 == static_cast<int>(levels_.size())) {
     cycle(l + 1);  // exact
   } else {
@@ -371,10 +389,8 @@ void ScalarMultigrid::cycle(int l) const {
   for (int i = 0; i < n; ++i) {
     if (lev.aggregate[i] >= 0) x[i] += next.x[lev.aggregate[i]];
   }
-  multiply(lev, x, r);
-  for (int i = 0; i < n; ++i) r[i] = b[i] - r[i];
-  ilu_solve(lev, r);
-  for (int i = 0; i < n; ++i) x[i] += r[i];
+  residual(lev, b, x, r, nullptr);
+  ilu_solve(lev, r, r, &x);
 }
 
 void ScalarMultigrid::solve(Eigen::VectorXd& x) const {

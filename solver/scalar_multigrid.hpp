@@ -49,7 +49,9 @@ class ScalarMultigrid {
   };
   void cycle(int l) const;
   static void multiply(const Level& lev, const std::vector<double>& in, std::vector<double>& out);
-  static void ilu_solve(const Level& lev, std::vector<double>& r);
+  static void residual(const Level& lev, const std::vector<double>& b, const std::vector<double>& x, std::vector<double>& r,
+                       std::vector<double>* coarse);
+  static void ilu_solve(const Level& lev, const std::vector<double>& in, std::vector<double>& r, std::vector<double>* add_to);
 
   std::vector<Level> levels_;
   ScalarLu coarsest_;
