@@ -73,8 +73,9 @@ class ZoneBlockSolver {
  private:
   using Block = std::array<double, 4>;  // row-major 2 x 2
   void gas_sweep(Eigen::VectorXd& g) const;                      // g <- J_gg^-1 g (length 2n)
-  void apply_schur(const Eigen::VectorXd& v, Eigen::VectorXd& out);  // out = S v (length 2n)
-  void precondition(const Eigen::VectorXd& v, Eigen::VectorXd& out);  // out ~ S^-1 v
+  template <typename V>
+  void apply_schur(const V& v, Eigen::VectorXd& out);                 // out = S v (length 2n)
+  void precondition(const Eigen::VectorXf& v, Eigen::VectorXf& out);  // out ~ S^-1 v, rounded
   // w <- w minus its projections on basis_[0, count), which go to h[0, count); returns |w|.
   double orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<Eigen::VectorXd> h);
 
