@@ -113,7 +113,12 @@ def main():
                         for bb in benchmarks(out, "scaling")]
     huge = benchmarks(out, "huge")
     if huge:
-        hb = huge[0]
+        # Repeated runs (bench/run --huge asks for three): the median is the figure. On a virtual
+        # machine the first touch of fresh memory costs what the host makes it cost, which varies
+        # by seconds between runs minutes apart; the spread is shown beside the median.
+        ordered = sorted(huge, key=seconds)
+        hb = ordered[len(ordered) // 2]
+        runs = "" if len(ordered) < 2 else f" (median of {len(ordered)} runs: " + ", ".join(f"{seconds(b):.3g}" for b in ordered) + " s)"
         peak, peak_gib = "", None
         tv = os.path.join(out, "huge.time")
         if os.path.exists(tv):
@@ -122,7 +127,7 @@ def main():
                 peak_gib = int(m.group(1)) / 1048576
                 peak = f", peak memory {peak_gib:.1f} GiB"
         ok = seconds(hb) < 10 and peak_gib is not None and peak_gib * 1.073741824 < 2  # GiB -> GB
-        rows.append((f"steady solve, {hb['zones']:.3g} zones", f"{seconds(hb):.4g} s{peak}", "< 10 s and < 2 GB peak",
+        rows.append((f"steady solve, {hb['zones']:.3g} zones{runs}", f"{seconds(hb):.4g} s{peak}", "< 10 s and < 2 GB peak",
                      verdict(ok), "bench_steady --huge --benchmark_filter=BM_SteadySolveHuge"))
     elif os.path.exists(os.path.join(out, "huge.failed")):
         why = open(os.path.join(out, "huge.failed")).read()
