@@ -505,7 +505,8 @@ bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, doubl
     rhs[2 * k] = b[4 * k] - (q[0] * g[2 * k] + q[1] * g[2 * k + 1]);
     rhs[2 * k + 1] = b[4 * k + 1] - (q[2] * g[2 * k] + q[3] * g[2 * k + 1]);
   }
-  // Restarted, right-preconditioned GMRES on S y = rhs (modified Gram-Schmidt, Givens rotations).
+  // Restarted, right-preconditioned GMRES on S y = rhs (Gram-Schmidt as in orthogonalise(),
+  // Givens rotations).
   // Right preconditioning keeps the residual GMRES minimises the true one, which is the whole
   // Newton system's: the gas rows are solved exactly. Flexible form (Saad 1993): the
   // preconditioned vectors are kept, so the preconditioner may vary from one iteration to the
