@@ -275,30 +275,29 @@ long ScalarMultigrid::nonzeros() const {
   return total;
 }
 
+namespace {
+// Row i of a level's operator (compressed rows) times x.
+inline double row_product(const int* start, const int* col, const float* val, const double* x, int i) {
+  double s = 0.0;
+  for (int e = start[i]; e < start[i + 1]; ++e) s += val[e] * x[col[e]];
+  return s;
+}
+}  // namespace
+
 void ScalarMultigrid::multiply(const Level& lev, const std::vector<double>& in, std::vector<double>& out) {
-  const int* __restrict start = lev.start.data();
-  const int* __restrict col = lev.col.data();
-  const float* __restrict val = lev.val.data();
-  const double* __restrict x = in.data();
-  double* __restrict y = out.data();
-  for (int i = 0; i < lev.n; ++i) {
-    double s = 0.0;
-    for (int e = start[i]; e < start[i + 1]; ++e) s += val[e] * x[col[e]];
-    y[i] = s;
-  }
+  const int *start = lev.start.data(), *col = lev.col.data();
+  const float* val = lev.val.data();
+  for (int i = 0; i < lev.n; ++i) out[i] = row_product(start, col, val, in.data(), i);
 }
 
 // The residual b - B x row by row: into r, or (restrict) straight into the coarse right-hand side
 // (r then not written). One pass over the operator, none over r.
 void ScalarMultigrid::residual(const Level& lev, const std::vector<double>& b, const std::vector<double>& x,
                                std::vector<double>& r, std::vector<double>* coarse) {
-  const int* __restrict start = lev.start.data();
-  const int* __restrict col = lev.col.data();
-  const float* __restrict val = lev.val.data();
-  const double* __restrict xp = x.data();
+  const int *start = lev.start.data(), *col = lev.col.data();
+  const float* val = lev.val.data();
   for (int i = 0; i < lev.n; ++i) {
-    double s = 0.0;
-    for (int e = start[i]; e < start[i + 1]; ++e) s += val[e] * xp[col[e]];
+    const double s = row_product(start, col, val, x.data(), i);
     if (coarse == nullptr) {
       r[i] = b[i] - s;
     } else if (lev.aggregate[i] >= 0) {

@@ -91,6 +91,8 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
     // are. A numeric-only refactorisation costs about ten Krylov iterations, so refactor early
     // (measured at 494/1972 zones: more than 6 iterations -> 51/53 Krylov iterations per field
     // and 2.7/13.7 ms; more than 12 -> 79/95 and 3.1/16.9 ms; every step -> 49/50 and 3.0/15.4 ms).
+    // A multigrid hierarchy is approximate anyway: at 1e6 zones a fresh one left the count at 14
+    // and cost ~0.5 s, so it is rebuilt only after more than 25.
     if (!fresh && blocks.last_iterations() > (blocks.multigrid() ? 25 : 6)) ws.refresh_blocks = true;
     double lambda = 1.0, m_try = m;
     for (int k = 0; k < 40; ++k, lambda *= 0.5) {

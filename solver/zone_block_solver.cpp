@@ -57,6 +57,19 @@ void compress_columns(Eigen::SparseMatrix<double>& m, const std::vector<int>& st
   m.resizeNonZeros(out);
 }
 
+// Sum of a[k] b[k] with eight partial sums, so that the additions do not wait for each other
+// (one running sum is a chain of dependent additions); a fixed order, so the same bits each time.
+template <typename T>
+double chunk_dot(const double* a, const T* b, int n) {
+  double acc[8] = {0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0};
+  int k = 0;
+  for (; k + 8 <= n; k += 8) {
+    for (int u = 0; u < 8; ++u) acc[u] += a[k + u] * b[k + u];
+  }
+  for (; k < n; ++k) acc[k % 8] += a[k] * b[k];
+  return ((acc[0] + acc[1]) + (acc[2] + acc[3])) + ((acc[4] + acc[5]) + (acc[6] + acc[7]));
+}
+
 }  // namespace
 
 int ZoneBlockSolver::multigrid_from = 3000;
@@ -419,21 +432,6 @@ void ZoneBlockSolver::precondition(const Eigen::VectorXf& v, Eigen::VectorXf& ou
     out[2 * k + 1] = static_cast<float>(s_c_[k]);
   }
 }
-
-namespace {
-// Sum of a[k] b[k] with eight partial sums, so that the additions do not wait for each other
-// (one running sum is a chain of dependent additions); a fixed order, so the same bits each time.
-template <typename T>
-double chunk_dot(const double* a, const T* b, int n) {
-  double acc[8] = {0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0};
-  int k = 0;
-  for (; k + 8 <= n; k += 8) {
-    for (int u = 0; u < 8; ++u) acc[u] += a[k + u] * b[k + u];
-  }
-  for (; k < n; ++k) acc[k % 8] += a[k] * b[k];
-  return ((acc[0] + acc[1]) + (acc[2] + acc[3])) + ((acc[4] + acc[5]) + (acc[6] + acc[7]));
-}
-}  // namespace
 
 // Classical Gram-Schmidt twice ("twice is enough": Giraud, Langou & Rozloznik 2005 [mem]) in
 // chunks: each pass reads the basis once with the chunk of w held in cache, where modified
