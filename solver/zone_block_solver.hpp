@@ -66,8 +66,9 @@ class ZoneBlockSolver {
   //! (ScalarMultigrid, O(N) cost and memory) instead of the exact ScalarLu, whose fill grows
   //! faster than N (measured crossover: bench/notes.md). Benchmarks and tests may set it.
   static int multigrid_from;
-  //! From this many liquid unknowns on, the Krylov basis sweeps are split over the threads (in
-  //! fixed chunks summed in order: the same bits for any thread count). Tests may set it.
+  //! From this many liquid unknowns on, the Krylov basis sweeps (in fixed chunks summed in order)
+  //! and the zone loops of the Schur product and the preconditioner are split over the threads:
+  //! the same bits for any thread count. Tests may set it.
   static int parallel_from;
 
  private:
