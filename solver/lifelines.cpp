@@ -51,26 +51,23 @@ Histogram fixed_bin_histogram(const long* counts) {
   return h;
 }
 
-// ---- the chain, packed for the hot loop ----
-// A move uses one 64-bit draw r: bits 24-63 go to the ziggurat (the dwell), bits 0 .. b-1 pick
-// one of the 2^b alias columns of the zone, and bits b .. 23 are the top bits of the column's
-// 64-bit coin. Only when they equal the top bits of the column's
-// threshold (probability 2^-(24-b)) does the comparison need the coin's other bits: a further draw.
-// So the pick is exact to 2^-64, like a comparison of two 64-bit uniforms.
+// ---- the chain ----
+// A move uses one 64-bit draw r: bits 24-63 go to the ziggurat (the dwell), bits 16 .. 16+b-1
+// pick one of the 2^b alias columns of the zone, and bits 0-15 are the top bits of the column's
+// 64-bit coin. Only when they equal the top bits of the column's threshold (probability 2^-16)
+// does the comparison need the coin's other bits: a further draw. So the pick is exact to 2^-64,
+// like a comparison of two 64-bit uniforms.
 // Zones: [0] the alias, [1] the column's own outcome, each with kChangeBit set when entering it
 // changes the key (so the common move reads no key). The full threshold of slot s is
 // Chain::threshold[s].
 constexpr std::uint32_t kChangeBit = 1u << 31;
 struct Slot {
   std::uint32_t to[2];
-  std::uint32_t top;  // threshold >> (64 - coin bits)
 };
 
 struct Chain {
   int zones = 0;
   int log_columns = 0;
-  std::uint32_t column_mask = 0;
-  int coin_bits = 0;                 // 24 - log_columns
   std::vector<Slot> slots;           // zones << log_columns
   std::vector<std::uint64_t> threshold;
   std::vector<double> mean_dwell;    // V / outflow [s]; +inf without outflow
@@ -113,8 +110,6 @@ Chain build_chain(const ZoneNetwork& net, const Hydrodynamics& h, const std::vec
   }
   c.log_columns = std::bit_width(std::bit_ceil(degree)) - 1;
   const int columns = 1 << c.log_columns;
-  c.column_mask = static_cast<std::uint32_t>(columns - 1);
-  c.coin_bits = 24 - c.log_columns;
   c.slots.resize(static_cast<size_t>(n) << c.log_columns);
   c.threshold.resize(c.slots.size());
   c.mean_dwell.resize(n);
@@ -136,7 +131,7 @@ Chain build_chain(const ZoneNetwork& net, const Hydrodynamics& h, const std::vec
     const AliasTable t(w, columns);
     for (int j = 0; j < columns; ++j) {
       c.threshold[row + j] = t.threshold[j];
-      c.slots[row + j] = {{target(t.alias[j]), target(t.own[j])}, static_cast<std::uint32_t>(t.threshold[j] >> (64 - c.coin_bits))};
+      c.slots[row + j] = {{target(t.alias[j]), target(t.own[j])}};
     }
   }
   c.start_cdf.resize(n);
@@ -176,8 +171,7 @@ struct Tally {
       : zone(zones), transitions(static_cast<size_t>(regimes) * regimes), stay_sum(regimes), return_sum(regimes),
         stay_count(regimes), return_count(regimes), stay_bins(static_cast<size_t>(regimes) * kBins),
         return_bins(static_cast<size_t>(regimes) * kBins) {}
-  void clear() {
-    std::fill(zone.begin(), zone.end(), ZoneTally{});
+  void clear() {  // not the zone sums: a block's are copied in whole from the zone records
     for (auto* v : {&transitions, &stay_count, &return_count, &stay_bins, &return_bins}) std::fill(v->begin(), v->end(), 0);
     std::fill(stay_sum.begin(), stay_sum.end(), 0.0);
     std::fill(return_sum.begin(), return_sum.end(), 0.0);
@@ -209,17 +203,66 @@ struct CellState {
   FieldEvents* events = nullptr;   // per field, this cell's lists
 };
 
+// The chain as the hot loop reads it: one record per zone, a cache line for the (r, z) grid's four
+// columns, holding everything a move out of the zone needs (its dwell, its alias columns) and this
+// thread's sums for the zone, so that a move touches one line. Zones are named by the byte offset
+// of their record (no multiply in the loop); each thread has its own copy of the records.
+template <int LogColumns>
+struct alignas(64) ZoneRecord {
+  static constexpr int kColumns = 1 << LogColumns;
+  Pair sum{0.0, 0.0};     // {time [s], completed visits} of this thread's block
+  double mean_s = 0.0;    // mean dwell V / outflow [s]; +inf without outflow
+  std::uint32_t to[2][kColumns]{};  // per column: [0] alias, [1] own, as record offsets | kChangeBit
+  std::uint16_t top[kColumns]{};    // the column's threshold >> 48: the own zone when the coin is below
+};
+
+template <int LogColumns>
+std::vector<ZoneRecord<LogColumns>> zone_records(const Chain& c) {
+  using Record = ZoneRecord<LogColumns>;
+  if (static_cast<std::uint64_t>(c.zones) * sizeof(Record) >= kChangeBit) throw std::invalid_argument("lifelines: too many zones");
+  auto offset = [](std::uint32_t to) {
+    return static_cast<std::uint32_t>((to & ~kChangeBit) * sizeof(Record)) | (to & kChangeBit);
+  };
+  std::vector<Record> r(c.zones);
+  for (int k = 0; k < c.zones; ++k) {
+    r[k].mean_s = c.mean_dwell[k];
+    for (int j = 0; j < Record::kColumns; ++j) {
+      const size_t s = (static_cast<size_t>(k) << LogColumns) + j;
+      r[k].to[0][j] = offset(c.slots[s].to[0]);
+      r[k].to[1][j] = offset(c.slots[s].to[1]);
+      r[k].top[j] = static_cast<std::uint16_t>(c.threshold[s] >> 48);
+    }
+  }
+  return r;
+}
+
 // A cell being followed: what the hot loop reads and writes on every move (the rest of a cell's
 // state, read at key changes and the end, is in its CellState and its Lane).
+struct Entry;
 struct Walker {
   CellRandom::Words rng{1, 0};
   double t = 0.0;
-  std::uint32_t zone = 0;
+  std::uint32_t zone = 0;  // the byte offset of its record
+  Entry* end = nullptr;    // where the next entry into a zone with another key is written
 };
 
-// What a lane knows of its cell apart from the walker: touched only at key changes and the end.
-struct Lane {
-  std::uint32_t key = 0;  // of the walker's zone
+// An entry into a zone with another key. Moves write one every time, without a branch, and keep
+// it only when the key changes (the pointer advances by the change bit): a branch there would be
+// mispredicted on most of the 7 % of moves that change key, each miss discarding the work of all
+// the lanes in flight. The log is booked when it is full and when the cell ends.
+struct Entry {
+  double t;
+  std::uint32_t zone;  // record offset
+};
+constexpr int kLogEntries = 128;
+// The log starts on a multiple of twice its size, so it is full exactly when this bit of the end
+// pointer is set: one test per move, no limit to keep.
+constexpr std::uintptr_t kLogFull = kLogEntries * sizeof(Entry);
+
+// What a lane knows of its cell apart from the walker: touched only when its log is booked.
+struct alignas(2 * kLogFull) Lane {
+  std::array<Entry, kLogEntries + 1> log;  // one spare: every move writes, kept or not
+  std::uint32_t key = 0;  // of the zone of the last booked entry
   int cell = -1;          // -1: idle
 };
 
@@ -234,15 +277,19 @@ class Simulator {
 
   int fields() const { return n_fields_; }
   int regimes() const { return n_regimes_; }
+  double duration() const { return duration_; }
 
+  template <int LogColumns>
   [[gnu::noinline]] Walker start(Lane& lane, CellState& st, int cell) const {
     CellRandom rng(seed_, static_cast<std::uint64_t>(cell));
-    const int zone = static_cast<int>(std::lower_bound(c_.start_cdf.begin(), c_.start_cdf.end(), rng.uniform()) - c_.start_cdf.begin());
+    const int zone = std::min(static_cast<int>(std::lower_bound(c_.start_cdf.begin(), c_.start_cdf.end(), rng.uniform()) - c_.start_cdf.begin()),
+                              c_.zones - 1);
     Walker w;
     w.rng = rng.words();
-    w.zone = static_cast<std::uint32_t>(std::min(zone, c_.zones - 1));
+    w.zone = static_cast<std::uint32_t>(zone * sizeof(ZoneRecord<LogColumns>));
+    w.end = lane.log.data();
     lane.cell = cell;
-    lane.key = c_.key[w.zone];
+    lane.key = c_.key[zone];
     for (int f = 0; f < n_fields_; ++f) st.fields[f] = FieldCell{((lane.key >> (8 + f)) & 1u) != 0};
     st.regime = static_cast<int>(lane.key & 0xffu);
     st.regime_seen_change = false;
@@ -251,44 +298,42 @@ class Simulator {
     return w;
   }
 
-  // What the hot loop reads, as plain pointers and values (kept in registers: no member of the
-  // simulator is reloaded after the stores of a move).
+  // What the hot loop reads, as plain values (kept in registers: nothing is reloaded after the
+  // stores of a move).
   struct Hot {
-    const Slot* slots;
-    const double* mean;
-    ZoneTally* zone;
+    char* records;
     double duration;
   };
-  Hot hot(Tally& tally) const { return {c_.slots.data(), c_.mean_dwell.data(), tally.zone.data(), duration_}; }
-  int log_columns() const { return c_.log_columns; }
 
   // One move of w; false (and the last partial stay booked) when the cell reaches the end.
   // LogColumns: log2 of the alias columns per zone, a constant so that the indexing is immediate.
   template <int LogColumns>
   [[gnu::always_inline]] bool step(const Hot& h, Walker& w, Lane& lane, Tally& tally, CellState& st) const {
+    using Record = ZoneRecord<LogColumns>;
     const std::uint64_t r = CellRandom::next(w.rng);
-    const std::uint32_t zone = w.zone;
-    const double t_next = w.t + zig_.from_draw(r, w.rng) * h.mean[zone];
-    ZoneTally& zt = h.zone[zone];
+    Record& z = *reinterpret_cast<Record*>(h.records + w.zone);
+    const double t_next = w.t + zig_.from_draw(r, w.rng) * z.mean_s;
     if (!(t_next < h.duration)) [[unlikely]] {  // also catches +inf (no outflow)
-      zt.sum += Pair{h.duration - w.t, 0.0};
+      z.sum += Pair{h.duration - w.t, 0.0};
+      book<LogColumns>(lane, w.end, tally, st);
       return false;
     }
-    zt.sum += Pair{t_next - w.t, 1.0};
-    const auto low = static_cast<std::uint32_t>(r) & 0xffffffu;
-    const std::uint32_t slot = (zone << LogColumns) | (low & ((1u << LogColumns) - 1));
-    const Slot& s = h.slots[slot];
-    const std::uint32_t coin = low >> LogColumns;
+    z.sum += Pair{t_next - w.t, 1.0};
+    const auto column = static_cast<std::uint32_t>(r >> 16) & (Record::kColumns - 1);
+    const auto coin = static_cast<std::uint16_t>(r);
+    const std::uint16_t top = z.top[column];
     // Own or alias by an index, not a branch: the choice is close to a coin toss, a branch on it
     // would be mispredicted on a large share of the moves.
-    std::uint32_t next = s.to[coin < s.top];
-    if (coin == s.top) [[unlikely]] {
-      const Refined d = refine(w.rng, slot, coin);
+    std::uint32_t next = z.to[coin < top][column];
+    if (coin == top) [[unlikely]] {
+      const Refined d = refine<LogColumns>(w.rng, w.zone, column, coin);
       next = d.to, w.rng = d.rng;
     }
     w.t = t_next;
     w.zone = next & ~kChangeBit;
-    if (next & kChangeBit) [[unlikely]] lane.key = change(lane.key, w.zone, t_next, tally, st);
+    *w.end = {t_next, w.zone};
+    w.end += next >> 31;  // kChangeBit
+    if (reinterpret_cast<std::uintptr_t>(w.end) & kLogFull) [[unlikely]] w.end = book<LogColumns>(lane, w.end, tally, st);
     return true;
   }
 
@@ -301,19 +346,33 @@ class Simulator {
   }
 
  private:
-  // The pick when the coin's top bits tie with the threshold's: the coin's other bits decide.
-  // Generator words by value: a walker whose address escaped could not be kept unrolled.
+  // The pick when the coin's top bits tie with the threshold's (one move in 2^16): the coin's
+  // other bits decide. Generator words by value: a walker whose address escaped could not be kept
+  // unrolled.
   struct Refined {
     std::uint32_t to;
     CellRandom::Words rng;
   };
-  [[gnu::noinline]] Refined refine(CellRandom::Words rng, std::uint32_t slot, std::uint32_t coin) const {
-    const std::uint64_t full = (static_cast<std::uint64_t>(coin) << (64 - c_.coin_bits)) | (CellRandom::next(rng) >> c_.coin_bits);
-    return {c_.slots[slot].to[full < c_.threshold[slot]], rng};
+  template <int LogColumns>
+  [[gnu::noinline]] Refined refine(CellRandom::Words rng, std::uint32_t record, std::uint32_t column, std::uint16_t coin) const {
+    const size_t slot = (record / sizeof(ZoneRecord<LogColumns>) << LogColumns) + column;
+    const std::uint64_t full = (static_cast<std::uint64_t>(coin) << 48) | (CellRandom::next(rng) >> 16);
+    const std::uint32_t to = c_.slots[slot].to[full < c_.threshold[slot]];
+    return {static_cast<std::uint32_t>((to & ~kChangeBit) * sizeof(ZoneRecord<LogColumns>)) | (to & kChangeBit), rng};
+  }
+
+  // Books the entries of the lane's log up to `end`; returns the log's start. The end pointer by
+  // value: a walker whose address escaped could not be kept unrolled.
+  template <int LogColumns>
+  [[gnu::noinline]] Entry* book(Lane& lane, const Entry* end, Tally& tally, CellState& st) const {
+    for (const Entry* e = lane.log.data(); e != end; ++e) {
+      lane.key = change(lane.key, static_cast<int>(e->zone / sizeof(ZoneRecord<LogColumns>)), e->t, tally, st);
+    }
+    return lane.log.data();
   }
 
   // A cell with key `from` enters `zone` (another key) at t; returns the new key.
-  [[gnu::noinline]] std::uint32_t change(std::uint32_t from, std::uint32_t zone, double t, Tally& tally, CellState& st) const {
+  std::uint32_t change(std::uint32_t from, int zone, double t, Tally& tally, CellState& st) const {
     const std::uint32_t to = c_.key[zone];
     const std::uint32_t diff = from ^ to;
     if ((diff & 0xffu) && count_regimes_) {
@@ -373,12 +432,12 @@ class Simulator {
 struct BlockWork {
   Tally tally;
   std::vector<std::vector<FieldEvents>> events;  // [cell in block][field]
-  std::array<Lane, kLanes> lanes;
+  std::vector<Lane> lanes;                       // over-aligned: a vector, not on the stack
   std::vector<CellState> states;                 // per lane
   std::vector<double> outside;
 
   BlockWork(const Simulator& sim, int zones)
-      : tally(zones, sim.regimes()), events(kBlock, std::vector<FieldEvents>(sim.fields())), outside(sim.fields()) {
+      : tally(zones, sim.regimes()), events(kBlock, std::vector<FieldEvents>(sim.fields())), lanes(kLanes), outside(sim.fields()) {
     for (int l = 0; l < kLanes; ++l) states.push_back({std::vector<FieldCell>(sim.fields()), 0, false, 0.0, std::vector<double>(sim.regimes())});
   }
 };
@@ -411,49 +470,91 @@ template <int LogColumns, typename Begin, typename Done, int... L>
   (finish(w[L], L), ...);
 }
 
-// Follows cells [first, last) (one block), writing each cell's time outside into `outside[f][c]`
-// and its path, for c < paths.size(), into paths[c].
+// Follows cells [first, last) (one block) on this thread's zone records, writing each cell's time
+// outside into `outside[f][c]` and its path, for c < paths.size(), into paths[c]; the block's zone
+// sums end up in work.tally (and the records' sums are cleared).
 template <int LogColumns>
-void run_block(const Simulator& sim, int first, int last, BlockWork& work, std::vector<std::vector<double>>& outside,
-               std::vector<Trajectory>& paths) {
+void run_block(const Simulator& sim, std::vector<ZoneRecord<LogColumns>>& records, int first, int last, BlockWork& work,
+               std::vector<std::vector<double>>& outside, std::vector<Trajectory>& paths) {
   work.tally.clear();
   for (int c = first; c < last; ++c) {
     for (auto& e : work.events[c - first]) e.clear();
   }
-  for (Lane& lane : work.lanes) lane = Lane{};
+  for (Lane& lane : work.lanes) lane.cell = -1;
   int next = first;
   auto begin = [&](int l) {
     work.states[l].events = work.events[next - first].data();
-    return sim.start(work.lanes[l], work.states[l], next++);
+    return sim.start<LogColumns>(work.lanes[l], work.states[l], next++);
   };
   auto done = [&](int l) {
     sim.finish(work.states[l], work.outside.data());
     for (int f = 0; f < sim.fields(); ++f) outside[f][work.lanes[l].cell] = work.outside[f];
     work.lanes[l].cell = -1;
   };
-  const auto h = sim.hot(work.tally);
+  const Simulator::Hot h{reinterpret_cast<char*>(records.data()), sim.duration()};
   // Cells whose path is kept: one by one, recording every entry.
   while (next < last && next < static_cast<int>(paths.size())) {
     Trajectory& p = paths[next];
     Walker w = begin(0);
     do {
-      p.time_s.push_back(w.t), p.zone.push_back(static_cast<int>(w.zone));
+      p.time_s.push_back(w.t), p.zone.push_back(static_cast<int>(w.zone / sizeof(ZoneRecord<LogColumns>)));
     } while (sim.step<LogColumns>(h, w, work.lanes[0], work.tally, work.states[0]));
     done(0);
   }
   // The others side by side: kLanes independent chains of loads overlap in the processor.
   run_lanes<LogColumns>(sim, h, work, next, last, begin, done, std::make_integer_sequence<int, kLanes>{});
+  for (size_t k = 0; k < records.size(); ++k) work.tally.zone[k].sum = records[k].sum, records[k].sum = Pair{0.0, 0.0};
 }
 
-// run_block with the column count as a constant (0 .. 8; the (r, z) grid has at most four
+// Everything the threads add up, merged in block order.
+struct Totals {
+  Tally tally;
+  std::vector<FieldEvents> events;  // per field
+  std::vector<std::vector<double>> outside;  // [field][cell]: time outside [s]
+};
+
+// All cells, in blocks over the threads, with the column count a constant.
+template <int LogColumns>
+void follow_cells(const Chain& chain, const Simulator& sim, int cells, int threads, Totals& out, std::vector<Trajectory>& paths) {
+  const auto prototype = zone_records<LogColumns>(chain);
+  const int blocks = (cells + kBlock - 1) / kBlock;
+#pragma omp parallel num_threads(threads)
+  {
+    BlockWork work(sim, chain.zones);
+    auto records = prototype;  // this thread's: its sums sit on the lines the moves read
+#pragma omp for ordered schedule(dynamic, 1)
+    for (int b = 0; b < blocks; ++b) {
+      const int first = b * kBlock, last = std::min(cells, first + kBlock);
+      run_block<LogColumns>(sim, records, first, last, work, out.outside, paths);
+#pragma omp ordered
+      {
+        out.tally.add(work.tally);
+        for (int c = first; c < last; ++c) {
+          for (int f = 0; f < sim.fields(); ++f) work.events[c - first][f].append_to(out.events[f]);
+        }
+        // Room for all the events, estimated from the first block, so that the lists (hundreds of
+        // MB at 1e5 cells) are not copied again and again as they grow.
+        if (b == 0) {
+          const double scale = 1.05 * cells / std::max(last - first, 1);
+          for (auto& e : out.events) {
+            for (auto* v : {&e.excursions, &e.between, &e.long_excursions, &e.long_between}) {
+              v->reserve(static_cast<size_t>(scale * v->size()) + 64);
+            }
+          }
+        }
+      }
+    }
+  }
+}
+
+// follow_cells with the column count as a constant (0 .. 8; the (r, z) grid has at most four
 // neighbours, so 2).
 template <int L = 0>
-void run(int log_columns, const Simulator& sim, int first, int last, BlockWork& work, std::vector<std::vector<double>>& outside,
-         std::vector<Trajectory>& paths) {
+void follow(const Chain& chain, const Simulator& sim, int cells, int threads, Totals& out, std::vector<Trajectory>& paths) {
   if constexpr (L < 8) {
-    if (log_columns != L) return run<L + 1>(log_columns, sim, first, last, work, outside, paths);
+    if (chain.log_columns != L) return follow<L + 1>(chain, sim, cells, threads, out, paths);
   }
-  run_block<L>(sim, first, last, work, outside, paths);
+  follow_cells<L>(chain, sim, cells, threads, out, paths);
 }
 
 }  // namespace
@@ -523,8 +624,8 @@ ExponentialZiggurat::Slow ExponentialZiggurat::slow_words(CellRandom::Words word
       if (f_[i] + u * (f_[i - 1] - f_[i]) < std::exp(-x)) return {x, rng.words()};
     }
     const std::uint64_t b = rng.next();
-    i = static_cast<unsigned>((b >> 24) & 255u);
-    j = static_cast<std::uint32_t>(b >> 32);
+    i = static_cast<unsigned>(b >> 56);
+    j = static_cast<std::uint32_t>(b >> 24);
     if (j < k_[i]) return {static_cast<double>(j) * w_[i], rng.words()};
   }
 }
@@ -634,37 +735,12 @@ LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h
   res.cells = cells;
   res.duration_s = opts.duration_s;
   res.trajectories.resize(kept);
-  std::vector<std::vector<double>> outside(n_fields, std::vector<double>(cells));
-  Tally total(n, n_regimes);
-  std::vector<FieldEvents> events(n_fields);
-  const int blocks = (cells + kBlock - 1) / kBlock;
+  Totals totals{Tally(n, n_regimes), std::vector<FieldEvents>(n_fields), std::vector<std::vector<double>>(n_fields, std::vector<double>(cells))};
   const int threads = opts.threads > 0 ? opts.threads : omp_get_max_threads();
-#pragma omp parallel num_threads(threads)
-  {
-    BlockWork work(sim, n);
-#pragma omp for ordered schedule(dynamic, 1)
-    for (int b = 0; b < blocks; ++b) {
-      const int first = b * kBlock, last = std::min(cells, first + kBlock);
-      run(chain.log_columns, sim, first, last, work, outside, res.trajectories);
-#pragma omp ordered
-      {
-        total.add(work.tally);
-        for (int c = first; c < last; ++c) {
-          for (int f = 0; f < n_fields; ++f) work.events[c - first][f].append_to(events[f]);
-        }
-        // Room for all the events, estimated from the first block, so that the lists (hundreds of
-        // MB at 1e5 cells) are not copied again and again as they grow.
-        if (b == 0) {
-          const double scale = 1.05 * cells / std::max(last - first, 1);
-          for (auto& e : events) {
-            for (auto* v : {&e.excursions, &e.between, &e.long_excursions, &e.long_between}) {
-              v->reserve(static_cast<size_t>(scale * v->size()) + 64);
-            }
-          }
-        }
-      }
-    }
-  }
+  follow(chain, sim, cells, threads, totals, res.trajectories);
+  const Tally& total = totals.tally;
+  auto& outside = totals.outside;
+  auto& events = totals.events;
 
   res.occupancy.assign(n, 0.0);
   res.residence_mean_s.assign(n, 0.0);

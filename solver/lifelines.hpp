@@ -174,8 +174,8 @@ class CellRandom {
 
 //! Unit exponential variates by the ziggurat method of Marsaglia & Tsang (2000, J. Stat. Softw.
 //! 5(8)) with 256 layers and 32-bit abscissae, as published, except that the layer comes from bits
-//! 24-31 and the abscissa from bits 32-63 of a draw (disjoint bits, so they are independent; bits
-//! 0-23 stay free for the caller). About 99 % of the draws take the fast path (one compare, one
+//! 56-63 and the abscissa from bits 24-55 of a draw (disjoint bits, so they are independent; bits
+//! 0-23 stay free for the caller, and each part takes one shift). About 99 % of the draws take the fast path (one compare, one
 //! multiply); the rest test the wedge (first against the chord and the tangents of the convex
 //! exp(-x), so that exp is rarely evaluated) or sample the tail exactly, with further draws.
 class ExponentialZiggurat {
@@ -183,15 +183,15 @@ class ExponentialZiggurat {
   ExponentialZiggurat();
   double operator()(CellRandom& rng) const { return from_draw(rng.next(), rng); }
   double from_draw(std::uint64_t r, CellRandom& rng) const {
-    const auto i = static_cast<unsigned>((r >> 24) & 255u);
-    const auto j = static_cast<std::uint32_t>(r >> 32);
+    const auto i = static_cast<unsigned>(r >> 56);
+    const auto j = static_cast<std::uint32_t>(r >> 24);
     if (j < k_[i]) [[likely]] return static_cast<double>(j) * w_[i];
     return slow(rng, i, j);
   }
   //! The same for a generator held as words: the rare slow path takes and returns them by value.
   [[gnu::always_inline]] double from_draw(std::uint64_t r, CellRandom::Words& s) const {
-    const auto i = static_cast<unsigned>((r >> 24) & 255u);
-    const auto j = static_cast<std::uint32_t>(r >> 32);
+    const auto i = static_cast<unsigned>(r >> 56);
+    const auto j = static_cast<std::uint32_t>(r >> 24);
     if (j < k_[i]) [[likely]] return static_cast<double>(j) * w_[i];
     const Slow d = slow_words(s, i, j);
     s = d.words;
