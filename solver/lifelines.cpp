@@ -52,15 +52,16 @@ Histogram fixed_bin_histogram(const long* counts) {
 }
 
 // ---- the chain ----
-// A move uses one 64-bit draw r: bits 24-63 go to the ziggurat (the dwell), bits 16 .. 16+b-1
-// pick one of the 2^b alias columns of the zone, and bits 0-15 are the top bits of the column's
-// 64-bit coin. Only when they equal the top bits of the column's threshold (probability 2^-16)
+// A move uses one 64-bit draw r: bits 22-63 go to the ziggurat (the dwell), bits 14 .. 14+b-1
+// pick one of the 2^b alias columns of the zone, and bits 0-13 are the top bits of the column's
+// 64-bit coin. Only when they equal the top bits of the column's threshold (probability 2^-14)
 // does the comparison need the coin's other bits: a further draw. So the pick is exact to 2^-64,
 // like a comparison of two 64-bit uniforms.
 // Zones: [0] the alias, [1] the column's own outcome, each with kChangeBit set when entering it
 // changes the key (so the common move reads no key). The full threshold of slot s is
 // Chain::threshold[s].
 constexpr std::uint32_t kChangeBit = 1u << 31;
+constexpr int kCoinBits = 14;
 struct Slot {
   std::uint32_t to[2];
 };
@@ -89,6 +90,7 @@ Chain build_chain(const ZoneNetwork& net, const Hydrodynamics& h, const std::vec
   }
   size_t degree = 1;
   for (const auto& o : out) degree = std::max(degree, o.size());
+  static_assert(kCoinBits + 8 <= 64 - ExponentialZiggurat::kLayerBits - 32, "coin, column and ziggurat bits overlap");
   if (degree > 256) throw std::invalid_argument("lifelines: a zone with more than 256 neighbours");
   Chain c;
   c.zones = n;
@@ -213,7 +215,7 @@ struct alignas(64) ZoneRecord {
   Pair sum{0.0, 0.0};     // {time [s], completed visits} of this thread's block
   double mean_s = 0.0;    // mean dwell V / outflow [s]; +inf without outflow
   std::uint32_t to[2][kColumns]{};  // per column: [0] alias, [1] own, as record offsets | kChangeBit
-  std::uint16_t top[kColumns]{};    // the column's threshold >> 48: the own zone when the coin is below
+  std::uint16_t top[kColumns]{};    // the column's top kCoinBits of its threshold: the own zone when the coin is below
 };
 
 template <int LogColumns>
@@ -230,7 +232,7 @@ std::vector<ZoneRecord<LogColumns>> zone_records(const Chain& c) {
       const size_t s = (static_cast<size_t>(k) << LogColumns) + j;
       r[k].to[0][j] = offset(c.slots[s].to[0]);
       r[k].to[1][j] = offset(c.slots[s].to[1]);
-      r[k].top[j] = static_cast<std::uint16_t>(c.threshold[s] >> 48);
+      r[k].top[j] = static_cast<std::uint16_t>(c.threshold[s] >> (64 - kCoinBits));
     }
   }
   return r;
@@ -319,8 +321,8 @@ class Simulator {
       return false;
     }
     z.sum += Pair{t_next - w.t, 1.0};
-    const auto column = static_cast<std::uint32_t>(r >> 16) & (Record::kColumns - 1);
-    const auto coin = static_cast<std::uint16_t>(r);
+    const auto column = static_cast<std::uint32_t>(r >> kCoinBits) & (Record::kColumns - 1);
+    const auto coin = static_cast<std::uint16_t>(r & ((1u << kCoinBits) - 1));
     const std::uint16_t top = z.top[column];
     // Own or alias by an index, not a branch: the choice is close to a coin toss, a branch on it
     // would be mispredicted on a large share of the moves.
@@ -346,7 +348,7 @@ class Simulator {
   }
 
  private:
-  // The pick when the coin's top bits tie with the threshold's (one move in 2^16): the coin's
+  // The pick when the coin's top bits tie with the threshold's (one move in 2^14): the coin's
   // other bits decide. Generator words by value: a walker whose address escaped could not be kept
   // unrolled.
   struct Refined {
@@ -356,67 +358,85 @@ class Simulator {
   template <int LogColumns>
   [[gnu::noinline]] Refined refine(CellRandom::Words rng, std::uint32_t record, std::uint32_t column, std::uint16_t coin) const {
     const size_t slot = (record / sizeof(ZoneRecord<LogColumns>) << LogColumns) + column;
-    const std::uint64_t full = (static_cast<std::uint64_t>(coin) << 48) | (CellRandom::next(rng) >> 16);
+    const std::uint64_t full = (static_cast<std::uint64_t>(coin) << (64 - kCoinBits)) | (CellRandom::next(rng) >> kCoinBits);
     const std::uint32_t to = c_.slots[slot].to[full < c_.threshold[slot]];
     return {static_cast<std::uint32_t>((to & ~kChangeBit) * sizeof(ZoneRecord<LogColumns>)) | (to & kChangeBit), rng};
   }
 
   // Books the entries of the lane's log up to `end`; returns the log's start. The end pointer by
   // value: a walker whose address escaped could not be kept unrolled.
+  // Whether an entry changes the regime, a field or both is close to random: the entries are first
+  // sorted into the two kinds without a branch, then each kind is booked in order by code whose
+  // branches follow the cell's own rhythm (a field's side alternates) and are predicted.
   template <int LogColumns>
   [[gnu::noinline]] Entry* book(Lane& lane, const Entry* end, Tally& tally, CellState& st) const {
-    for (const Entry* e = lane.log.data(); e != end; ++e) {
-      lane.key = change(lane.key, static_cast<int>(e->zone / sizeof(ZoneRecord<LogColumns>)), e->t, tally, st);
+    const Entry* log = lane.log.data();
+    const auto n = static_cast<int>(end - log);
+    std::array<std::uint32_t, kLogEntries + 1> key;  // [0]: before the first entry
+    std::array<std::uint16_t, kLogEntries> regime_moves, field_moves;
+    int regimes = 0, fields = 0;
+    key[0] = lane.key;
+    for (int i = 0; i < n; ++i) {
+      key[i + 1] = c_.key[log[i].zone / sizeof(ZoneRecord<LogColumns>)];
+      const std::uint32_t diff = key[i] ^ key[i + 1];
+      regime_moves[regimes] = static_cast<std::uint16_t>(i), regimes += (diff & 0xffu) != 0;
+      field_moves[fields] = static_cast<std::uint16_t>(i), fields += (diff >> 8) != 0;
     }
+    if (count_regimes_) {
+      for (int k = 0; k < regimes; ++k) {
+        const int i = regime_moves[k];
+        regime_change(static_cast<int>(key[i] & 0xffu), static_cast<int>(key[i + 1] & 0xffu), log[i].t, tally, st);
+      }
+    }
+    for (int k = 0; k < fields; ++k) {
+      const int i = field_moves[k];
+      for (std::uint32_t m = (key[i] ^ key[i + 1]) >> 8; m != 0; m &= m - 1) field_change(std::countr_zero(m), log[i].t, st);
+    }
+    lane.key = key[n];
     return lane.log.data();
   }
 
-  // A cell with key `from` enters `zone` (another key) at t; returns the new key.
-  std::uint32_t change(std::uint32_t from, int zone, double t, Tally& tally, CellState& st) const {
-    const std::uint32_t to = c_.key[zone];
-    const std::uint32_t diff = from ^ to;
-    if ((diff & 0xffu) && count_regimes_) {
-      const int a = static_cast<int>(from & 0xffu), b = static_cast<int>(to & 0xffu);
-      if (st.regime_seen_change) {
-        const double stay = t - st.regime_since;
-        tally.stay_sum[a] += stay;
-        ++tally.stay_count[a];
-        ++tally.stay_bins[static_cast<size_t>(a) * kBins + log_bin(stay)];
-      }
-      ++tally.transitions[static_cast<size_t>(a) * n_regimes_ + b];
-      if (st.last_entry[b] >= 0.0) {
-        const double back = t - st.last_entry[b];
-        tally.return_sum[b] += back;
-        ++tally.return_count[b];
-        ++tally.return_bins[static_cast<size_t>(b) * kBins + log_bin(back)];
-      }
-      st.last_entry[b] = t;
-      st.regime_since = t;
-      st.regime_seen_change = true;
+  // A cell passes from regime a to regime b at t.
+  void regime_change(int a, int b, double t, Tally& tally, CellState& st) const {
+    if (st.regime_seen_change) {
+      const double stay = t - st.regime_since;
+      tally.stay_sum[a] += stay;
+      ++tally.stay_count[a];
+      ++tally.stay_bins[static_cast<size_t>(a) * kBins + log_bin(stay)];
     }
-    for (std::uint32_t m = diff >> 8; m != 0; m &= m - 1) {
-      const int f = std::countr_zero(m);
-      FieldCell& fc = st.fields[f];
-      FieldEvents& ev = st.events[f];
-      const double run = t - fc.since;
-      if (fc.outside) {  // an excursion ends
-        fc.outside_time += run;
-        if (fc.seen_change) {
-          ev.excursions.push_back(run);
-          if (min_excursion_ > 0.0 && run >= min_excursion_) {
-            if (fc.last_long_end >= 0.0) ev.long_between.push_back(fc.since - fc.last_long_end);
-            ev.long_excursions.push_back(run);
-            fc.last_long_end = t;
-          }
+    ++tally.transitions[static_cast<size_t>(a) * n_regimes_ + b];
+    if (st.last_entry[b] >= 0.0) {
+      const double back = t - st.last_entry[b];
+      tally.return_sum[b] += back;
+      ++tally.return_count[b];
+      ++tally.return_bins[static_cast<size_t>(b) * kBins + log_bin(back)];
+    }
+    st.last_entry[b] = t;
+    st.regime_since = t;
+    st.regime_seen_change = true;
+  }
+
+  // A cell crosses field f's threshold at t.
+  void field_change(int f, double t, CellState& st) const {
+    FieldCell& fc = st.fields[f];
+    FieldEvents& ev = st.events[f];
+    const double run = t - fc.since;
+    if (fc.outside) {  // an excursion ends
+      fc.outside_time += run;
+      if (fc.seen_change) {
+        ev.excursions.push_back(run);
+        if (min_excursion_ > 0.0 && run >= min_excursion_) {
+          if (fc.last_long_end >= 0.0) ev.long_between.push_back(fc.since - fc.last_long_end);
+          ev.long_excursions.push_back(run);
+          fc.last_long_end = t;
         }
-      } else if (fc.seen_change) {
-        ev.between.push_back(run);
       }
-      fc.outside = !fc.outside;
-      fc.seen_change = true;
-      fc.since = t;
+    } else if (fc.seen_change) {
+      ev.between.push_back(run);
     }
-    return to;
+    fc.outside = !fc.outside;
+    fc.seen_change = true;
+    fc.since = t;
   }
 
   const Chain& c_;
@@ -570,20 +590,43 @@ CellRandom::CellRandom(std::uint64_t seed, std::uint64_t stream) {
   lo_ = splitmix64(y) | 1u;  // odd: the multiplicative group's full period
 }
 
-ExponentialZiggurat::ExponentialZiggurat() {
-  // Marsaglia & Tsang (2000): 256 layers of equal area v under exp(-x), the base layer holding the
-  // tail beyond r; their constants r and v, their set-up with 32-bit abscissae.
+double ExponentialZiggurat::base_edge(int layers) {
+  // Marsaglia & Tsang (2000): layers of equal area v = (r + 1) exp(-r) (the base layer is the
+  // rectangle up to r plus the tail beyond it); from r, each layer's left edge follows from the one
+  // below. The right r makes the top layer end at x = 0: v / x_1 + exp(-x_1) = 1. Too small an r
+  // runs out of area before the top (the argument of the logarithm reaches 1).
+  auto excess = [layers](double r) {
+    const double v = (r + 1.0) * std::exp(-r);
+    double x = r;
+    for (int i = layers - 2; i >= 1; --i) {
+      const double a = v / x + std::exp(-x);
+      if (a >= 1.0) return 1.0;
+      x = -std::log(a);
+    }
+    return v / x + std::exp(-x) - 1.0;
+  };
+  double lo = 1.0, hi = 40.0;
+  for (int k = 0; k < 200 && hi - lo > 1e-15 * hi; ++k) {
+    const double mid = 0.5 * (lo + hi);
+    (excess(mid) > 0.0 ? lo : hi) = mid;
+  }
+  return 0.5 * (lo + hi);
+}
+
+ExponentialZiggurat::ExponentialZiggurat() : r_(base_edge(kLayers)) {
+  // Marsaglia & Tsang (2000)'s set-up with 32-bit abscissae, for kLayers layers.
+  constexpr int n = kLayers;
   const double m = 0x1.0p32;
-  double d = 7.697117470131487, prev = d;
-  const double v = 3.949659822581572e-3;
+  double d = r_, prev = d;
+  const double v = (r_ + 1.0) * std::exp(-r_);
   const double q = v / std::exp(-d);
   k_[0] = static_cast<std::uint32_t>((d / q) * m);
   k_[1] = 0;
   w_[0] = q / m;
-  w_[255] = d / m;
+  w_[n - 1] = d / m;
   f_[0] = 1.0;
-  f_[255] = std::exp(-d);
-  for (int i = 254; i >= 1; --i) {
+  f_[n - 1] = std::exp(-d);
+  for (int i = n - 2; i >= 1; --i) {
     d = -std::log(v / d + std::exp(-d));
     k_[i + 1] = static_cast<std::uint32_t>((d / prev) * m);
     prev = d;
@@ -592,7 +635,7 @@ ExponentialZiggurat::ExponentialZiggurat() {
   }
   // Layer i >= 1 spans x in [0, x_i], y in [f_i, f_{i-1}]; its wedge is x in [x_{i-1}, x_i], with
   // x_0 = 0 (the top layer is all wedge).
-  for (int i = 1; i < 256; ++i) {
+  for (int i = 1; i < n; ++i) {
     x_[i] = w_[i] * m;
     const double left = i > 1 ? w_[i - 1] * m : 0.0;
     const double width = x_[i] - left, drop = f_[i - 1] - f_[i];
@@ -609,10 +652,9 @@ double ExponentialZiggurat::slow(CellRandom& rng, unsigned i, std::uint32_t j) c
 }
 
 ExponentialZiggurat::Slow ExponentialZiggurat::slow_words(CellRandom::Words words, unsigned i, std::uint32_t j) const {
-  constexpr double r = 7.697117470131487;
   CellRandom rng(words);
   for (;;) {
-    if (i == 0) return {r - std::log1p(-rng.uniform()), rng.words()};  // memoryless tail beyond r
+    if (i == 0) return {r_ - std::log1p(-rng.uniform()), rng.words()};  // memoryless tail beyond r
     const double x = static_cast<double>(j) * w_[i];
     // y = f_i + u (f_{i-1} - f_i) against exp(-x). With s the position under the chord (1 at
     // x_{i-1}, 0 at x_i): above the chord is above the curve; below either tangent is below it.
@@ -624,8 +666,8 @@ ExponentialZiggurat::Slow ExponentialZiggurat::slow_words(CellRandom::Words word
       if (f_[i] + u * (f_[i - 1] - f_[i]) < std::exp(-x)) return {x, rng.words()};
     }
     const std::uint64_t b = rng.next();
-    i = static_cast<unsigned>(b >> 56);
-    j = static_cast<std::uint32_t>(b >> 24);
+    i = layer(b);
+    j = abscissa(b);
     if (j < k_[i]) return {static_cast<double>(j) * w_[i], rng.words()};
   }
 }
