@@ -271,6 +271,15 @@ struct alignas(2 * kLogFull) Lane {
 constexpr int kBlock = 64;  // cells per block: the unit of work and of the ordered merge
 constexpr int kLanes = 4;   // cells followed side by side in one thread (3-4 measured best, 8 slower)
 
+// The lanes of a thread as the rare paths of a move see them: they take a lane index, so that a
+// move does not prepare the addresses of its lane's state on the way (the compiler did, and kept
+// them on the stack, on every move).
+struct LaneSet {
+  Lane* lanes;
+  CellState* states;
+  Tally* tally;
+};
+
 class Simulator {
  public:
   Simulator(const Chain& chain, int n_fields, int n_regimes, const LifelineOptions& o)
@@ -309,15 +318,15 @@ class Simulator {
 
   // One move of w; false (and the last partial stay booked) when the cell reaches the end.
   // LogColumns: log2 of the alias columns per zone, a constant so that the indexing is immediate.
-  template <int LogColumns>
-  [[gnu::always_inline]] bool step(const Hot& h, Walker& w, Lane& lane, Tally& tally, CellState& st) const {
+  template <int LogColumns, int L>
+  [[gnu::always_inline]] bool step(const Hot& h, Walker& w, const LaneSet& lanes) const {
     using Record = ZoneRecord<LogColumns>;
     const std::uint64_t r = CellRandom::next(w.rng);
     Record& z = *reinterpret_cast<Record*>(h.records + w.zone);
     const double t_next = w.t + zig_.from_draw(r, w.rng) * z.mean_s;
     if (!(t_next < h.duration)) [[unlikely]] {  // also catches +inf (no outflow)
       z.sum += Pair{h.duration - w.t, 0.0};
-      book<LogColumns>(lane, w.end, tally, st);
+      book<LogColumns>(lanes, L, w.end);
       return false;
     }
     z.sum += Pair{t_next - w.t, 1.0};
@@ -335,7 +344,7 @@ class Simulator {
     w.zone = next & ~kChangeBit;
     *w.end = {t_next, w.zone};
     w.end += next >> 31;  // kChangeBit
-    if (reinterpret_cast<std::uintptr_t>(w.end) & kLogFull) [[unlikely]] w.end = book<LogColumns>(lane, w.end, tally, st);
+    if (reinterpret_cast<std::uintptr_t>(w.end) & kLogFull) [[unlikely]] w.end = book<LogColumns>(lanes, L, w.end);
     return true;
   }
 
@@ -368,6 +377,10 @@ class Simulator {
   // Whether an entry changes the regime, a field or both is close to random: the entries are first
   // sorted into the two kinds without a branch, then each kind is booked in order by code whose
   // branches follow the cell's own rhythm (a field's side alternates) and are predicted.
+  template <int LogColumns>
+  [[gnu::noinline]] Entry* book(const LaneSet& lanes, int l, const Entry* end) const {
+    return book<LogColumns>(lanes.lanes[l], end, *lanes.tally, lanes.states[l]);
+  }
   template <int LogColumns>
   [[gnu::noinline]] Entry* book(Lane& lane, const Entry* end, Tally& tally, CellState& st) const {
     const Entry* log = lane.log.data();
@@ -468,10 +481,11 @@ template <int LogColumns, typename Begin, typename Done, int... L>
 [[gnu::always_inline]] inline void run_lanes(const Simulator& sim, const Simulator::Hot& h, BlockWork& work, int& next, int last,
                                              Begin& begin, Done& done, std::integer_sequence<int, L...>) {
   Walker w[kLanes];
+  const LaneSet lanes{work.lanes.data(), work.states.data(), &work.tally};
   int live = 0;
   ((next < last ? (w[L] = begin(L), ++live) : 0), ...);
-  auto move = [&](Walker& x, int l) __attribute__((always_inline)) {
-    if (!sim.step<LogColumns>(h, x, work.lanes[l], work.tally, work.states[l])) [[unlikely]] {
+  auto move = [&]<int l>(Walker& x) __attribute__((always_inline)) {
+    if (!sim.step<LogColumns, l>(h, x, lanes)) [[unlikely]] {
       done(l);
       if (next < last) {
         x = begin(l);
@@ -480,14 +494,14 @@ template <int LogColumns, typename Begin, typename Done, int... L>
       }
     }
   };
-  while (live == kLanes) (move(w[L], L), ...);
-  auto finish = [&](Walker& x, int l) {
+  while (live == kLanes) (move.template operator()<L>(w[L]), ...);
+  auto finish = [&]<int l>(Walker& x) {
     if (work.lanes[l].cell < 0) return;
-    while (sim.step<LogColumns>(h, x, work.lanes[l], work.tally, work.states[l])) {
+    while (sim.step<LogColumns, l>(h, x, lanes)) {
     }
     done(l);
   };
-  (finish(w[L], L), ...);
+  (finish.template operator()<L>(w[L]), ...);
 }
 
 // Follows cells [first, last) (one block) on this thread's zone records, writing each cell's time
@@ -513,12 +527,13 @@ void run_block(const Simulator& sim, std::vector<ZoneRecord<LogColumns>>& record
   };
   const Simulator::Hot h{reinterpret_cast<char*>(records.data()), sim.duration()};
   // Cells whose path is kept: one by one, recording every entry.
+  const LaneSet lanes{work.lanes.data(), work.states.data(), &work.tally};
   while (next < last && next < static_cast<int>(paths.size())) {
     Trajectory& p = paths[next];
     Walker w = begin(0);
     do {
       p.time_s.push_back(w.t), p.zone.push_back(static_cast<int>(w.zone / sizeof(ZoneRecord<LogColumns>)));
-    } while (sim.step<LogColumns>(h, w, work.lanes[0], work.tally, work.states[0]));
+    } while (sim.step<LogColumns, 0>(h, w, lanes));
     done(0);
   }
   // The others side by side: kLanes independent chains of loads overlap in the processor.
