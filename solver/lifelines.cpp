@@ -52,16 +52,16 @@ Histogram fixed_bin_histogram(const long* counts) {
 }
 
 // ---- the chain ----
-// A move uses one 64-bit draw r: bits 22-63 go to the ziggurat (the dwell), bits 14 .. 14+b-1
-// pick one of the 2^b alias columns of the zone, and bits 0-13 are the top bits of the column's
-// 64-bit coin. Only when they equal the top bits of the column's threshold (probability 2^-14)
+// A move uses one 64-bit draw r: bits 21-63 go to the ziggurat (the dwell), bits 13 .. 13+b-1
+// pick one of the 2^b alias columns of the zone, and bits 0-12 are the top bits of the column's
+// 64-bit coin. Only when they equal the top bits of the column's threshold (probability 2^-13)
 // does the comparison need the coin's other bits: a further draw. So the pick is exact to 2^-64,
 // like a comparison of two 64-bit uniforms.
 // Zones: [0] the alias, [1] the column's own outcome, each with kChangeBit set when entering it
 // changes the key (so the common move reads no key). The full threshold of slot s is
 // Chain::threshold[s].
 constexpr std::uint32_t kChangeBit = 1u << 31;
-constexpr int kCoinBits = 14;
+constexpr int kCoinBits = 13;
 struct Slot {
   std::uint32_t to[2];
 };
@@ -357,7 +357,7 @@ class Simulator {
   }
 
  private:
-  // The pick when the coin's top bits tie with the threshold's (one move in 2^14): the coin's
+  // The pick when the coin's top bits tie with the threshold's (one move in 2^13): the coin's
   // other bits decide. Generator words by value: a walker whose address escaped could not be kept
   // unrolled.
   struct Refined {
