@@ -208,17 +208,25 @@ struct alignas(64) ZoneRecord {
   static constexpr int kColumns = 1 << LogColumns;
   Pair sum{0.0, 0.0};     // {time [s], completed visits} of this thread's block
   double mean_s = 0.0;    // mean dwell V / outflow [s]; +inf without outflow
-  std::uint32_t to[2][kColumns]{};  // per column: [0] alias, [1] own, as record offsets | kChangeBit
+  std::uint32_t to[2][kColumns]{};  // per column: [0] alias, [1] own, as record offsets | kEntersOtherKey
   std::uint16_t top[kColumns]{};    // the column's top kCoinBits of its threshold: the own zone when the coin is below
 };
+
+// In the records, a move into another key is flagged by a bit that record offsets (multiples of
+// 64) never have, worth the size of a log entry: the log's end advances by `to & flag` itself.
+constexpr std::uint32_t kEntersOtherKey = 16;
+
+template <int LogColumns>
+std::uint32_t record_target(std::uint32_t slot_to) {
+  return static_cast<std::uint32_t>((slot_to & ~kChangeBit) * sizeof(ZoneRecord<LogColumns>)) | (slot_to & kChangeBit ? kEntersOtherKey : 0u);
+}
 
 template <int LogColumns>
 std::vector<ZoneRecord<LogColumns>> zone_records(const Chain& c) {
   using Record = ZoneRecord<LogColumns>;
+  static_assert(sizeof(Record) % 64 == 0 && kEntersOtherKey < 64);
   if (static_cast<std::uint64_t>(c.zones) * sizeof(Record) >= kChangeBit) throw std::invalid_argument("lifelines: too many zones");
-  auto offset = [](std::uint32_t to) {
-    return static_cast<std::uint32_t>((to & ~kChangeBit) * sizeof(Record)) | (to & kChangeBit);
-  };
+  auto offset = [](std::uint32_t to) { return record_target<LogColumns>(to); };
   std::vector<Record> r(c.zones);
   for (int k = 0; k < c.zones; ++k) {
     r[k].mean_s = c.mean_dwell[k];
@@ -250,6 +258,7 @@ struct Entry {
   double t;
   std::uint32_t zone;  // record offset
 };
+static_assert(sizeof(Entry) == kEntersOtherKey, "a flagged move advances the log by one entry");
 constexpr int kLogEntries = 128;
 // The log starts on a multiple of twice its size, so it is full exactly when this bit of the end
 // pointer is set: one test per move, no limit to keep.
@@ -335,9 +344,9 @@ class Simulator {
       next = d.to, w.rng = d.rng;
     }
     w.t = t_next;
-    w.zone = next & ~kChangeBit;
+    w.zone = next & ~kEntersOtherKey;
     *w.end = {t_next, w.zone};
-    w.end += next >> 31;  // kChangeBit
+    w.end = reinterpret_cast<Entry*>(reinterpret_cast<char*>(w.end) + (next & kEntersOtherKey));
     if (reinterpret_cast<std::uintptr_t>(w.end) & kLogFull) [[unlikely]] w.end = book<LogColumns>(lanes, L, w.end);
     return true;
   }
@@ -363,7 +372,7 @@ class Simulator {
     const size_t slot = (record / sizeof(ZoneRecord<LogColumns>) << LogColumns) + column;
     const std::uint64_t full = (static_cast<std::uint64_t>(coin) << (64 - kCoinBits)) | (CellRandom::next(rng) >> kCoinBits);
     const std::uint32_t to = c_.slots[slot].to[full < c_.threshold[slot]];
-    return {static_cast<std::uint32_t>((to & ~kChangeBit) * sizeof(ZoneRecord<LogColumns>)) | (to & kChangeBit), rng};
+    return {record_target<LogColumns>(to), rng};
   }
 
   // Books the entries of the lane's log up to `end`; returns the log's start. The end pointer by
