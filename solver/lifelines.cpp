@@ -757,13 +757,30 @@ LifelineField do_lifeline_field(const std::vector<double>& do_mol_m3, double cri
 
 Histogram log_histogram(const std::vector<double>& values, int bins, int threads) {
   Histogram h;
-  double lo = 1e300, hi = 0.0;
   const auto n = static_cast<std::ptrdiff_t>(values.size());
   const double* x = values.data();
-  // Lists of 10^7 values at 10^5 cells: split over the threads (they are idle by now).
+  // Lists of 10^7 values at 10^5 cells: split over the threads (they are idle by now). Each pass
+  // keeps four partial results a value apart, so that no value waits for the one before it (a
+  // minimum, or a count in the same bin); minima, maxima and integer counts do not depend on how
+  // the values are split.
   threads = n > (1 << 16) ? std::max(threads, 1) : 1;
-#pragma omp parallel for num_threads(threads) reduction(min : lo) reduction(max : hi)
-  for (std::ptrdiff_t i = 0; i < n; ++i) {
+  constexpr int kWays = 4;
+  const std::ptrdiff_t steps = n / kWays;
+  double lo = 1e300, hi = 0.0;
+#pragma omp parallel num_threads(threads)
+  {
+    double l[kWays] = {1e300, 1e300, 1e300, 1e300}, u[kWays] = {0.0, 0.0, 0.0, 0.0};
+#pragma omp for nowait
+    for (std::ptrdiff_t k = 0; k < steps; ++k) {
+      for (int j = 0; j < kWays; ++j) {
+        const double v = x[kWays * k + j];
+        l[j] = std::min(l[j], v > 0.0 ? v : 1e300), u[j] = std::max(u[j], v);
+      }
+    }
+#pragma omp critical(oxystrat_histogram_range)
+    for (int j = 0; j < kWays; ++j) lo = std::min(lo, l[j]), hi = std::max(hi, u[j]);
+  }
+  for (std::ptrdiff_t i = kWays * steps; i < n; ++i) {
     if (x[i] > 0.0) lo = std::min(lo, x[i]), hi = std::max(hi, x[i]);
   }
   if (hi <= 0.0) return h;
@@ -779,12 +796,7 @@ Histogram log_histogram(const std::vector<double>& values, int bins, int threads
   const double log2_lo = std::log2(lo), per_log2 = bins / std::log2(hi / lo);
   const bool from_bits = per_log2 < 5.0;
   const double span = std::log(hi / lo);  // once: the compiler may not hoist it (log sets errno)
-  std::vector<long> counts(bins, 0);
-  long* c = counts.data();
-#pragma omp parallel for num_threads(threads) reduction(+ : c[:bins])
-  for (std::ptrdiff_t i = 0; i < n; ++i) {
-    const double v = x[i];
-    if (v <= 0.0) continue;
+  auto bin_of = [&](double v) {
     const double guess = from_bits ? (static_cast<double>(std::bit_cast<std::int64_t>(v)) * 0x1p-52 - 1023.0 - log2_lo) * per_log2
                                    : std::log(v / lo) / span * bins;
     int b = std::clamp(static_cast<int>(guess), 0, bins - 1);
@@ -793,9 +805,25 @@ Histogram log_histogram(const std::vector<double>& values, int bins, int threads
     } else if (b > 0 && v < edges[b]) {
       --b;
     }
-    ++c[b];
+    return b;
+  };
+  std::vector<long> counts(static_cast<size_t>(kWays) * bins, 0);  // [way][bin]
+  long* c = counts.data();
+  const int cells = kWays * bins;
+#pragma omp parallel for num_threads(threads) reduction(+ : c[:cells])
+  for (std::ptrdiff_t k = 0; k < steps; ++k) {
+    for (int j = 0; j < kWays; ++j) {
+      const double v = x[kWays * k + j];
+      if (v > 0.0) ++c[j * bins + bin_of(v)];
+    }
   }
-  h.counts.assign(counts.begin(), counts.end());
+  for (std::ptrdiff_t i = kWays * steps; i < n; ++i) {
+    if (x[i] > 0.0) ++c[bin_of(x[i])];
+  }
+  h.counts.assign(bins, 0.0);
+  for (int j = 0; j < kWays; ++j) {
+    for (int b = 0; b < bins; ++b) h.counts[b] += static_cast<double>(c[j * bins + b]);
+  }
   return h;
 }
 
