@@ -413,7 +413,7 @@ class Simulator {
   }
 
   // A cell passes from regime a to regime b at t.
-  void regime_change(int a, int b, double t, Tally& tally, CellState& st) const {
+  [[gnu::always_inline]] void regime_change(int a, int b, double t, Tally& tally, CellState& st) const {
     if (st.regime_seen_change) {
       const double stay = t - st.regime_since;
       tally.stay_sum[a] += stay;
