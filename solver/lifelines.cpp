@@ -137,13 +137,30 @@ Chain build_chain(const ZoneNetwork& net, const Hydrodynamics& h, const std::vec
   return c;
 }
 
+// The smallest and largest positive value of a list (what its histogram spans).
+struct ValueRange {
+  double lo = 1e300, hi = 0.0;
+  void add(const std::vector<double>& v) {
+    for (double x : v) {
+      if (x > 0.0) lo = std::min(lo, x), hi = std::max(hi, x);
+    }
+  }
+};
+
 struct FieldEvents {
   std::vector<double> excursions, between, long_excursions, long_between;
+  // Of the lists as appended to (while a block's values are still in the cache: the merged lists
+  // of 10^5 cells, hundreds of MB, are then not read once more for it).
+  ValueRange excursions_range, between_range, long_excursions_range, long_between_range;
   void clear() { excursions.clear(), between.clear(), long_excursions.clear(), long_between.clear(); }
   void append_to(FieldEvents& to) const {
-    auto append = [](std::vector<double>& a, const std::vector<double>& b) { a.insert(a.end(), b.begin(), b.end()); };
-    append(to.excursions, excursions), append(to.between, between);
-    append(to.long_excursions, long_excursions), append(to.long_between, long_between);
+    auto append = [](std::vector<double>& a, ValueRange& r, const std::vector<double>& b) {
+      a.insert(a.end(), b.begin(), b.end());
+      r.add(b);
+    };
+    append(to.excursions, to.excursions_range, excursions), append(to.between, to.between_range, between);
+    append(to.long_excursions, to.long_excursions_range, long_excursions);
+    append(to.long_between, to.long_between_range, long_between);
   }
 };
 
@@ -755,34 +772,17 @@ LifelineField do_lifeline_field(const std::vector<double>& do_mol_m3, double cri
   return {"do", "critical DO", "mol/m3", "mmol/L", 1.0, do_mol_m3, critical_do_mol_m3, true};
 }
 
-Histogram log_histogram(const std::vector<double>& values, int bins, int threads) {
+namespace {
+
+// log_histogram with the range (smallest and largest positive value) known. Lists of 10^7 values
+// at 10^5 cells are split over the threads (they are idle by now).
+Histogram histogram_over(const std::vector<double>& values, int bins, int threads, double lo, double hi) {
   Histogram h;
   const auto n = static_cast<std::ptrdiff_t>(values.size());
   const double* x = values.data();
-  // Lists of 10^7 values at 10^5 cells: split over the threads (they are idle by now). Each pass
-  // keeps four partial results a value apart, so that no value waits for the one before it (a
-  // minimum, or a count in the same bin); minima, maxima and integer counts do not depend on how
-  // the values are split.
   threads = n > (1 << 16) ? std::max(threads, 1) : 1;
   constexpr int kWays = 4;
   const std::ptrdiff_t steps = n / kWays;
-  double lo = 1e300, hi = 0.0;
-#pragma omp parallel num_threads(threads)
-  {
-    double l[kWays] = {1e300, 1e300, 1e300, 1e300}, u[kWays] = {0.0, 0.0, 0.0, 0.0};
-#pragma omp for nowait
-    for (std::ptrdiff_t k = 0; k < steps; ++k) {
-      for (int j = 0; j < kWays; ++j) {
-        const double v = x[kWays * k + j];
-        l[j] = std::min(l[j], v > 0.0 ? v : 1e300), u[j] = std::max(u[j], v);
-      }
-    }
-#pragma omp critical(oxystrat_histogram_range)
-    for (int j = 0; j < kWays; ++j) lo = std::min(lo, l[j]), hi = std::max(hi, u[j]);
-  }
-  for (std::ptrdiff_t i = kWays * steps; i < n; ++i) {
-    if (x[i] > 0.0) lo = std::min(lo, x[i]), hi = std::max(hi, x[i]);
-  }
   if (hi <= 0.0) return h;
   if (hi <= lo) hi = lo * 1.0001;
   for (int i = 0; i <= bins; ++i) h.edges.push_back(lo * std::pow(hi / lo, static_cast<double>(i) / bins));
@@ -807,6 +807,8 @@ Histogram log_histogram(const std::vector<double>& values, int bins, int threads
     }
     return b;
   };
+  // Four partial counts a value apart, so that a count in the same bin does not wait for the one
+  // before; integer counts do not depend on how the values are split.
   std::vector<long> counts(static_cast<size_t>(kWays) * bins, 0);  // [way][bin]
   long* c = counts.data();
   const int cells = kWays * bins;
@@ -825,6 +827,35 @@ Histogram log_histogram(const std::vector<double>& values, int bins, int threads
     for (int b = 0; b < bins; ++b) h.counts[b] += static_cast<double>(c[j * bins + b]);
   }
   return h;
+}
+
+}  // namespace
+
+Histogram log_histogram(const std::vector<double>& values, int bins, int threads) {
+  const auto n = static_cast<std::ptrdiff_t>(values.size());
+  const double* x = values.data();
+  // Four partial minima and maxima a value apart, so that no value waits for the one before it.
+  threads = n > (1 << 16) ? std::max(threads, 1) : 1;
+  constexpr int kWays = 4;
+  const std::ptrdiff_t steps = n / kWays;
+  double lo = 1e300, hi = 0.0;
+#pragma omp parallel num_threads(threads)
+  {
+    double l[kWays] = {1e300, 1e300, 1e300, 1e300}, u[kWays] = {0.0, 0.0, 0.0, 0.0};
+#pragma omp for nowait
+    for (std::ptrdiff_t k = 0; k < steps; ++k) {
+      for (int j = 0; j < kWays; ++j) {
+        const double v = x[kWays * k + j];
+        l[j] = std::min(l[j], v > 0.0 ? v : 1e300), u[j] = std::max(u[j], v);
+      }
+    }
+#pragma omp critical(oxystrat_histogram_range)
+    for (int j = 0; j < kWays; ++j) lo = std::min(lo, l[j]), hi = std::max(hi, u[j]);
+  }
+  for (std::ptrdiff_t i = kWays * steps; i < n; ++i) {
+    if (x[i] > 0.0) lo = std::min(lo, x[i]), hi = std::max(hi, x[i]);
+  }
+  return histogram_over(values, bins, threads, lo, hi);
 }
 
 LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<LifelineField>& fields,
@@ -878,10 +909,11 @@ LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h
     s.between_long_excursions_s = std::move(ev.long_between);
     s.excursions_per_hour = cell_hours > 0 ? s.excursion_durations_s.size() / cell_hours : 0.0;
     s.long_excursions_per_hour = cell_hours > 0 ? s.long_excursion_durations_s.size() / cell_hours : 0.0;
-    s.excursion_histogram = log_histogram(s.excursion_durations_s, 20, threads);
-    s.between_histogram = log_histogram(s.between_excursions_s, 20, threads);
-    s.long_excursion_histogram = log_histogram(s.long_excursion_durations_s, 20, threads);
-    s.between_long_histogram = log_histogram(s.between_long_excursions_s, 20, threads);
+    s.excursion_histogram = histogram_over(s.excursion_durations_s, 20, threads, ev.excursions_range.lo, ev.excursions_range.hi);
+    s.between_histogram = histogram_over(s.between_excursions_s, 20, threads, ev.between_range.lo, ev.between_range.hi);
+    s.long_excursion_histogram =
+        histogram_over(s.long_excursion_durations_s, 20, threads, ev.long_excursions_range.lo, ev.long_excursions_range.hi);
+    s.between_long_histogram = histogram_over(s.between_long_excursions_s, 20, threads, ev.long_between_range.lo, ev.long_between_range.hi);
     res.fields.push_back(std::move(s));
   }
   RegimeStatistics& rs = res.regimes;
