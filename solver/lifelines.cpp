@@ -243,14 +243,13 @@ std::vector<ZoneRecord<LogColumns>> zone_records(const Chain& c) {
   using Record = ZoneRecord<LogColumns>;
   static_assert(sizeof(Record) % 64 == 0 && kEntersOtherKey < 64);
   if (static_cast<std::uint64_t>(c.zones) * sizeof(Record) >= kChangeBit) throw std::invalid_argument("lifelines: too many zones");
-  auto offset = [](std::uint32_t to) { return record_target<LogColumns>(to); };
   std::vector<Record> r(c.zones);
   for (int k = 0; k < c.zones; ++k) {
     r[k].mean_s = c.mean_dwell[k];
     for (int j = 0; j < Record::kColumns; ++j) {
       const size_t s = (static_cast<size_t>(k) << LogColumns) + j;
-      r[k].to[0][j] = offset(c.slots[s].to[0]);
-      r[k].to[1][j] = offset(c.slots[s].to[1]);
+      r[k].to[0][j] = record_target<LogColumns>(c.slots[s].to[0]);
+      r[k].to[1][j] = record_target<LogColumns>(c.slots[s].to[1]);
       r[k].top[j] = static_cast<std::uint16_t>(c.threshold[s] >> (64 - kCoinBits));
     }
   }
@@ -268,7 +267,7 @@ struct Walker {
 };
 
 // An entry into a zone with another key. Moves write one every time, without a branch, and keep
-// it only when the key changes (the pointer advances by the change bit): a branch there would be
+// it only when the key changes (the pointer advances by the slot's flag): a branch there would be
 // mispredicted on most of the 7 % of moves that change key, each miss discarding the work of all
 // the lanes in flight. The log is booked when it is full and when the cell ends.
 struct Entry {
@@ -392,15 +391,15 @@ class Simulator {
     return {record_target<LogColumns>(to), rng};
   }
 
-  // Books the entries of the lane's log up to `end`; returns the log's start. The end pointer by
+  // Books the entries of lane l's log up to `end`; returns the log's start. The end pointer by
   // value: a walker whose address escaped could not be kept unrolled.
-  // Whether an entry changes the regime, a field or both is close to random: the entries are first
-  // sorted into the two kinds without a branch, then each kind is booked in order by code whose
-  // branches follow the cell's own rhythm (a field's side alternates) and are predicted.
   template <int LogColumns>
   [[gnu::noinline]] Entry* book(const LaneSet& lanes, int l, const Entry* end) const {
     return book<LogColumns>(lanes.lanes[l], end, *lanes.tally, lanes.states[l]);
   }
+  // Whether an entry changes the regime, a field or both is close to random: the entries are first
+  // sorted into the two kinds without a branch, then each kind is booked in order by code whose
+  // branches follow the cell's own rhythm (a field's side alternates) and are predicted.
   template <int LogColumns>
   [[gnu::noinline]] Entry* book(Lane& lane, const Entry* end, Tally& tally, CellState& st) const {
     const Entry* log = lane.log.data();
@@ -648,7 +647,10 @@ double ExponentialZiggurat::base_edge(int layers) {
   return 0.5 * (lo + hi);
 }
 
-ExponentialZiggurat::ExponentialZiggurat() : r_(base_edge(kLayers)) {
+ExponentialZiggurat::ExponentialZiggurat() : r_([] {
+  static const double edge = base_edge(kLayers);  // once: the bisection takes some 10^5 exp and log
+  return edge;
+}()) {
   // Marsaglia & Tsang (2000)'s set-up with 32-bit abscissae, for kLayers layers.
   constexpr int n = kLayers;
   const double m = 0x1.0p32;
