@@ -5,7 +5,7 @@
 #include <string>
 #include <vector>
 
-#include "case/case_reader.hpp"
+#include "input/case_reader.hpp"
 
 namespace oxystrat::bench {
 

@@ -7,8 +7,8 @@
 #include <optional>
 
 #include "bench_cases.hpp"
-#include "case_run.hpp"
-#include "lifelines.hpp"
+#include "solver/oxygen/case_run.hpp"
+#include "solver/studies/lifelines.hpp"
 
 namespace oxystrat::bench {
 namespace {

@@ -14,10 +14,10 @@
 #include <memory>
 
 #include "bench_cases.hpp"
-#include "oxygen_field.hpp"
+#include "solver/oxygen/oxygen_field.hpp"
 #include "peer_problem.hpp"
-#include "transport.hpp"
-#include "zone_block_solver.hpp"
+#include "solver/flow/transport.hpp"
+#include "solver/linalg/zone_block_solver.hpp"
 
 namespace oxystrat::bench {
 namespace {

@@ -3,9 +3,9 @@
 #include <benchmark/benchmark.h>
 
 #include "bench_cases.hpp"
-#include "hydrodynamics.hpp"
-#include "mixing_time.hpp"
-#include "zone_network.hpp"
+#include "solver/flow/hydrodynamics.hpp"
+#include "solver/flow/mixing_time.hpp"
+#include "mesh/zone_network.hpp"
 
 namespace oxystrat::bench {
 namespace {

@@ -7,12 +7,12 @@
 #include <vector>
 
 #include "bench_cases.hpp"
-#include "gas_routing.hpp"
-#include "memory_policy.hpp"
-#include "hydrodynamics.hpp"
-#include "oxygen_field.hpp"
-#include "zone_network.hpp"
-#include "zone_block_solver.hpp"
+#include "solver/flow/gas_routing.hpp"
+#include "solver/linalg/memory_policy.hpp"
+#include "solver/flow/hydrodynamics.hpp"
+#include "solver/oxygen/oxygen_field.hpp"
+#include "mesh/zone_network.hpp"
+#include "solver/linalg/zone_block_solver.hpp"
 
 namespace oxystrat::bench {
 namespace {

@@ -8,7 +8,7 @@
 #include <stdexcept>
 
 #include "bench_cases.hpp"
-#include "sweep.hpp"
+#include "solver/studies/sweep.hpp"
 
 namespace oxystrat::bench {
 namespace {

@@ -21,16 +21,16 @@
 #include <string>
 #include <vector>
 
-#include "case/case_reader.hpp"
-#include "gas_routing.hpp"
+#include "input/case_reader.hpp"
+#include "solver/flow/gas_routing.hpp"
 #include "h5_read.hpp"
-#include "h5_writer.hpp"
-#include "hydrodynamics.hpp"
-#include "memory_policy.hpp"
-#include "oxygen_field.hpp"
+#include "postproc/io/h5_writer.hpp"
+#include "solver/flow/hydrodynamics.hpp"
+#include "solver/linalg/memory_policy.hpp"
+#include "solver/oxygen/oxygen_field.hpp"
 #include "peer_problem.hpp"
-#include "transport.hpp"
-#include "zone_network.hpp"
+#include "solver/flow/transport.hpp"
+#include "mesh/zone_network.hpp"
 
 namespace {
 

@@ -7,12 +7,12 @@
 #include <Eigen/Core>
 #include <vector>
 
-#include "gas_routing.hpp"
-#include "hydrodynamics.hpp"
-#include "mass_transfer.hpp"
-#include "oxygen_problem.hpp"
+#include "solver/flow/gas_routing.hpp"
+#include "solver/flow/hydrodynamics.hpp"
+#include "physics/mass_transfer.hpp"
+#include "solver/oxygen/oxygen_problem.hpp"
 #include "physics/solubility.hpp"
-#include "zone_network.hpp"
+#include "mesh/zone_network.hpp"
 
 namespace oxystrat::bench {
 

@@ -8,13 +8,13 @@
 #include <ctime>
 #include <optional>
 
-#include "calibrate.hpp"
-#include "calibrate_output.hpp"
-#include "case/units.hpp"
-#include "common.hpp"
-#include "h5_writer.hpp"
-#include "report.hpp"
-#include "run_folder.hpp"
+#include "solver/studies/calibrate.hpp"
+#include "postproc/report/calibrate_output.hpp"
+#include "input/units.hpp"
+#include "cli/common.hpp"
+#include "postproc/io/h5_writer.hpp"
+#include "postproc/report/report.hpp"
+#include "postproc/io/run_folder.hpp"
 
 namespace oxystrat::cli {
 namespace {
@@ -38,7 +38,7 @@ std::pair<double, double> parse_point(const std::string& option, const std::stri
   try {
     return {units::parse(units::Dimension::length, text.substr(0, comma)),
             units::parse(units::Dimension::length, text.substr(comma + 1))};
-  } catch (const units::UnitError& e) {
+  } catch (const UnitError& e) {
     throw CaseError(fmt::format("{} '{}': {}", option, text, e.what()));
   }
 }

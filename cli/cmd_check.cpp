@@ -1,9 +1,9 @@
 // oxystrat check CASE: validate a case and print the geometry it describes; writes nothing.
 #include <fmt/format.h>
 
-#include "common.hpp"
-#include "text_summary.hpp"
-#include "zone_network.hpp"
+#include "cli/common.hpp"
+#include "postproc/report/text_summary.hpp"
+#include "mesh/zone_network.hpp"
 
 namespace oxystrat::cli {
 

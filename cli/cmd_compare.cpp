@@ -4,18 +4,18 @@
 #include <filesystem>
 #include <set>
 
-#include "common.hpp"
-#include "h5_writer.hpp"
-#include "hydro_output.hpp"
-#include "mixing_time.hpp"
-#include "network_output.hpp"
-#include "oxygen_output.hpp"
-#include "progress.hpp"
-#include "report.hpp"
-#include "run_folder.hpp"
-#include "summary_values.hpp"
-#include "sweep.hpp"
-#include "table_output.hpp"
+#include "cli/common.hpp"
+#include "postproc/io/h5_writer.hpp"
+#include "postproc/report/hydro_output.hpp"
+#include "solver/flow/mixing_time.hpp"
+#include "postproc/io/network_output.hpp"
+#include "postproc/report/oxygen_output.hpp"
+#include "postproc/io/progress.hpp"
+#include "postproc/report/report.hpp"
+#include "postproc/io/run_folder.hpp"
+#include "solver/oxygen/summary_values.hpp"
+#include "solver/studies/sweep.hpp"
+#include "postproc/report/table_output.hpp"
 
 namespace oxystrat::cli {
 namespace {

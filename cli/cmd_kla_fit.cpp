@@ -4,14 +4,14 @@
 
 #include <optional>
 
-#include "case/case_reader.hpp"
-#include "case/units.hpp"
-#include "common.hpp"
-#include "h5_writer.hpp"
-#include "kla_fit.hpp"
-#include "kla_fit_output.hpp"
-#include "report.hpp"
-#include "run_folder.hpp"
+#include "input/case_reader.hpp"
+#include "input/units.hpp"
+#include "cli/common.hpp"
+#include "postproc/io/h5_writer.hpp"
+#include "solver/fit/kla_fit.hpp"
+#include "postproc/report/kla_fit_output.hpp"
+#include "postproc/report/report.hpp"
+#include "postproc/io/run_folder.hpp"
 
 namespace oxystrat::cli {
 namespace {
@@ -36,7 +36,7 @@ void parse_probe_lag(const std::string& text, KlaFitOptions& o) {
   double tau = 0.0;
   try {
     tau = units::parse(units::Dimension::time, text);
-  } catch (const units::UnitError& e) {
+  } catch (const UnitError& e) {
     throw CaseError(fmt::format("--probe-lag '{}': expected auto, none or a time with its unit, e.g. --probe-lag "
                                 "\"12 s\" ({})",
                                 text, e.what()));

@@ -1,16 +1,16 @@
 // oxystrat lifelines CASE --cells N --duration T --out DIR: what cells experience.
 #include <fmt/format.h>
 
-#include "case/units.hpp"
-#include "case_run.hpp"
-#include "common.hpp"
-#include "h5_writer.hpp"
-#include "lifeline_output.hpp"
-#include "lifelines.hpp"
-#include "network_output.hpp"
-#include "report.hpp"
-#include "run_folder.hpp"
-#include "transient.hpp"
+#include "input/units.hpp"
+#include "solver/oxygen/case_run.hpp"
+#include "cli/common.hpp"
+#include "postproc/io/h5_writer.hpp"
+#include "postproc/report/lifeline_output.hpp"
+#include "solver/studies/lifelines.hpp"
+#include "postproc/io/network_output.hpp"
+#include "postproc/report/report.hpp"
+#include "postproc/io/run_folder.hpp"
+#include "solver/oxygen/transient.hpp"
 
 namespace oxystrat::cli {
 namespace {
@@ -30,7 +30,7 @@ struct LifelineCommandOptions {
 double time_text(const std::string& option, const std::string& text) {
   try {
     return units::parse(units::Dimension::time, text);
-  } catch (const units::UnitError& e) {
+  } catch (const UnitError& e) {
     throw CaseError(fmt::format("{} '{}': {}", option, text, e.what()));
   }
 }
@@ -63,7 +63,7 @@ void add_lifelines_command(CLI::App& app) {
     lo.threads = o->threads;
     try {
       lo.duration_s = units::parse(units::Dimension::time, o->duration);
-    } catch (const units::UnitError& e) {
+    } catch (const UnitError& e) {
       throw CaseError(fmt::format("--duration '{}': {}", o->duration, e.what()));
     }
     if (!(lo.duration_s > 0.0 && lo.duration_s <= 30 * 86400.0)) {
@@ -82,7 +82,7 @@ void add_lifelines_command(CLI::App& app) {
     if (!o->min_excursion.empty()) {
       try {
         lo.min_excursion_s = units::parse(units::Dimension::time, o->min_excursion);
-      } catch (const units::UnitError& e) {
+      } catch (const UnitError& e) {
         throw CaseError(fmt::format("--min-excursion '{}': {}", o->min_excursion, e.what()));
       }
       if (!(lo.min_excursion_s > 0.0 && lo.min_excursion_s < lo.duration_s)) {
@@ -124,7 +124,7 @@ void add_lifelines_command(CLI::App& app) {
         if (!o->substrate_threshold.empty()) {
           try {
             threshold = units::parse(units::Dimension::biomass, o->substrate_threshold);
-          } catch (const units::UnitError& e) {
+          } catch (const UnitError& e) {
             throw CaseError(fmt::format("--substrate-threshold '{}': {}", o->substrate_threshold, e.what()));
           }
           if (!(threshold > 0.0 && threshold <= 1000.0)) {

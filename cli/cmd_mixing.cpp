@@ -3,14 +3,14 @@
 
 #include <filesystem>
 
-#include "case/units.hpp"
-#include "common.hpp"
-#include "h5_writer.hpp"
-#include "hydro_output.hpp"
-#include "mixing_time.hpp"
-#include "network_output.hpp"
-#include "run_folder.hpp"
-#include "vtk_writer.hpp"
+#include "input/units.hpp"
+#include "cli/common.hpp"
+#include "postproc/io/h5_writer.hpp"
+#include "postproc/report/hydro_output.hpp"
+#include "solver/flow/mixing_time.hpp"
+#include "postproc/io/network_output.hpp"
+#include "postproc/io/run_folder.hpp"
+#include "postproc/io/vtk_writer.hpp"
 
 namespace oxystrat::cli {
 namespace {
@@ -31,7 +31,7 @@ std::pair<double, double> parse_position(const std::string& option, const std::s
   try {
     return {units::parse(units::Dimension::length, text.substr(0, comma)),
             units::parse(units::Dimension::length, text.substr(comma + 1))};
-  } catch (const units::UnitError& e) {
+  } catch (const UnitError& e) {
     throw CaseError(fmt::format("{} '{}': {}", option, text, e.what()));
   }
 }

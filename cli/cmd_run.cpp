@@ -1,23 +1,23 @@
 // oxystrat run CASE --out DIR: the main job on one case.
 #include <fmt/format.h>
 
-#include "common.hpp"
-#include "h5_writer.hpp"
-#include "hydro_output.hpp"
-#include "case_run.hpp"
-#include "oxygen_output.hpp"
-#include "report.hpp"
-#include "trust_output.hpp"
-#include "grid_check.hpp"
-#include "mixing_time.hpp"
-#include "uncertainty.hpp"
+#include "cli/common.hpp"
+#include "postproc/io/h5_writer.hpp"
+#include "postproc/report/hydro_output.hpp"
+#include "solver/oxygen/case_run.hpp"
+#include "postproc/report/oxygen_output.hpp"
+#include "postproc/report/report.hpp"
+#include "postproc/report/trust_output.hpp"
+#include "solver/studies/grid_check.hpp"
+#include "solver/flow/mixing_time.hpp"
+#include "solver/studies/uncertainty.hpp"
 
 #include <optional>
-#include "network_output.hpp"
-#include "run_folder.hpp"
-#include "text_summary.hpp"
-#include "vtk_writer.hpp"
-#include "zone_network.hpp"
+#include "postproc/io/network_output.hpp"
+#include "postproc/io/run_folder.hpp"
+#include "postproc/report/text_summary.hpp"
+#include "postproc/io/vtk_writer.hpp"
+#include "mesh/zone_network.hpp"
 
 namespace oxystrat::cli {
 

@@ -6,15 +6,15 @@
 #include <functional>
 #include <optional>
 
-#include "common.hpp"
-#include "h5_writer.hpp"
-#include "network_output.hpp"
-#include "progress.hpp"
-#include "ranks.hpp"
-#include "report.hpp"
-#include "run_folder.hpp"
-#include "sweep.hpp"
-#include "table_output.hpp"
+#include "cli/common.hpp"
+#include "postproc/io/h5_writer.hpp"
+#include "postproc/io/network_output.hpp"
+#include "postproc/io/progress.hpp"
+#include "cli/ranks.hpp"
+#include "postproc/report/report.hpp"
+#include "postproc/io/run_folder.hpp"
+#include "solver/studies/sweep.hpp"
+#include "postproc/report/table_output.hpp"
 
 namespace oxystrat::cli {
 namespace {

@@ -2,12 +2,12 @@
 // and a growing, fed culture.
 #include <fmt/format.h>
 
-#include "case/units.hpp"
-#include "common.hpp"
-#include "progress.hpp"
-#include "run_folder.hpp"
-#include "transient.hpp"
-#include "transient_output.hpp"
+#include "input/units.hpp"
+#include "cli/common.hpp"
+#include "postproc/io/progress.hpp"
+#include "postproc/io/run_folder.hpp"
+#include "solver/oxygen/transient.hpp"
+#include "postproc/report/transient_output.hpp"
 
 namespace oxystrat::cli {
 namespace {
@@ -24,7 +24,7 @@ double time_option(const std::string& name, const std::string& text) {
   try {
     const double t = units::parse(units::Dimension::time, text);
     if (t > 0.0 && t <= 100 * 86400.0) return t;
-  } catch (const units::UnitError& e) {
+  } catch (const UnitError& e) {
     throw CaseError(fmt::format("{} '{}': {}", name, text, e.what()));
   }
   throw CaseError(fmt::format("{} '{}': allowed more than 0 s and at most 100 d", name, text));

@@ -1,12 +1,13 @@
 // oxystrat validate --out DIR: every published check the model makes, in one table.
 #include <fmt/format.h>
 
-#include "common.hpp"
-#include "h5_writer.hpp"
-#include "report.hpp"
-#include "run_folder.hpp"
-#include "validation.hpp"
-#include "validation_output.hpp"
+#include "cli/common.hpp"
+#include "postproc/io/h5_writer.hpp"
+#include "postproc/report/report.hpp"
+#include "postproc/io/run_folder.hpp"
+#include "solver/studies/validation.hpp"
+#include "postproc/report/validation_output.hpp"
+#include "input/errors.hpp"
 
 namespace oxystrat::cli {
 
@@ -33,7 +34,7 @@ void add_validate_command(CLI::App& app) {
     folder.commit();
     fmt::print("{} of {} checks pass. Wrote {}/validation.csv, result.h5, report.html\n", results.size() - failed,
                results.size(), folder.target().string());
-    if (failed > 0) throw std::runtime_error(fmt::format("{} validation check(s) FAILED (listed above)", failed));
+    if (failed > 0) throw Error(fmt::format("{} validation check(s) FAILED (listed above)", failed));
   });
 }
 

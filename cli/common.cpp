@@ -1,4 +1,4 @@
-#include "common.hpp"
+#include "cli/common.hpp"
 
 #include <fmt/format.h>
 

@@ -6,7 +6,7 @@
 #include <string>
 #include <vector>
 
-#include "case/case_reader.hpp"
+#include "input/case_reader.hpp"
 
 namespace oxystrat::cli {
 

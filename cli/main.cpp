@@ -4,9 +4,9 @@
 #include <CLI/CLI.hpp>
 #include <exception>
 
-#include "common.hpp"
-#include "memory_policy.hpp"
-#include "ranks.hpp"
+#include "cli/common.hpp"
+#include "solver/linalg/memory_policy.hpp"
+#include "cli/ranks.hpp"
 
 #ifndef OXYSTRAT_VERSION
 #define OXYSTRAT_VERSION "0.0.0"

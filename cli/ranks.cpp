@@ -1,4 +1,4 @@
-#include "ranks.hpp"
+#include "cli/ranks.hpp"
 
 #include <cstdlib>
 

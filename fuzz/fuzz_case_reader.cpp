@@ -17,7 +17,7 @@
 #include <string_view>
 #include <vector>
 
-#include "case/case_reader.hpp"
+#include "input/case_reader.hpp"
 
 namespace {
 

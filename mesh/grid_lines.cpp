@@ -1,4 +1,4 @@
-#include "grid_lines.hpp"
+#include "mesh/grid_lines.hpp"
 
 #include <algorithm>
 #include <cmath>

@@ -1,4 +1,4 @@
-#include "zone_network.hpp"
+#include "mesh/zone_network.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -6,7 +6,8 @@
 #include <numeric>
 #include <stdexcept>
 
-#include "grid_lines.hpp"
+#include "mesh/grid_lines.hpp"
+#include "input/errors.hpp"
 
 namespace oxystrat {
 namespace {
@@ -197,7 +198,7 @@ ZoneNetwork build_zone_geometry(const Case& c) {
     }
     if (total <= 0.0) {  // footprint in a dry cell (coarse grid in the head): use the zone above the sparger
       const int k = net.zone_containing(0.5 * rs, zs);
-      if (k < 0) throw std::runtime_error("sparger lies outside the liquid");
+      if (k < 0) throw CaseError("sparger lies outside the liquid");
       net.sparger_share[k] = total = 1.0;
     }
     for (int k = 0; k < nz; ++k) {

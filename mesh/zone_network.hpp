@@ -4,8 +4,8 @@
 
 #include <vector>
 
-#include "case/case.hpp"
-#include "vessel_shape.hpp"
+#include "input/case.hpp"
+#include "physics/vessel_shape.hpp"
 
 namespace oxystrat {
 

@@ -1,8 +1,8 @@
 // Every bundled case in cases/ is checked and run by the real executable, so the demos never rot.
 // The list comes from a directory listing when the tests are discovered (at ctest start), so a
 // new case file is covered without touching this file.
-#include "case/case_reader.hpp"  // project headers first: see tests/case/unit_check.hpp
-#include "zone_network.hpp"
+#include "input/case_reader.hpp"  // project headers first: see tests/case/unit_check.hpp
+#include "mesh/zone_network.hpp"
 
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>

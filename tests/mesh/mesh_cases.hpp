@@ -4,8 +4,8 @@
 
 #include <numbers>
 
-#include "case/case.hpp"
-#include "zone_network.hpp"
+#include "input/case.hpp"
+#include "mesh/zone_network.hpp"
 
 namespace oxystrat::test {
 

@@ -1,5 +1,5 @@
 // Grid lines along one axis: through every required position, with cells shared out by length.
-#include "grid_lines.hpp"
+#include "mesh/grid_lines.hpp"
 
 #include <gtest/gtest.h>
 

@@ -1,5 +1,5 @@
 // Hydrostatic pressure at each zone centroid, ungassed: p = p_head + rho g (H - z_c).
-#include "zone_network.hpp"
+#include "mesh/zone_network.hpp"
 
 #include <gtest/gtest.h>
 

@@ -1,5 +1,5 @@
 // Exact vessel geometry against analytic head formulas, and partitions of the liquid into cells.
-#include "vessel_shape.hpp"
+#include "physics/vessel_shape.hpp"
 
 #include <gtest/gtest.h>
 

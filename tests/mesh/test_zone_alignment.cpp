@@ -1,6 +1,6 @@
 // Grid alignment: impeller bands, tip radii, the sparger and the head seam are grid lines, so
 // each impeller's swept volume is a set of whole zones and sparged gas enters known zones.
-#include "zone_network.hpp"
+#include "mesh/zone_network.hpp"
 
 #include <gtest/gtest.h>
 

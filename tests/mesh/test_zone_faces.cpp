@@ -1,6 +1,6 @@
 // Faces join neighbouring zones only, with their wetted areas; together they cover every
 // internal surface of the liquid.
-#include "zone_network.hpp"
+#include "mesh/zone_network.hpp"
 
 #include <gtest/gtest.h>
 

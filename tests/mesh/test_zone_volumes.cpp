@@ -1,5 +1,5 @@
 // The zones partition the liquid: their volumes add up to the analytic liquid volume.
-#include "zone_network.hpp"
+#include "mesh/zone_network.hpp"
 
 #include <gtest/gtest.h>
 

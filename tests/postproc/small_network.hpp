@@ -1,8 +1,8 @@
 // The small test case of tests/data and its zone network, shared by the output tests.
 #pragma once
 
-#include "case/case_reader.hpp"
-#include "zone_network.hpp"
+#include "input/case_reader.hpp"
+#include "mesh/zone_network.hpp"
 
 namespace oxystrat::test {
 

@@ -1,6 +1,6 @@
 // result.h5 contents: the case and the zone network, read back and compared with what was written;
 // every dataset in the file carries a "units" attribute.
-#include "network_output.hpp"
+#include "postproc/io/network_output.hpp"
 
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>

@@ -1,5 +1,5 @@
 // H5Writer: every kind of dataset it writes reads back unchanged with its "units" attribute.
-#include "h5_writer.hpp"
+#include "postproc/io/h5_writer.hpp"
 
 #include <gtest/gtest.h>
 

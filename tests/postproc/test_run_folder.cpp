@@ -1,6 +1,6 @@
 // RunFolder: results appear in the target folder only when complete; an old result is replaced
 // only with force and only at commit; an abandoned run leaves nothing behind.
-#include "run_folder.hpp"
+#include "postproc/io/run_folder.hpp"
 
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>

@@ -1,6 +1,6 @@
 // zones.vtu (the network revolved into sectors) and section.vtu (the (r, z) half-section), read
 // back with VTK's own XML reader.
-#include "vtk_writer.hpp"
+#include "postproc/io/vtk_writer.hpp"
 
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
@@ -21,7 +21,7 @@
 #include <numbers>
 #include <string>
 
-#include "network_output.hpp"
+#include "postproc/io/network_output.hpp"
 #include "small_network.hpp"
 #include "temp_folder.hpp"
 

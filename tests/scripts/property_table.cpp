@@ -2,7 +2,7 @@
 // to compare with independent libraries (TEOS-10 gsw, IAPWS-IF97 iapws, pint).
 #include <fmt/format.h>
 
-#include "case/units.hpp"
+#include "input/units.hpp"
 #include "physics/solubility.hpp"
 
 int main() {

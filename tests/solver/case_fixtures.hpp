@@ -5,11 +5,11 @@
 
 #include <string>
 
-#include "case/case_reader.hpp"
-#include "gas_routing.hpp"
-#include "hydrodynamics.hpp"
-#include "zone_network.hpp"
-#include "reference_cases.hpp"
+#include "input/case_reader.hpp"
+#include "solver/flow/gas_routing.hpp"
+#include "solver/flow/hydrodynamics.hpp"
+#include "mesh/zone_network.hpp"
+#include "solver/studies/reference_cases.hpp"
 
 namespace oxystrat::testing {
 

@@ -1,0 +1,52 @@
+// Gas holdup and volumetric mass-transfer coefficients: free functions, SI in and out.
+#pragma once
+
+#include <string>
+
+namespace oxystrat {
+
+enum class Coalescence { coalescing, non_coalescing };
+std::string to_string(Coalescence c);
+
+//! Drift-flux gas holdup eps_G = j_G / (j_G + u_slip) [-] for superficial gas velocity j_G [m/s]
+//! (Zuber & Findlay 1965 form with distribution parameter 1 and zero net liquid flux), capped at
+//! max_holdup: beyond ~0.3 bubbly flow gives way to churning plumes that spread sideways, which a
+//! zone column cannot represent (our modelling choice; typical stirred-tank holdups are 0.05-0.25).
+double drift_flux_holdup(double superficial_gas_m_s, double slip_velocity_m_s);
+inline constexpr double max_holdup = 0.3;
+
+struct VantRietConstants {
+  double prefactor;       //!< SI: kLa [1/s], P/V [W/m3], vs [m/s]
+  double power_exponent;  //!< on P/V
+  double gas_exponent;    //!< on vs
+};
+
+//! van 't Riet (1979), Ind. Eng. Chem. Process Des. Dev. 18:357: coalescing 0.026 (P/V)^0.4 vs^0.5;
+//! non-coalescing 0.002 (P/V)^0.7 vs^0.2.
+VantRietConstants vant_riet_constants(Coalescence c);
+
+//! kLa from the van 't Riet form [1/s] at power per volume [W/m3] and superficial velocity [m/s].
+double vant_riet_kla(const VantRietConstants& k, double power_per_volume_w_m3, double superficial_gas_m_s);
+
+//! Liquid-side coefficient from the eddy model, kL = 0.523 (eps nu)^(1/4) Sc^(-1/2) [m/s]
+//! (Linek, Kordac & Moucha 2004 fit of Lamont & Scott's eddy-cell model).
+double eddy_model_kl(double epsilon_w_kg, double kinematic_viscosity_m2_s, double schmidt);
+
+//! Interfacial area a = 6 eps_G / d32 [1/m].
+double interfacial_area(double holdup, double sauter_diameter_m);
+
+//! Default Sauter mean bubble diameter [m]: 4 mm coalescing, 1.5 mm non-coalescing [mem].
+double default_bubble_diameter(Coalescence c);
+
+//! Temperature correction theta^(T - 20 degC), theta = 1.024 (common practice in clean-water
+//! aeration testing, e.g. ASCE/EWRI 2-06).
+double kla_temperature_factor(double temperature_k);
+
+//! O2 diffusivity in water [m2/s]: 2.1e-9 at 25 degC [mem], scaled as T / mu_water(T)
+//! (Stokes-Einstein).
+double o2_diffusivity(double temperature_k);
+
+//! kLa_CO2 / kLa_O2 = (D_CO2 / D_O2)^(1/2) ~ 0.9 [common practice].
+inline constexpr double co2_kla_ratio = 0.9;
+
+}  // namespace oxystrat

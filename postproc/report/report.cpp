@@ -1,0 +1,240 @@
+#include "postproc/report/report.hpp"
+
+#include <fmt/format.h>
+
+#include <cmath>
+#include <fstream>
+#include <stdexcept>
+
+#include "postproc/report/svg_plot.hpp"
+#include "input/errors.hpp"
+
+namespace oxystrat {
+namespace {
+
+using svg::escape;
+
+const char* kColors[] = {"#1f77b4", "#ff7f0e", "#2ca02c", "#9467bd", "#8c564b", "#e377c2"};
+
+std::string number(double v) { return std::isfinite(v) ? fmt::format("{:.4g}", v) : "&ndash;"; }
+
+std::string values_table(const std::vector<SummaryValue>& values) {
+  std::string s = "<table><tr><th>quantity</th><th>value</th><th>unit</th></tr>\n";
+  for (const auto& v : values) {
+    s += fmt::format("<tr><td>{}</td><td class=\"num\">{}</td><td>{}</td></tr>\n", escape(v.label), number(v.value),
+                     escape(v.unit));
+  }
+  return s + "</table>\n";
+}
+
+std::string list(const std::vector<std::string>& items, const std::string& empty) {
+  if (items.empty()) return "<p>" + escape(empty) + "</p>\n";
+  std::string s = "<ul>\n";
+  for (const auto& i : items) s += "<li>" + escape(i) + "</li>\n";
+  return s + "</ul>\n";
+}
+
+std::vector<svg::Outline> outlines(const Case& c) {
+  std::vector<svg::Outline> o;
+  for (size_t m = 0; m < c.impellers.size(); ++m) {
+    const auto& i = c.impellers[m];
+    o.push_back({0.0, 0.5 * i.diameter_m, i.elevation_m - 0.5 * i.blade_height_m, i.elevation_m + 0.5 * i.blade_height_m,
+                 fmt::format("impeller {} ({})", m, to_string(i.type))});
+  }
+  if (c.has_sparger) {
+    o.push_back({0.0, 0.5 * c.sparger.diameter_m, c.sparger.elevation_m, c.sparger.elevation_m, "sparger"});
+  }
+  return o;
+}
+
+}  // namespace
+
+void write_text_file(const std::string& path, const std::string& text) {
+  std::ofstream out(path, std::ios::binary);
+  out << text;
+  if (!out) throw IoError("cannot write " + path);
+}
+
+std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s) {
+  std::string s = "<h2>" + escape(c.title) + "</h2>\n<div class=\"row\"><div>\n<h3>Summary</h3>\n";
+  s += values_table(summary_values(c, run, theta95_s));
+  s += "</div><div>\n<h3>Cautions</h3>\n" + list(run.cautions, "None apply.");
+  s += "<h3>Notes</h3>\n" + list(run.notes, "None.") + "</div></div>\n";
+  if (!run.field) return s;
+  if (!run.single_zone) throw std::logic_error("the run report needs the single-zone field (run_case with single_zone)");
+  const auto& f = *run.field;
+  const auto p = height_profile(run.net, f.do_mol_m3);
+  const double crit = c.culture.critical_do_mol_m3;
+  s += "<div class=\"row\">\n";
+  s += svg::line_chart("Dissolved O2 by height", "DO [mmol/L]", "height [m]",
+                       {{"min", p.min, p.z, "#d62728"}, {"mean", p.mean, p.z, "#1f77b4"}, {"max", p.max, p.z, "#2ca02c"},
+                        {"single zone", {run.single_zone->do_min, run.single_zone->do_min}, {0.0, run.net.liquid_height},
+                         "#7f7f7f", true}},
+                       {{true, crit, "critical DO"}});
+  s += svg::zone_map(run.net, f.do_mol_m3, "DO in the (r, z) section", "mmol/L", outlines(c), crit);
+  std::vector<bool> gassed(f.holdup.size());
+  for (size_t k = 0; k < gassed.size(); ++k) gassed[k] = f.holdup[k] > 0.0;
+  const auto ps = height_profile(run.net, f.cstar_mol_m3, gassed);
+  const auto pk = height_profile(run.net, f.kla_1_s);
+  std::vector<double> kla_h(pk.mean.size());
+  for (size_t i = 0; i < kla_h.size(); ++i) kla_h[i] = 3600.0 * pk.mean[i];
+  s += svg::line_chart("C* by height", "C* [mmol/L]", "height [m]", {{"C* (gassed zones)", ps.mean, ps.z, "#9467bd"}});
+  s += svg::line_chart("kLa by height", "kLa [1/h]", "height [m]", {{"kLa (level mean)", kla_h, pk.z, "#ff7f0e"}});
+  s += "</div>\n";
+  return s;
+}
+
+std::string compare_report_body(const std::vector<ComparedCase>& cases) {
+  std::string s = "<h2>Configurations side by side</h2>\n<table><tr><th>quantity</th><th>unit</th>";
+  for (const auto& c : cases) s += "<th>" + escape(c.name) + "</th>";
+  s += "</tr>\n";
+  if (!cases.empty()) {
+    for (size_t q = 0; q < cases.front().values.size(); ++q) {
+      s += fmt::format("<tr><td>{}</td><td>{}</td>", escape(cases.front().values[q].label), escape(cases.front().values[q].unit));
+      for (const auto& c : cases) s += "<td class=\"num\">" + number(c.values[q].value) + "</td>";
+      s += "</tr>\n";
+    }
+    s += "<tr><td>constraints</td><td></td>";
+    for (const auto& c : cases) s += std::string("<td>") + (feasible(c.checks) ? "all met" : "<b>violated</b>") + "</td>";
+    s += "</tr>\n";
+  }
+  s += "</table>\n<div class=\"row\">\n";
+  std::vector<std::string> names;
+  std::vector<double> do_min, do_single, xmax, xmax_single, pg;
+  for (const auto& c : cases) {
+    names.push_back(c.name);
+    do_min.push_back(summary_value(c.values, "do_min"));
+    do_single.push_back(summary_value(c.values, "do_single_zone"));
+    xmax.push_back(summary_value(c.values, "max_biomass"));
+    xmax_single.push_back(summary_value(c.values, "max_biomass_single_zone"));
+    pg.push_back(summary_value(c.values, "power_gassed"));
+  }
+  // Whiskers (P10-P90) where the comparison ran with --uncertainty.
+  const auto band = [&](const char* name) {
+    std::vector<std::vector<double>> lo(1), hi(1);
+    for (const auto& c : cases) {
+      bool found = false;
+      for (const auto& v : c.values) found = found || v.name == std::string(name) + "_p10";
+      lo[0].push_back(found ? summary_value(c.values, std::string(name) + "_p10") : std::nan(""));
+      hi[0].push_back(found ? summary_value(c.values, std::string(name) + "_p90") : std::nan(""));
+    }
+    return std::pair{lo, hi};
+  };
+  const auto [do_lo, do_hi] = band("do_min");
+  const auto [x_lo, x_hi] = band("max_biomass");
+  s += svg::bar_chart("Minimum DO", "DO [mmol/L]", names, {"zone model", "single zone"}, {do_min, do_single}, 520, 300,
+                      do_lo, do_hi);
+  s += svg::bar_chart("Supportable biomass", "biomass [g/L]", names, {"zone model", "single zone"}, {xmax, xmax_single},
+                      520, 300, x_lo, x_hi);
+  s += svg::bar_chart("Gassed power", "power [kW]", names, {"Pg"}, {pg});
+  std::vector<svg::Series> profiles;
+  for (size_t i = 0; i < cases.size(); ++i) {
+    if (!cases[i].run->field) continue;
+    const auto p = height_profile(cases[i].run->net, cases[i].run->field->do_mol_m3);
+    profiles.push_back({cases[i].name, p.mean, p.z, kColors[i % 6]});
+  }
+  if (!profiles.empty()) {
+    s += svg::line_chart("Mean DO by height", "DO [mmol/L]", "height [m]", profiles,
+                         {{true, cases.front().data->culture.critical_do_mol_m3, "critical DO"}});
+  }
+  s += "</div>\n";
+  for (const auto& c : cases) {
+    s += "<h3>" + escape(c.name) + ": constraints and cautions</h3>\n";
+    std::vector<std::string> lines;
+    for (const auto& k : c.checks) lines.push_back((k.satisfied ? "met: " : "VIOLATED: ") + k.detail);
+    for (const auto& w : c.run->cautions) lines.push_back("caution: " + w);
+    s += list(lines, "None.");
+  }
+  return s;
+}
+
+std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResult>& results,
+                              const std::vector<bool>& pareto, int chosen, const std::string& objective) {
+  std::string s = "<h2>Operating window</h2>\n";
+  size_t feasible_count = 0;
+  for (const auto& r : results) feasible_count += r.ok && r.feasible ? 1 : 0;
+  s += fmt::format("<p>{} points, {} feasible. ", results.size(), feasible_count);
+  if (chosen >= 0) {
+    s += "Chosen (least " + escape(objective) + " among feasible points): ";
+    for (size_t d = 0; d < plan.axes.size(); ++d) {
+      s += fmt::format("{} = {:.4g} {}; ", escape(plan.axes[d].key), plan.points[chosen][d], escape(plan.axes[d].unit));
+    }
+  } else {
+    s += "No feasible point.";
+  }
+  s += "</p>\n<div class=\"row\">\n";
+  const std::vector<std::string> groups{"failed / infeasible", "feasible", "chosen"};
+  const std::vector<std::string> colors{"#cccccc", "#2ca02c", "#d62728"};
+  const auto group_of = [&](size_t i) { return static_cast<int>(i) == chosen ? 2 : (results[i].ok && results[i].feasible ? 1 : 0); };
+  if (plan.axes.size() >= 2) {
+    std::vector<svg::ScatterPoint> pts;
+    for (size_t i = 0; i < results.size(); ++i) pts.push_back({plan.points[i][0], plan.points[i][1], group_of(i)});
+    s += svg::scatter_chart("Feasible region", plan.axes[0].key + " [" + plan.axes[0].unit + "]",
+                            plan.axes[1].key + " [" + plan.axes[1].unit + "]", pts, groups, colors);
+  }
+  if (!plan.axes.empty()) {
+    std::vector<svg::ScatterPoint> pts;
+    for (size_t i = 0; i < results.size(); ++i) {
+      if (results[i].ok) pts.push_back({plan.points[i][0], summary_value(results[i].values, "do_min"), group_of(i)});
+    }
+    s += svg::scatter_chart("DO min over the first axis", plan.axes[0].key + " [" + plan.axes[0].unit + "]",
+                            "DO min [mmol/L]", pts, groups, colors);
+  }
+  std::vector<svg::ScatterPoint> front;
+  for (size_t i = 0; i < results.size(); ++i) {
+    if (!results[i].ok) continue;
+    const int g = static_cast<int>(i) == chosen ? 2 : (pareto[i] ? 1 : 0);
+    front.push_back({summary_value(results[i].values, "power_gassed"), summary_value(results[i].values, "do_min"), g});
+  }
+  s += svg::scatter_chart("Power against DO min", "gassed power [kW]", "DO min [mmol/L]", front,
+                          {"dominated", "Pareto front", "chosen"}, {"#cccccc", "#1f77b4", "#d62728"});
+  s += "</div>\n<h3>Points</h3>\n<table><tr><th>#</th>";
+  for (const auto& a : plan.axes) s += "<th>" + escape(a.key) + " [" + escape(a.unit) + "]</th>";
+  s += "<th>feasible</th><th>P gassed [kW]</th><th>DO min [mmol/L]</th><th>below critical [%]</th><th>max biomass [g/L]</th></tr>\n";
+  const size_t shown = std::min<size_t>(results.size(), 500);
+  for (size_t i = 0; i < shown; ++i) {
+    s += fmt::format("<tr{}><td>{}</td>", static_cast<int>(i) == chosen ? " class=\"chosen\"" : "", i);
+    for (double v : plan.points[i]) s += "<td class=\"num\">" + number(v) + "</td>";
+    if (!results[i].ok) {
+      s += "<td colspan=\"5\">failed: " + escape(results[i].error) + "</td></tr>\n";
+      continue;
+    }
+    s += fmt::format("<td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td></tr>\n",
+                     results[i].feasible ? "yes" : "no", number(summary_value(results[i].values, "power_gassed")),
+                     number(summary_value(results[i].values, "do_min")),
+                     number(summary_value(results[i].values, "volume_below_critical")),
+                     number(summary_value(results[i].values, "max_biomass")));
+  }
+  s += "</table>\n";
+  if (shown < results.size()) s += fmt::format("<p>First {} of {} points; all are in sweep.csv.</p>\n", shown, results.size());
+  return s;
+}
+
+std::string report_page(const std::string& title, const std::string& body, bool zone_model_method) {
+  std::string s = "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>" + escape(title) +
+                  "</title>\n<style>body{font-family:sans-serif;margin:24px;max-width:1400px;color:#222}"
+                  "table{border-collapse:collapse;margin:8px 0}td,th{border:1px solid #ccc;padding:3px 8px;font-size:13px}"
+                  "td.num{text-align:right;font-variant-numeric:tabular-nums}tr.chosen{background:#fde0dd}"
+                  ".row{display:flex;flex-wrap:wrap;gap:16px;align-items:flex-start}svg{border:1px solid #eee}"
+                  "h2{border-bottom:2px solid #1f77b4}</style></head>\n<body>\n<h1>" +
+                  escape(title) + "</h1>\n";
+  s += body;
+  if (!zone_model_method) return s + "</body></html>\n";
+  s += R"html(<h2>Method and references</h2>
+<p>The vessel is split into axisymmetric annular zones aligned with every impeller and the sparger.
+Liquid flows follow a stream function built from one loop per impeller discharge (exact zone
+balance); turbulent exchange scales with local dissipation (calibrated once against the
+Grenville/Nienow mixing-time correlation). Gas rises zone by zone, spread by non-flooded impellers;
+C* follows Henry's law at each zone's pressure and gas composition (Benson &amp; Krause 1984); kLa
+from van 't Riet (1979) per zone; uptake is Monod in dissolved O2. Power numbers, gassed power (Cui
+et al. 1996), flooding (Nienow et al. 1985). The single-zone column is the textbook answer: one
+well-mixed zone with the vessel-average kLa. Correlations were fitted on vessels up to a few m3 and
+scatter by 20-40 %; read the numbers as engineering estimates, calibrate with your own data, and
+defer to local codes, the vessel's certification and licensed practice. Full method and references:
+README.md of oxystrat.</p>
+</body></html>
+)html";
+  return s;
+}
+
+}  // namespace oxystrat

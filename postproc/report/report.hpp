@@ -1,0 +1,38 @@
+// The self-contained HTML report (inline CSS and SVG, no network): for a run, a comparison of
+// cases and a sweep.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "input/case_reader.hpp"
+#include "solver/oxygen/case_run.hpp"
+#include "solver/studies/sweep.hpp"
+
+namespace oxystrat {
+
+//! One case's figures and tables: summary, DO profile with critical DO, zone map, C* and kLa
+//! profiles, cautions.
+std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s);
+
+//! A complete page: title, the body, then (for zone-model reports) the method and references.
+std::string report_page(const std::string& title, const std::string& body, bool zone_model_method = true);
+
+//! Cases side by side: one table column per case, bars per configuration, DO profiles together.
+struct ComparedCase {
+  std::string name;
+  const Case* data;
+  const CaseRun* run;
+  std::vector<SummaryValue> values;
+  std::vector<ConstraintCheck> checks;
+};
+std::string compare_report_body(const std::vector<ComparedCase>& cases);
+
+//! The operating window of a sweep: feasible region, chosen point, Pareto front, the table.
+std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResult>& results,
+                              const std::vector<bool>& pareto, int chosen, const std::string& objective);
+
+void write_text_file(const std::string& path, const std::string& text);
+
+}  // namespace oxystrat

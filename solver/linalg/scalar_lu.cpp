@@ -1,0 +1,226 @@
+#include "solver/linalg/scalar_lu.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <utility>
+
+#include <Eigen/OrderingMethods>
+
+namespace oxystrat {
+
+int ScalarLu::supernodal_from = 500000;
+
+bool ScalarLu::factorize(const Eigen::SparseMatrix<double>& a) {
+  const int n = static_cast<int>(a.rows());
+  supernodal_ = n >= supernodal_from;
+  if (supernodal_) {
+    const bool same = n == n_ && pattern_outer_.size() == n + 1 && pattern_inner_.size() == a.nonZeros() &&
+                      std::equal(a.outerIndexPtr(), a.outerIndexPtr() + n + 1, pattern_outer_.data()) &&
+                      std::equal(a.innerIndexPtr(), a.innerIndexPtr() + a.nonZeros(), pattern_inner_.data());
+    if (!same) {
+      n_ = n;
+      perm_.resize(0);  // the plain columns' ordering is not made here
+      symbolic_ = false;
+      big_.analyzePattern(a);
+      pattern_outer_ = Eigen::Map<const Eigen::VectorXi>(a.outerIndexPtr(), n + 1);
+      pattern_inner_ = Eigen::Map<const Eigen::VectorXi>(a.innerIndexPtr(), a.nonZeros());
+    }
+    big_.factorize(a);
+    return big_.info() == Eigen::Success;
+  }
+  // The ordering and the patterns of L and U depend on the pattern of A only: found once (COLAMD
+  // and a depth-first search per column), kept while the pattern stays; a refactorisation is
+  // then numeric only.
+  const bool same = n == n_ && perm_.size() == n && pattern_outer_.size() == n + 1 &&
+                    pattern_inner_.size() == a.nonZeros() &&
+                    std::equal(a.outerIndexPtr(), a.outerIndexPtr() + n + 1, pattern_outer_.data()) &&
+                    std::equal(a.innerIndexPtr(), a.innerIndexPtr() + a.nonZeros(), pattern_inner_.data());
+  if (!same) {
+    n_ = n;
+    symbolic_ = false;
+    // Approximate minimum degree on the pattern of A + A^T (Amestoy, Davis & Duff 1996): the
+    // blocks' patterns are symmetric (faces couple both ways), and it gives 25 % less fill than
+    // COLAMD here (23.8 vs 31.6 entries per row at 1972 zones). Eigen returns the permutation
+    // from new to old positions; perm_ needs old to new, hence the inverse.
+    Eigen::PermutationMatrix<Eigen::Dynamic, Eigen::Dynamic, int> q;
+    Eigen::AMDOrdering<int> amd;
+    amd(a, q);
+    const Eigen::PermutationMatrix<Eigen::Dynamic, Eigen::Dynamic, int> old_to_new = q.inverse();
+    perm_ = old_to_new.indices();  // new position of old column (and row) i
+    pattern_outer_ = Eigen::Map<const Eigen::VectorXi>(a.outerIndexPtr(), n + 1);
+    pattern_inner_ = Eigen::Map<const Eigen::VectorXi>(a.innerIndexPtr(), a.nonZeros());
+    work_.assign(n, 0.0);
+    mark_.assign(n, -1);
+    next_.assign(n, 0);
+    stack_.resize(n);
+    reach_.resize(n);
+  }
+  // B = P A P^T in compressed columns.
+  b_start_.assign(n + 1, 0);
+  b_row_.resize(a.nonZeros());
+  b_val_.resize(a.nonZeros());
+  for (int j = 0; j < n; ++j) b_start_[perm_[j] + 1] = a.outerIndexPtr()[j + 1] - a.outerIndexPtr()[j];
+  for (int j = 0; j < n; ++j) b_start_[j + 1] += b_start_[j];
+  for (int j = 0; j < n; ++j) {
+    int at = b_start_[perm_[j]];
+    for (Eigen::SparseMatrix<double>::InnerIterator it(a, j); it; ++it, ++at) {
+      b_row_[at] = perm_[it.row()];
+      b_val_[at] = it.value();
+    }
+  }
+  const bool ok = symbolic_ ? refactor_numeric() : factor_with_patterns();
+  if (ok) transpose_factors();
+  return ok;
+}
+
+bool ScalarLu::factor_with_patterns() {
+  const int n = n_;
+  l_start_.assign(1, 0);
+  u_start_.assign(1, 0);
+  l_row_.clear();
+  l_val_.clear();
+  u_row_.clear();
+  u_val_.clear();
+  diag_.assign(n, 0.0);
+  std::fill(mark_.begin(), mark_.end(), -1);
+  for (int k = 0; k < n; ++k) {
+    // Pattern of x = L^-1 B(:, k): everything reachable from B's rows through the columns of L
+    // done so far, found by depth-first search; reach_[0, top) in reverse topological order.
+    int top = 0;
+    double column_max = 0.0;
+    for (int e = b_start_[k]; e < b_start_[k + 1]; ++e) {
+      const int start = b_row_[e];
+      work_[start] += b_val_[e];
+      column_max = std::max(column_max, std::abs(b_val_[e]));
+      if (mark_[start] == k) continue;
+      int depth = 0;
+      stack_[0] = start;
+      mark_[start] = k;
+      next_[start] = start < k ? l_start_[start] : 0;
+      while (depth >= 0) {
+        const int node = stack_[depth];
+        const int end = node < k ? l_start_[node + 1] : 0;
+        bool descended = false;
+        while (next_[node] < end) {
+          const int child = l_row_[next_[node]++];
+          if (mark_[child] == k) continue;
+          mark_[child] = k;
+          next_[child] = child < k ? l_start_[child] : 0;
+          stack_[++depth] = child;
+          descended = true;
+          break;
+        }
+        if (!descended) {
+          reach_[top++] = node;  // finished: postorder
+          --depth;
+        }
+      }
+    }
+    // Numeric: in topological order (reverse postorder), eliminate with the columns of L.
+    for (int t = top - 1; t >= 0; --t) {
+      const int j = reach_[t];
+      if (j >= k) continue;
+      const double xj = work_[j];
+      for (int e = l_start_[j]; e < l_start_[j + 1]; ++e) work_[l_row_[e]] -= l_val_[e] * xj;
+    }
+    if (!take_pivot(k, column_max)) return false;
+    const double pivot = diag_[k];
+    // U's column keeps the topological order: a numeric refactorisation eliminates in it.
+    for (int t = top - 1; t >= 0; --t) {
+      const int i = reach_[t];
+      if (i < k) {
+        u_row_.push_back(i);
+        u_val_.push_back(work_[i]);
+      } else if (i > k) {
+        l_row_.push_back(i);
+        l_val_.push_back(work_[i] / pivot);
+      }
+      work_[i] = 0.0;
+    }
+    l_start_.push_back(static_cast<int>(l_row_.size()));
+    u_start_.push_back(static_cast<int>(u_row_.size()));
+  }
+  symbolic_ = true;
+  return true;
+}
+
+// Diagonal pivots only: one below 1e-12 of its column is refused (the caller falls back), and
+// the scratch is left clean for the next factorisation.
+bool ScalarLu::take_pivot(int k, double column_max) {
+  const double pivot = work_[k];
+  if (!(std::abs(pivot) > 1e-12 * column_max) || !std::isfinite(pivot)) {
+    std::fill(work_.begin(), work_.end(), 0.0);
+    return false;
+  }
+  diag_[k] = pivot;
+  return true;
+}
+
+bool ScalarLu::refactor_numeric() {
+  for (int k = 0; k < n_; ++k) {
+    double column_max = 0.0;
+    for (int e = b_start_[k]; e < b_start_[k + 1]; ++e) {
+      work_[b_row_[e]] += b_val_[e];
+      column_max = std::max(column_max, std::abs(b_val_[e]));
+    }
+    for (int e = u_start_[k]; e < u_start_[k + 1]; ++e) {
+      const int j = u_row_[e];
+      const double xj = work_[j];
+      for (int f = l_start_[j]; f < l_start_[j + 1]; ++f) work_[l_row_[f]] -= l_val_[f] * xj;
+    }
+    if (!take_pivot(k, column_max)) return false;
+    const double pivot = diag_[k];
+    work_[k] = 0.0;
+    for (int e = u_start_[k]; e < u_start_[k + 1]; ++e) u_val_[e] = std::exchange(work_[u_row_[e]], 0.0);
+    for (int e = l_start_[k]; e < l_start_[k + 1]; ++e) l_val_[e] = std::exchange(work_[l_row_[e]], 0.0) / pivot;
+  }
+  return true;
+}
+
+// The factors by rows for the solves: each unknown then gathers its sum from finished ones (no
+// scattered stores, independent loads), which is what makes the triangular solves fast.
+void ScalarLu::transpose_factors() {
+  const auto by_rows = [n = n_](const std::vector<int>& start, const std::vector<int>& row, const std::vector<double>& val,
+                                std::vector<int>& r_start, std::vector<int>& r_col, std::vector<double>& r_val) {
+    r_start.assign(n + 1, 0);
+    for (const int i : row) ++r_start[i + 1];
+    for (int i = 0; i < n; ++i) r_start[i + 1] += r_start[i];
+    r_col.resize(row.size());
+    r_val.resize(row.size());
+    std::vector<int> at(r_start.begin(), r_start.end() - 1);
+    for (int j = 0; j < n; ++j) {
+      for (int e = start[j]; e < start[j + 1]; ++e) {
+        const int to = at[row[e]]++;
+        r_col[to] = j;
+        r_val[to] = val[e];
+      }
+    }
+  };
+  by_rows(l_start_, l_row_, l_val_, lr_start_, lr_col_, lr_val_);
+  by_rows(u_start_, u_row_, u_val_, ur_start_, ur_col_, ur_val_);
+  inv_diag_.resize(n_);
+  for (int k = 0; k < n_; ++k) inv_diag_[k] = 1.0 / diag_[k];
+}
+
+void ScalarLu::solve(Eigen::VectorXd& x) const {
+  if (supernodal_) {
+    x = big_.solve(x).eval();
+    return;
+  }
+  Eigen::VectorXd& y = solve_scratch_;
+  y.resize(n_);
+  for (int i = 0; i < n_; ++i) y[perm_[i]] = x[i];
+  for (int i = 0; i < n_; ++i) {
+    double s = y[i];
+    for (int e = lr_start_[i]; e < lr_start_[i + 1]; ++e) s -= lr_val_[e] * y[lr_col_[e]];
+    y[i] = s;
+  }
+  for (int i = n_ - 1; i >= 0; --i) {
+    double s = y[i];
+    for (int e = ur_start_[i]; e < ur_start_[i + 1]; ++e) s -= ur_val_[e] * y[ur_col_[e]];
+    y[i] = s * inv_diag_[i];
+  }
+  for (int i = 0; i < n_; ++i) x[i] = y[perm_[i]];
+}
+
+}  // namespace oxystrat

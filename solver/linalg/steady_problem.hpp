@@ -1,0 +1,75 @@
+// The narrow boundary between physics and the Newton solver: a steady problem is its size, its
+// residual and its analytic Jacobian. The solver sees nothing else.
+#pragma once
+
+#include <Eigen/Core>
+#include <Eigen/Sparse>
+#include <Eigen/SparseLU>
+#include <vector>
+
+#include "solver/linalg/zone_block_solver.hpp"
+
+namespace oxystrat {
+
+class SteadyProblem {
+ public:
+  virtual ~SteadyProblem() = default;
+  virtual int size() const = 0;
+  virtual void residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const = 0;
+  virtual void jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const = 0;
+  //! Appends the Jacobian entries that zones [zone_begin, zone_end) of the zone layout contribute,
+  //! such that jacobian() is their concatenation over any split into consecutive ranges. The
+  //! structured solve then takes a large Jacobian in pieces (memory); a problem that cannot split
+  //! its Jacobian returns false (the default) and is taken whole.
+  virtual bool jacobian_zones(const Eigen::VectorXd& /*x*/, int /*zone_begin*/, int /*zone_end*/,
+                              std::vector<Eigen::Triplet<double>>& /*t*/) const {
+    return false;
+  }
+  //! Residual magnitude that counts as zero for each equation (same units as the residual).
+  virtual double residual_scale() const = 0;
+  //! A problem with the zone layout of zone_block_solver.hpp says so here (zones > 0), and
+  //! solve_newton then uses the structured linear solve; the default is a general sparse LU.
+  virtual ZoneLayout zone_layout() const { return {}; }
+};
+
+struct NewtonOptions {
+  int max_iterations = 60;
+  double tolerance = 1e-12;  //!< max |r_i| / residual_scale() at convergence
+  bool structured = true;    //!< use the structured solve when the problem has a zone layout
+};
+
+struct NewtonReport {
+  bool converged = false;
+  int iterations = 0;
+  double residual = 0.0;  //!< final max |r_i| / residual_scale()
+  int linear_iterations = 0;  //!< Krylov iterations of the structured solve
+  bool structured = false;    //!< the structured solve produced the result
+};
+
+//! What one Newton solve leaves for the next one on the same sparsity pattern: the symbolic
+//! analysis and the last factorisation, reused while it still converges fast (chord steps).
+struct NewtonWorkspace {
+  Eigen::SparseMatrix<double> jacobian;
+  Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu;
+  bool analysed = false;
+  bool factored = false;
+  int factorisations = 0;
+  //! The structured solve's preconditioner, kept between solves like the LU above.
+  ZoneBlockSolver blocks;
+  bool refresh_blocks = false;  //!< refactor the preconditioner before the next structured step
+};
+
+//! Damped Newton: backtracking on the 2-norm of the residual; converged on max |r_i| / scale.
+//! For a problem with a zone layout: inexact Newton, each step solved by the structured solver
+//! (zone_block_solver.hpp) to a relative linear residual of at most 1e-4, tighter near the end so
+//! that the last step lands inside the tolerance; should that solve fail, the general path
+//! below continues from the current iterate. General path: with a workspace, an old
+//! factorisation is tried first and refreshed when a step with it does not cut the residual at
+//! least threefold.
+NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const NewtonOptions& opts = {},
+                          NewtonWorkspace* workspace = nullptr);
+
+//! Central finite-difference Jacobian, for tests of the analytic one only.
+Eigen::MatrixXd finite_difference_jacobian(const SteadyProblem& p, const Eigen::VectorXd& x, double rel_step = 1e-6);
+
+}  // namespace oxystrat

@@ -1,0 +1,45 @@
+// One case through the whole chain: zone network, hydrodynamics, gas routing, steady oxygen
+// field, the single-zone (one average kLa) answer beside it, and the supportable biomass.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "input/case.hpp"
+#include "solver/flow/gas_routing.hpp"
+#include "solver/flow/hydrodynamics.hpp"
+#include "solver/oxygen/oxygen_field.hpp"
+#include "mesh/zone_network.hpp"
+
+namespace oxystrat {
+
+struct CaseRun {
+  ZoneNetwork net;
+  Hydrodynamics hydro;
+  GasRouting routing;
+  std::optional<OxygenField> field;        //!< empty when no gas is sparged
+  std::optional<OxygenField> single_zone;  //!< the same case as one well-mixed zone
+  double max_biomass_kg_m3 = 0.0;
+  double max_biomass_single_zone_kg_m3 = 0.0;
+  std::vector<std::string> cautions;
+  std::vector<std::string> notes;          //!< what was skipped and why
+};
+
+struct CaseRunOptions {
+  bool supportable_biomass = true;  //!< run the root search (many steady solves)
+  bool single_zone = true;          //!< also solve the one-zone answer (and its supportable biomass)
+  double biomass_rel_tol = 1e-4;    //!< relative tolerance of the supportable biomass [-]
+};
+
+CaseRun run_case(const Case& c, const CaseRunOptions& opts = {});
+
+//! Per axial row of the network: height [m] and min / volume-mean / max of a zone field.
+struct HeightProfile {
+  std::vector<double> z, min, mean, max;
+};
+//! `include` (optional) selects the zones that count, e.g. only gassed zones for C*.
+HeightProfile height_profile(const ZoneNetwork& net, const std::vector<double>& field,
+                             const std::vector<bool>& include = {});
+
+}  // namespace oxystrat

@@ -1,0 +1,59 @@
+#include "solver/oxygen/cautions.hpp"
+
+#include <fmt/format.h>
+
+#include "physics/solubility.hpp"
+
+namespace oxystrat {
+
+std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const OxygenField* field) {
+  std::vector<std::string> out;
+  const auto& v = c.vessel;
+  const double bar = 1e5;
+  if (v.pressure_rating_pa > 0.0) {
+    const double bottom = v.head_pressure_pa + c.broth.density_kg_m3 * 9.80665 * v.liquid_height_m;
+    if (v.head_pressure_pa > v.pressure_rating_pa) {
+      out.push_back(fmt::format("PRESSURE: head pressure {:.3g} bar(a) is ABOVE the vessel rating {:.3g} bar(a). Do not "
+                                "operate; the rating and relief settings of the certified vessel govern.",
+                                v.head_pressure_pa / bar, v.pressure_rating_pa / bar));
+    } else if (v.head_pressure_pa > 0.9 * v.pressure_rating_pa || bottom > v.pressure_rating_pa) {
+      out.push_back(fmt::format("pressure: head pressure {:.3g} bar(a) (bottom {:.3g} bar(a)) is near the vessel rating "
+                                "{:.3g} bar(a); check relief settings and the rating's reference point with the vessel's "
+                                "documentation and local codes.",
+                                v.head_pressure_pa / bar, bottom / bar, v.pressure_rating_pa / bar));
+    }
+  } else if (v.head_pressure_pa > 1.5 * bar) {
+    out.push_back("pressure: no vessel.pressure_rating given; back pressure must stay within the certified rating.");
+  }
+  if (c.operation.oxygen_fraction > physics::air_o2_fraction + 0.005 && c.operation.gas_flow_normal_m3_s > 0.0) {
+    out.push_back(fmt::format("OXYGEN-ENRICHED gas ({:.1f} % O2): fire and oxidation hazard. Equipment, seals, filters "
+                              "and lubricants must be cleaned and rated for oxygen service; follow local codes and your "
+                              "site's oxygen-safety practice.",
+                              100.0 * c.operation.oxygen_fraction));
+  }
+  for (size_t m = 0; m < h.impellers.size(); ++m) {
+    if (h.impellers[m].regime == GasRegime::flooded) {
+      out.push_back(fmt::format("impeller {} is FLOODED (Fl_G = {:.3g} > {:.3g}): gas rises as a plume past it; raise "
+                                "the speed or lower the gas flow (criterion for Rushton turbines, Nienow et al. 1985).",
+                                m, h.impellers[m].aeration_number, h.impellers[m].flooding_aeration));
+    }
+  }
+  if (field != nullptr) {
+    if (field->pco2_max_pa > pco2_inhibition_pa) {
+      out.push_back(fmt::format("pCO2 reaches {:.0f} mmHg, above the ~150 mmHg known to inhibit cell cultures (Gray et "
+                                "al. 1996).",
+                                field->pco2_max_pa / 133.322387415));
+    }
+    const double v_m3 = c.vessel.working_volume_m3;
+    const double pv = h.power_gassed_w / v_m3;
+    if (c.model.kla_model == KlaModel::local_correlation && (v_m3 > 4.0 || pv < 500.0 || pv > 10000.0)) {
+      out.push_back(fmt::format("model range: the van 't Riet kLa correlation was fitted up to ~4 m3 and 0.5-10 kW/m3 "
+                                "(here {:.3g} m3, {:.2g} kW/m3); expect +-20-40 % scatter, more outside the range. "
+                                "Calibrate with your own kLa data where you can.",
+                                v_m3, pv / 1e3));
+    }
+  }
+  return out;
+}
+
+}  // namespace oxystrat

@@ -1,0 +1,57 @@
+// Nested iteration: the cold start of a large network from the field solved on its grid halved.
+#pragma once
+
+#include <Eigen/Core>
+#include <array>
+#include <vector>
+
+#include "solver/oxygen/oxygen_field.hpp"
+#include "mesh/zone_network.hpp"
+
+namespace oxystrat {
+
+//! Cold starts of networks with at least `from_zones` zones are seeded from the same case solved
+//! on the grid with half the radial and half the axial count (nested iteration or mesh
+//! sequencing: Brandt 1977, Math. Comp. 31, full multigrid; Knoll & Keyes 2004, J. Comput. Phys.
+//! 193, section on mesh sequencing; both cited from memory). Tests and benchmarks may change it.
+struct NestedStart {
+  static int from_zones;
+};
+
+//! Weights of the coarse zones that give the value at one fine zone.
+struct ZoneStencil {
+  std::array<int, 4> zone{};      //!< coarse zones (unused entries have weight 0)
+  std::array<double, 4> weight{};  //!< sums to 1
+  bool bilinear = false;          //!< the four coarse centroids around the fine one were all there
+};
+
+//! For each zone of `fine`: bilinear in (r, z) over the four coarse centroids around the fine
+//! centroid where they exist and form a rectangle (uncut cells), else the coarse zone containing
+//! the fine centroid (cut cells at the bottom head, the first and last half cell of the grid).
+std::vector<ZoneStencil> interpolation_stencils(const ZoneNetwork& coarse, const ZoneNetwork& fine);
+
+//! Per-zone values of the coarse network at the fine zones.
+std::vector<double> interpolate(const std::vector<ZoneStencil>& stencils, const std::vector<double>& coarse_values);
+
+//! Solver state of `fine` (C_O2, C_CO2, n_O2, n_CO2 per zone) from a coarse field: DO, CO2 and
+//! the gas mole fractions are interpolated (intensive), the gas flows are rebuilt from each fine
+//! zone's inert flow. Zones without inert gas (pure O2 or CO2 sparged) keep the gas flows of
+//! `cold`, the no-transfer start.
+Eigen::VectorXd nested_state(const ZoneNetwork& coarse, const OxygenField& coarse_field, const ZoneNetwork& fine,
+                             const std::vector<double>& fine_inert_mol_s, const Eigen::VectorXd& cold);
+
+//! What the coarser solves behind one nested start cost (all levels).
+struct CoarseWork {
+  int levels = 0;
+  int newton_iterations = 0;
+  int linear_iterations = 0;
+  int outer_iterations = 0;
+};
+
+//! Solves the case of `ctx` on the halved grid (itself nested while still large) and replaces `x`
+//! (the cold start) by its interpolation. Returns false and leaves `x` when the network is below
+//! NestedStart::from_zones, the grid cannot be halved, or the coarse solve fails.
+bool seed_from_coarse_grid(const OxygenContext& ctx, double biomass_kg_m3, const NewtonOptions& newton,
+                           const std::vector<double>& inert_mol_s, Eigen::VectorXd& x, CoarseWork& work);
+
+}  // namespace oxystrat

@@ -1,0 +1,350 @@
+#include "solver/oxygen/oxygen_field.hpp"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <cmath>
+#include <numbers>
+#include <numeric>
+
+#include "physics/mass_transfer.hpp"
+#include "solver/oxygen/nested_start.hpp"
+#include "solver/oxygen/oxygen_problem.hpp"
+#include "physics/solubility.hpp"
+#include "solver/flow/transport.hpp"
+
+namespace oxystrat {
+namespace {
+
+constexpr double kG = 9.80665;
+constexpr double kR = 8.314462618;
+
+struct GasState {
+  std::vector<double> holdup, pressure, superficial;
+};
+
+// Pressure at zone centres from the head space down each column through the gassed liquid. Row
+// by row from the top, all columns at once (the zones of a row are neighbours in memory).
+std::vector<double> column_pressures(const Case& c, const ZoneNetwork& net, const std::vector<double>& holdup) {
+  std::vector<double> p(net.size());
+  std::vector<double> top(net.columns(), c.vessel.head_pressure_pa);
+  const double rho_g = c.broth.density_kg_m3 * kG;
+  for (int row = net.rows() - 1; row >= 0; --row) {
+    for (int col = 0; col < net.columns(); ++col) {
+      const int k = net.zone_at(col, row);
+      if (k < 0) continue;
+      const double liquid = 1.0 - holdup[k];
+      p[k] = top[col] + rho_g * liquid * (net.z1[k] - net.z[k]);
+      top[col] += rho_g * liquid * (net.z1[k] - std::min(net.z_floor_inner[k], net.z_floor_outer[k]));
+    }
+  }
+  return p;
+}
+
+// Holdup and pressure consistent with the zones' gas molar flows (a few fixed-point sweeps;
+// holdup depends weakly on pressure, so this converges fast).
+GasState gas_state(const OxygenContext& ctx, const std::vector<double>& molar_flow) {
+  const auto& net = ctx.net;
+  const double t = ctx.c.vessel.temperature_k;
+  const double pw = physics::water_vapour_pressure(t);
+  GasState g;
+  g.holdup.assign(net.size(), 0.0);
+  g.superficial.assign(net.size(), 0.0);
+  for (int sweep = 0; sweep < 4; ++sweep) {
+    g.pressure = column_pressures(ctx.c, net, g.holdup);
+#pragma omp parallel for schedule(static) if (net.size() >= 50000)
+    for (int k = 0; k < net.size(); ++k) {
+      const double q = molar_flow[k] * kR * t / (g.pressure[k] - pw);  // wet gas volume flow
+      g.superficial[k] = q / ctx.routing.area[k];
+      g.holdup[k] = drift_flux_holdup(g.superficial[k], ctx.c.model.slip_velocity_m_s);
+    }
+  }
+  return g;
+}
+
+// Inlet gas carried through the routing with no transfer: the starting composition.
+std::vector<double> carry(const GasRouting& routing, const ZoneNetwork& net, double inlet) {
+  std::vector<double> in(net.size(), 0.0), out(net.size(), 0.0);
+  for (int k = 0; k < net.size(); ++k) in[k] = inlet * net.sparger_share[k];
+  for (int k : routing.order) {
+    out[k] = in[k];
+    for (const auto& l : routing.out[k]) {
+      if (l.to >= 0) in[l.to] += l.share * out[k];
+    }
+  }
+  return out;
+}
+
+double local_kla(const Case& c, double eps, double vs, double holdup) {
+  double kla = 0.0;
+  if (c.model.kla_model == KlaModel::local_correlation) {
+    kla = vant_riet_kla(vant_riet_constants(c.broth.coalescence, c.model), c.broth.density_kg_m3 * eps, vs);
+  } else if (holdup > 0.0) {
+    const double t = c.vessel.temperature_k;
+    const double nu = c.broth.viscosity_pa_s / c.broth.density_kg_m3;
+    const double sc = nu / o2_diffusivity(t);
+    const double d32 = c.model.bubble_diameter_m > 0.0 ? c.model.bubble_diameter_m : default_bubble_diameter(c.broth.coalescence);
+    kla = eddy_model_kl(eps, nu, sc) * interfacial_area(holdup, d32);
+  }
+  return kla * kla_temperature_factor(c.vessel.temperature_k) * c.model.kla_factor;
+}
+
+}  // namespace
+
+OxygenSetup::OxygenSetup(const OxygenContext& context, double biomass_kg_m3) : ctx(context) {
+  const Case& c = ctx.c;
+  const auto& net = ctx.net;
+  const double t = c.vessel.temperature_k;
+  water_pressure_pa = physics::water_vapour_pressure(t);
+  const double molar = ctx.hydro.gas_molar_flow_mol_s;
+  if (molar <= 0.0) throw SolveError("no gas is sparged: the oxygen field is not solved");
+  inlet_o2_mol_s = molar * c.operation.oxygen_fraction;
+  inlet_co2_mol_s = molar * c.operation.co2_fraction;
+  const double in_inert = molar - inlet_o2_mol_s - inlet_co2_mol_s;
+  henry_o2 = physics::henry_o2(t) * physics::salting_out_factor(physics::Gas::o2, t, c.broth.ions_mol_m3);
+  henry_co2 = physics::henry_co2(t) * physics::salting_out_factor(physics::Gas::co2, t, c.broth.ions_mol_m3);
+  const double x_bio = biomass_kg_m3 >= 0.0 ? biomass_kg_m3 : c.culture.biomass_kg_m3;
+  uptake.rate_mol_m3_s = c.culture.q_o2_max_mol_kg_s * x_bio;
+  uptake.k_o2_mol_m3 = c.culture.k_o2_mol_m3;
+  uptake.rq = c.culture.rq;
+  transport = transport_matrix(net, ctx.hydro.face_flow, ctx.hydro.face_exchange);
+  coeff.inert_flow = carry(ctx.routing, net, in_inert);
+  // Vessel-level correlation: total gassed power per volume and vs at mid-height (ungassed).
+  const double p_mid = c.vessel.head_pressure_pa + 0.5 * c.broth.density_kg_m3 * kG * c.vessel.liquid_height_m;
+  const double vs_mid = molar * kR * t / (p_mid - water_pressure_pa) / (std::numbers::pi * std::pow(net.shape.radius(), 2));
+  kla_vessel_1_s =
+      vant_riet_kla(vant_riet_constants(c.broth.coalescence, c.model), ctx.hydro.power_gassed_w / c.vessel.working_volume_m3,
+                    vs_mid) *
+      kla_temperature_factor(t) * c.model.kla_factor;
+}
+
+Eigen::VectorXd OxygenSetup::initial_state() const {
+  const Case& c = ctx.c;
+  const int n = ctx.net.size();
+  const auto o = carry(ctx.routing, ctx.net, inlet_o2_mol_s), q = carry(ctx.routing, ctx.net, inlet_co2_mol_s);
+  std::vector<double> m(n);
+  for (int k = 0; k < n; ++k) m[k] = o[k] + q[k] + coeff.inert_flow[k];
+  const auto g0 = gas_state(ctx, m);
+  Eigen::VectorXd x(4 * n);
+  for (int k = 0; k < n; ++k) {
+    x[4 * k] = 0.5 * henry_o2 * c.operation.oxygen_fraction * (g0.pressure[k] - water_pressure_pa);
+    x[4 * k + 1] = henry_co2 * c.operation.co2_fraction * (g0.pressure[k] - water_pressure_pa);
+    x[4 * k + 2] = o[k];
+    x[4 * k + 3] = q[k];
+  }
+  return x;
+}
+
+void OxygenSetup::update(const Eigen::VectorXd& x) {
+  const Case& c = ctx.c;
+  const auto& net = ctx.net;
+  const int n = net.size();
+  std::vector<double> molar_flow(n);
+  for (int k = 0; k < n; ++k) molar_flow[k] = x[4 * k + 2] + x[4 * k + 3] + coeff.inert_flow[k];
+  const GasState gas = gas_state(ctx, molar_flow);
+  holdup = gas.holdup;
+  pressure_pa = gas.pressure;
+  superficial_m_s = gas.superficial;
+  coeff.transfer_o2.resize(n);
+  coeff.transfer_co2.resize(n);
+  coeff.cstar_per_y_o2.resize(n);
+  coeff.cstar_per_y_co2.resize(n);
+  std::vector<double> kla(n);
+  // Zone by zone in parallel, summed in zone order (the same total for any thread count).
+#pragma omp parallel for schedule(static) if (n >= 50000)
+  for (int k = 0; k < n; ++k) kla[k] = local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k]);
+  double kla_volume = 0.0;
+  for (int k = 0; k < n; ++k) kla_volume += kla[k] * net.volume[k];
+  // The published correlation fixes the vessel's total; the local form only distributes it.
+  const bool normalise = c.model.kla_normalise && c.model.kla_model == KlaModel::local_correlation;
+  const double scale = normalise && kla_volume > 0.0 ? kla_vessel_1_s * net.total_volume() / kla_volume : 1.0;
+  for (int k = 0; k < n; ++k) {
+    coeff.transfer_o2[k] = scale * kla[k] * net.volume[k];
+    coeff.transfer_co2[k] = co2_kla_ratio * coeff.transfer_o2[k];
+    coeff.cstar_per_y_o2[k] = henry_o2 * (gas.pressure[k] - water_pressure_pa);
+    coeff.cstar_per_y_co2[k] = henry_co2 * (gas.pressure[k] - water_pressure_pa);
+  }
+}
+
+OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, const OxygenField* warm,
+                               NewtonWorkspace* workspace, const NewtonOptions& newton) {
+  NewtonWorkspace local;
+  NewtonWorkspace& ws = workspace != nullptr ? *workspace : local;
+  const Case& c = ctx.c;
+  const auto& net = ctx.net;
+  const int n = net.size();
+  const double t = c.vessel.temperature_k;
+  OxygenSetup setup(ctx, biomass_kg_m3);
+  const auto& coeff = setup.coeff;
+  const auto& uptake = setup.uptake;
+  const auto& transport = setup.transport;
+  const double in_o2 = setup.inlet_o2_mol_s, in_co2 = setup.inlet_co2_mol_s;
+  const double h_co2 = setup.henry_co2;
+  const double salt_o2 = physics::salting_out_factor(physics::Gas::o2, t, c.broth.ions_mol_m3);
+  OxygenField f;
+  Eigen::VectorXd x;
+  if (warm != nullptr && warm->state.size() == 4 * n) {
+    x = warm->state;
+  } else {
+    x = setup.initial_state();
+    CoarseWork coarse;
+    if (seed_from_coarse_grid(ctx, biomass_kg_m3, newton, coeff.inert_flow, x, coarse)) {
+      f.coarse_levels = coarse.levels;
+      f.coarse_newton_iterations = coarse.newton_iterations;
+      f.coarse_outer_iterations = coarse.outer_iterations;
+      f.coarse_linear_iterations = coarse.linear_iterations;
+    }
+  }
+
+  NewtonReport rep;
+  constexpr int kMaxOuter = 30;
+  std::vector<double> previous;
+  // Outer loop: holdup, pressure and kLa follow the gas flows of the last solution.
+  for (f.outer_iterations = 1; f.outer_iterations <= kMaxOuter; ++f.outer_iterations) {
+    setup.update(x);
+    double change = previous.empty() ? 1.0 : 0.0;  // holdup change the update made
+    for (int k = 0; k < n && !previous.empty(); ++k) change = std::max(change, std::abs(setup.holdup[k] - previous[k]));
+    previous = setup.holdup;
+    // Holdup settled to 1e-8 (the loose passes leave their own error in it, so tighter than the
+    // model needs; an extra pass costs one or two Newton steps). The last allowed pass is full too.
+    const bool last = change < 1e-8 || f.outer_iterations == kMaxOuter;
+    const OxygenProblem problem(net, ctx.routing, transport, coeff, uptake, in_o2, in_co2);
+    Eigen::VectorXd trial = x;
+    // While the holdup still moves, the next update disturbs the balances again: cut the residual
+    // a hundredfold only; the last pass (holdup settled) is solved to the full tolerance.
+    NewtonOptions pass = newton;
+    if (!last) {
+      Eigen::VectorXd r(problem.size());
+      problem.residual(x, r);
+      pass.tolerance = std::max(newton.tolerance, 1e-2 * r.cwiseAbs().maxCoeff() / problem.residual_scale());
+    }
+    rep = solve_newton(problem, trial, pass, &ws);
+    if (!rep.converged) {
+      // Continuation in the uptake from the feasible no-culture state.
+      trial = x;
+      for (double s : {0.0, 0.25, 0.5, 0.75, 1.0}) {
+        Uptake u = uptake;
+        u.rate_mol_m3_s *= s;
+        const OxygenProblem step(net, ctx.routing, transport, coeff, u, in_o2, in_co2);
+        NewtonOptions slow = newton;
+        slow.max_iterations = 200;
+        rep = solve_newton(step, trial, slow, &ws);
+        if (!rep.converged) break;
+      }
+    }
+    if (!rep.converged) {
+      throw SolveError(fmt::format(
+          "the steady oxygen solve did not converge (scaled residual {:.3g} after {} Newton iterations). Try a "
+          "finer or coarser grid, a lower biomass, or check gas flow and speed",
+          rep.residual, rep.iterations));
+    }
+    x = trial;
+    f.newton_iterations += rep.iterations;
+    f.linear_iterations += rep.linear_iterations;
+    if (last) break;
+  }
+
+  // Fields and summary.
+  f.state = x;
+  const double air_sat = physics::o2_saturation_air_1atm(t) * salt_o2;
+  f.air_saturation_mol_m3 = air_sat;
+  auto resize = [n](std::vector<double>& v) { v.assign(n, 0.0); };
+  for (auto* v : {&f.do_mol_m3, &f.co2_mol_m3, &f.cstar_mol_m3, &f.kla_1_s, &f.otr_mol_m3_s, &f.our_mol_m3_s, &f.y_o2,
+                  &f.y_co2, &f.pco2_pa, &f.do_saturation}) {
+    resize(*v);
+  }
+  f.holdup = setup.holdup;
+  f.pressure_pa = setup.pressure_pa;
+  f.superficial_gas_m_s = setup.superficial_m_s;
+  const double total_v = net.total_volume();
+  double kla_v = 0.0, do_v = 0.0, below_v = 0.0;
+  f.do_min = std::numeric_limits<double>::infinity();
+  for (int k = 0; k < n; ++k) {
+    const double no = x[4 * k + 2], nc = x[4 * k + 3];
+    const double total = no + nc + coeff.inert_flow[k];
+    f.do_mol_m3[k] = x[4 * k];
+    f.co2_mol_m3[k] = x[4 * k + 1];
+    f.y_o2[k] = total > 0.0 ? no / total : 0.0;
+    f.y_co2[k] = total > 0.0 ? nc / total : 0.0;
+    f.cstar_mol_m3[k] = coeff.cstar_per_y_o2[k] * f.y_o2[k];
+    f.kla_1_s[k] = coeff.transfer_o2[k] / net.volume[k];
+    f.otr_mol_m3_s[k] = f.kla_1_s[k] * (f.cstar_mol_m3[k] - f.do_mol_m3[k]);
+    f.our_mol_m3_s[k] = uptake.our(f.do_mol_m3[k]);
+    f.pco2_pa[k] = f.co2_mol_m3[k] / h_co2;
+    f.do_saturation[k] = f.do_mol_m3[k] / air_sat;
+    kla_v += f.kla_1_s[k] * net.volume[k];
+    do_v += f.do_mol_m3[k] * net.volume[k];
+    if (f.do_mol_m3[k] < c.culture.critical_do_mol_m3) below_v += net.volume[k];
+    if (f.do_mol_m3[k] < f.do_min) f.do_min = f.do_mol_m3[k], f.do_min_zone = k;
+    f.otr_total_mol_s += f.otr_mol_m3_s[k] * net.volume[k];
+    f.our_total_mol_s += f.our_mol_m3_s[k] * net.volume[k];
+    f.pco2_max_pa = std::max(f.pco2_max_pa, f.pco2_pa[k]);
+  }
+  f.kla_mean_1_s = kla_v / total_v;
+  f.do_mean = do_v / total_v;
+  f.volume_fraction_below_critical = below_v / total_v;
+  // Off-gas: what leaves the top zones.
+  double out_o = 0.0, out_c = 0.0, out_i = 0.0;
+  for (int k = 0; k < n; ++k) {
+    for (const auto& l : ctx.routing.out[k]) {
+      if (l.to >= 0) continue;
+      out_o += l.share * x[4 * k + 2];
+      out_c += l.share * x[4 * k + 3];
+      out_i += l.share * coeff.inert_flow[k];
+    }
+  }
+  f.o2_in_mol_s = in_o2;
+  f.o2_out_mol_s = out_o;
+  f.offgas_y_o2 = out_o / (out_o + out_c + out_i);
+  f.offgas_y_co2 = out_c / (out_o + out_c + out_i);
+  f.o2_balance_error = (in_o2 - out_o - f.otr_total_mol_s) / in_o2;
+  f.kla_vessel_1_s = setup.kla_vessel_1_s;
+  return f;
+}
+
+double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& field_at_case, double rel_tol) {
+  const double critical = ctx.c.culture.critical_do_mol_m3;
+  const double x_case = ctx.c.culture.biomass_kg_m3;
+  if (ctx.c.culture.q_o2_max_mol_kg_s <= 0.0) return std::numeric_limits<double>::infinity();
+  OxygenField warm = field_at_case;
+  NewtonWorkspace ws;
+  const auto margin = [&](double x) {
+    warm = solve_oxygen_field(ctx, x, &warm, &ws);
+    return warm.do_min - critical;
+  };
+  // Bracket: DO_min falls as biomass rises.
+  double lo = 0.0, hi = std::max(x_case, 1.0);
+  double f_hi = field_at_case.do_min - critical;
+  if (x_case <= 0.0 || f_hi >= 0.0) {
+    lo = x_case;
+    for (int i = 0; i < 12 && f_hi >= 0.0; ++i) {
+      lo = hi;
+      hi *= 2.0;
+      if (hi > 1000.0) return 1000.0;
+      f_hi = margin(hi);
+    }
+  }
+  double f_lo = margin(lo);
+  if (f_lo < 0.0) return 0.0;
+  // Illinois (regula falsi with halving of the stale end) keeps the bracket like bisection, so it
+  // is robust where DO_min has kinks (the minimum zone moves), and converges superlinearly.
+  int stale = 0;
+  for (int it = 0; it < 100 && hi - lo > rel_tol * hi; ++it) {
+    double x = lo + (hi - lo) * f_lo / (f_lo - f_hi);
+    if (!(x > lo && x < hi)) x = 0.5 * (lo + hi);
+    const double fx = margin(x);
+    if (fx >= 0.0) {
+      lo = x, f_lo = fx;
+      if (stale == -1) f_hi *= 0.5;
+      stale = -1;
+    } else {
+      hi = x, f_hi = fx;
+      if (stale == 1) f_lo *= 0.5;
+      stale = 1;
+    }
+    if (std::abs(fx) < 1e-9 * critical) return x;
+  }
+  return 0.5 * (lo + hi);
+}
+
+}  // namespace oxystrat

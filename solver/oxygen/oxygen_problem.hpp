@@ -1,0 +1,86 @@
+// The steady O2 / CO2 balances of every zone, liquid and gas, as one SteadyProblem.
+// State per zone k (4 unknowns, interleaved): C_O2, C_CO2 [mol/m3] in the liquid; n_O2, n_CO2
+// [mol/s] of gas leaving the zone. The inert gas flow of each zone is fixed by the routing.
+//   liquid O2:  sum_j L_kj C_j + T_k (K_k y_k - C_k) - OUR(C_k) V_k = 0
+//   liquid CO2: sum_j L_kj D_j + S_k (Q_k x_k - D_k) + RQ OUR(C_k) V_k = 0
+//   gas O2:     n_O2,in,k - n_O2,k - T_k (K_k y_k - C_k) = 0
+//   gas CO2:    n_CO2,in,k - n_CO2,k - S_k (Q_k x_k - D_k) = 0
+// with T = kLa V, K = C* per unit O2 mole fraction (Henry x salting-out x (p - p_water)),
+// y = n_O2 / (n_O2 + n_CO2 + n_inert), and likewise for CO2 (S, Q, x, D).
+#pragma once
+
+#include <algorithm>
+#include <vector>
+
+#include "solver/flow/gas_routing.hpp"
+#include "solver/linalg/steady_problem.hpp"
+#include "solver/flow/transport.hpp"
+#include "mesh/zone_network.hpp"
+
+namespace oxystrat {
+
+//! Everything the balances need per zone, fixed during one Newton solve.
+struct TransferCoefficients {
+  std::vector<double> transfer_o2;       //!< kLa_O2 V [m3/s]
+  std::vector<double> transfer_co2;      //!< kLa_CO2 V [m3/s]
+  std::vector<double> cstar_per_y_o2;    //!< C*_O2 per unit dry-gas O2 fraction [mol/m3]
+  std::vector<double> cstar_per_y_co2;   //!< C*_CO2 per unit dry-gas CO2 fraction [mol/m3]
+  std::vector<double> inert_flow;        //!< inert gas leaving each zone [mol/s]
+};
+
+struct Uptake {
+  double rate_mol_m3_s = 0.0;  //!< q_O2,max X [mol/(m3 s)]
+  double k_o2_mol_m3 = 0.0;
+  double rq = 1.0;
+  //! Per-zone multiplier of the rate (a transient culture with local substrate limitation and
+  //! biomass); empty means 1 everywhere.
+  std::vector<double> zone_scale;
+  double scale(int zone) const { return zone_scale.empty() ? 1.0 : zone_scale[zone]; }
+  double largest_scale() const {
+    return zone_scale.empty() ? 1.0 : *std::max_element(zone_scale.begin(), zone_scale.end());
+  }
+  //! OUR at dissolved O2 c [mol/(m3 s)]: Monod for c >= 0, continued linearly below 0 so Newton
+  //! sees a smooth function (the steady solution itself is positive). A Monod constant below
+  //! 1e-9 mol/m3 (zero order) is treated as 1e-9 mol/m3.
+  double our(double c) const {
+    const double k = std::max(k_o2_mol_m3, 1e-9);
+    return c >= 0.0 ? rate_mol_m3_s * c / (k + c) : rate_mol_m3_s * c / k;
+  }
+  double dour(double c) const {
+    const double k = std::max(k_o2_mol_m3, 1e-9);
+    return c >= 0.0 ? rate_mol_m3_s * k / ((k + c) * (k + c)) : rate_mol_m3_s / k;
+  }
+};
+
+class OxygenProblem : public SteadyProblem {
+ public:
+  OxygenProblem(const ZoneNetwork& net, const GasRouting& routing, const SparseMatrix& transport,
+                const TransferCoefficients& coeff, const Uptake& uptake, double inlet_o2_mol_s,
+                double inlet_co2_mol_s);
+  int size() const override { return 4 * n_; }
+  void residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const override;
+  void jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const override;
+  bool jacobian_zones(const Eigen::VectorXd& x, int zone_begin, int zone_end,
+                      std::vector<Eigen::Triplet<double>>& t) const override;
+  double residual_scale() const override { return scale_; }
+  //! Liquid O2, CO2 then gas O2, CO2 per zone; gas flows along the routing order.
+  ZoneLayout zone_layout() const override { return {n_, order_}; }
+
+ private:
+  struct Inflow {
+    int from;
+    double share;
+  };
+  const ZoneNetwork& net_;
+  const SparseMatrix& transport_;
+  const std::vector<int>* order_;
+  const TransferCoefficients& coeff_;
+  Uptake uptake_;
+  double inlet_o2_, inlet_co2_;
+  int n_;
+  double scale_;
+  std::vector<int> inflow_start_;  //!< gas links into zone k: inflows_[inflow_start_[k] .. inflow_start_[k + 1])
+  std::vector<Inflow> inflows_;
+};
+
+}  // namespace oxystrat

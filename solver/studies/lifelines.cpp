@@ -1,0 +1,944 @@
+#include "solver/studies/lifelines.hpp"
+
+#include <omp.h>
+
+#include <algorithm>
+#include <bit>
+#include <cmath>
+#include <limits>
+#include <stdexcept>
+#include <utility>
+
+
+namespace oxystrat {
+namespace {
+
+std::uint64_t splitmix64(std::uint64_t& x) {
+  std::uint64_t z = (x += 0x9e3779b97f4a7c15ull);
+  z = (z ^ (z >> 30)) * 0xbf58476d1ce4e5b9ull;
+  z = (z ^ (z >> 27)) * 0x94d049bb133111ebull;
+  return z ^ (z >> 31);
+}
+
+// ---- fixed logarithmic bins for the regime statistics, merged as integers ----
+// Edges at 2^(i/4 - 12) s, i = 0 .. kBins: 0.24 ms to 18 h; values outside land in the end bins.
+constexpr int kBins = 112;
+constexpr int kBinOffset = 48;  // 4 * 12
+// floor(4 log2 t) + offset, without a logarithm (called on every regime change): the binary
+// exponent of t^4, two products. Their rounding moves a value to the next bin only within a few
+// 1e-16 (relative) of an edge.
+int log_bin(double t) {
+  if (!(t > 0.0)) return 0;
+  const double t2 = t * t;
+  const int e = static_cast<int>(std::bit_cast<std::uint64_t>(t2 * t2) >> 52) - 1023;
+  return std::clamp(e + kBinOffset, 0, kBins - 1);
+}
+
+Histogram fixed_bin_histogram(const long* counts) {
+  Histogram h;
+  int lo = 0, hi = kBins - 1;
+  while (lo < kBins && counts[lo] == 0) ++lo;
+  while (hi >= 0 && counts[hi] == 0) --hi;
+  if (lo > hi) return h;
+  for (int i = lo; i <= hi + 1; ++i) h.edges.push_back(std::exp2((i - kBinOffset) / 4.0));
+  for (int i = lo; i <= hi; ++i) h.counts.push_back(static_cast<double>(counts[i]));
+  return h;
+}
+
+// ---- the chain ----
+// A move uses one 64-bit draw r: bits 21-63 go to the ziggurat (the dwell), bits 13 .. 13+b-1
+// pick one of the 2^b alias columns of the zone, and bits 0-12 are the top bits of the column's
+// 64-bit coin. Only when they equal the top bits of the column's threshold (probability 2^-13)
+// does the comparison need the coin's other bits: a further draw. So the pick is exact to 2^-64,
+// like a comparison of two 64-bit uniforms.
+// Zones: [0] the alias, [1] the column's own outcome, each with kChangeBit set when entering it
+// changes the key (so the common move reads no key). The full threshold of slot s is
+// Chain::threshold[s].
+constexpr std::uint32_t kChangeBit = 1u << 31;
+constexpr int kCoinBits = 13;
+struct Slot {
+  std::uint32_t to[2];
+};
+
+struct Chain {
+  int zones = 0;
+  int log_columns = 0;
+  std::vector<Slot> slots;           // zones << log_columns
+  std::vector<std::uint64_t> threshold;
+  std::vector<double> mean_dwell;    // V / outflow [s]; +inf without outflow
+  std::vector<std::uint32_t> key;    // regime | (outside mask << 8)
+  std::vector<double> start_cdf;     // V_i / V cumulative
+};
+
+Chain build_chain(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<LifelineField>& fields,
+                  const LifelineRegimes& regimes) {
+  const int n = net.size();
+  if (static_cast<std::uint64_t>(n) >= kChangeBit) throw std::invalid_argument("lifelines: too many zones");
+  std::vector<std::vector<std::pair<int, double>>> out(n);
+  for (size_t f = 0; f < net.faces.size(); ++f) {
+    const int a = net.faces[f].zone_a, b = net.faces[f].zone_b;
+    const double q = h.face_flow[f], e = h.face_exchange[f];
+    const double ab = (q > 0.0 ? q : 0.0) + e, ba = (q < 0.0 ? -q : 0.0) + e;
+    if (ab > 0.0) out[a].push_back({b, ab});
+    if (ba > 0.0) out[b].push_back({a, ba});
+  }
+  size_t degree = 1;
+  for (const auto& o : out) degree = std::max(degree, o.size());
+  static_assert(kCoinBits + 8 <= 64 - ExponentialZiggurat::kLayerBits - 32, "coin, column and ziggurat bits overlap");
+  if (degree > 256) throw std::invalid_argument("lifelines: a zone with more than 256 neighbours");
+  Chain c;
+  c.zones = n;
+  c.key.assign(n, 0u);
+  if (!regimes.names.empty()) {
+    if (regimes.names.size() > 256 || static_cast<int>(regimes.of_zone.size()) != n) {
+      throw std::invalid_argument("lifelines: regimes need one label per zone, at most 256 labels");
+    }
+    for (int k = 0; k < n; ++k) c.key[k] = static_cast<std::uint32_t>(regimes.of_zone[k]);
+  }
+  if (fields.size() > 24) throw std::invalid_argument("lifelines: at most 24 fields");
+  for (size_t f = 0; f < fields.size(); ++f) {
+    if (static_cast<int>(fields[f].value.size()) != n) throw std::invalid_argument("lifelines: field '" + fields[f].name + "' needs one value per zone");
+    for (int k = 0; k < n; ++k) {
+      const double v = fields[f].value[k];
+      const bool outside = fields[f].below ? v < fields[f].threshold : v > fields[f].threshold;
+      if (outside) c.key[k] |= 1u << (8 + f);
+    }
+  }
+  c.log_columns = std::bit_width(std::bit_ceil(degree)) - 1;
+  const int columns = 1 << c.log_columns;
+  c.slots.resize(static_cast<size_t>(n) << c.log_columns);
+  c.threshold.resize(c.slots.size());
+  c.mean_dwell.resize(n);
+  for (int k = 0; k < n; ++k) {
+    const size_t row = static_cast<size_t>(k) << c.log_columns;
+    std::vector<double> w;
+    double total = 0.0;
+    for (const auto& [j, flow] : out[k]) w.push_back(flow), total += flow;
+    if (out[k].empty()) {
+      c.mean_dwell[k] = std::numeric_limits<double>::infinity();  // the cell stays to the end
+      w = {1.0}, out[k] = {{k, 1.0}};
+    } else {
+      c.mean_dwell[k] = net.volume[k] / total;
+    }
+    auto target = [&](int outcome) {
+      const int z = out[k][outcome].first;
+      return static_cast<std::uint32_t>(z) | (c.key[z] != c.key[k] ? kChangeBit : 0u);
+    };
+    const AliasTable t(w, columns);
+    for (int j = 0; j < columns; ++j) {
+      c.threshold[row + j] = t.threshold[j];
+      c.slots[row + j] = {{target(t.alias[j]), target(t.own[j])}};
+    }
+  }
+  c.start_cdf.resize(n);
+  double acc = 0.0;
+  for (int k = 0; k < n; ++k) c.start_cdf[k] = (acc += net.volume[k]);
+  for (auto& v : c.start_cdf) v /= acc;
+  return c;
+}
+
+// The smallest and largest positive value of a list (what its histogram spans).
+struct ValueRange {
+  double lo = 1e300, hi = 0.0;
+  void add(const std::vector<double>& v) {
+    for (double x : v) {
+      if (x > 0.0) lo = std::min(lo, x), hi = std::max(hi, x);
+    }
+  }
+};
+
+struct FieldEvents {
+  std::vector<double> excursions, between, long_excursions, long_between;
+  // Of the lists as appended to (while a block's values are still in the cache: the merged lists
+  // of 10^5 cells, hundreds of MB, are then not read once more for it).
+  ValueRange excursions_range, between_range, long_excursions_range, long_between_range;
+  void clear() { excursions.clear(), between.clear(), long_excursions.clear(), long_between.clear(); }
+  void append_to(FieldEvents& to) const {
+    auto append = [](std::vector<double>& a, ValueRange& r, const std::vector<double>& b) {
+      a.insert(a.end(), b.begin(), b.end());
+      r.add(b);
+    };
+    append(to.excursions, to.excursions_range, excursions), append(to.between, to.between_range, between);
+    append(to.long_excursions, to.long_excursions_range, long_excursions);
+    append(to.long_between, to.long_between_range, long_between);
+  }
+};
+
+// Time [s] and completed visits of a zone, as one pair of doubles so that a move updates both
+// with one packed add (visit counts stay exact in a double up to 2^53).
+typedef double Pair __attribute__((vector_size(16)));
+struct ZoneTally {
+  Pair sum{0.0, 0.0};  // {time, visits}
+};
+
+// What a block of cells adds up apart from the per-cell event lists; one per thread, cleared
+// per block, merged in block order (so the sums do not depend on the thread count).
+struct Tally {
+  std::vector<ZoneTally> zone;
+  std::vector<long> transitions;          // R x R
+  std::vector<double> stay_sum, return_sum;
+  std::vector<long> stay_count, return_count;
+  std::vector<long> stay_bins, return_bins;  // R x kBins
+
+  Tally(int zones, int regimes)
+      : zone(zones), transitions(static_cast<size_t>(regimes) * regimes), stay_sum(regimes), return_sum(regimes),
+        stay_count(regimes), return_count(regimes), stay_bins(static_cast<size_t>(regimes) * kBins),
+        return_bins(static_cast<size_t>(regimes) * kBins) {}
+  void clear() {  // not the zone sums: a block's are copied in whole from the zone records
+    for (auto* v : {&transitions, &stay_count, &return_count, &stay_bins, &return_bins}) std::fill(v->begin(), v->end(), 0);
+    std::fill(stay_sum.begin(), stay_sum.end(), 0.0);
+    std::fill(return_sum.begin(), return_sum.end(), 0.0);
+  }
+  void add(const Tally& o) {
+    for (size_t k = 0; k < zone.size(); ++k) zone[k].sum += o.zone[k].sum;
+    for (size_t i = 0; i < transitions.size(); ++i) transitions[i] += o.transitions[i];
+    for (size_t i = 0; i < stay_sum.size(); ++i) {
+      stay_sum[i] += o.stay_sum[i], return_sum[i] += o.return_sum[i];
+      stay_count[i] += o.stay_count[i], return_count[i] += o.return_count[i];
+    }
+    for (size_t i = 0; i < stay_bins.size(); ++i) stay_bins[i] += o.stay_bins[i], return_bins[i] += o.return_bins[i];
+  }
+};
+
+// One cell's state apart from its zone and clock: touched only when the zone's key changes.
+struct FieldCell {
+  bool outside = false, seen_change = false;
+  double since = 0.0, outside_time = 0.0;
+  double last_long_end = -1.0;  // end of the last long excursion [s], -1: none yet
+};
+
+struct CellState {
+  std::vector<FieldCell> fields;
+  int regime = 0;
+  bool regime_seen_change = false;
+  double regime_since = 0.0;
+  std::vector<double> last_entry;  // per regime [s], -1: not entered since the start
+  FieldEvents* events = nullptr;   // per field, this cell's lists
+};
+
+// The chain as the hot loop reads it: one record per zone, a cache line for the (r, z) grid's four
+// columns, holding everything a move out of the zone needs (its dwell, its alias columns) and this
+// thread's sums for the zone, so that a move touches one line. Zones are named by the byte offset
+// of their record (no multiply in the loop); each thread has its own copy of the records.
+template <int LogColumns>
+struct alignas(64) ZoneRecord {
+  static constexpr int kColumns = 1 << LogColumns;
+  Pair sum{0.0, 0.0};     // {time [s], completed visits} of this thread's block
+  double mean_s = 0.0;    // mean dwell V / outflow [s]; +inf without outflow
+  std::uint32_t to[2][kColumns]{};  // per column: [0] alias, [1] own, as record offsets | kEntersOtherKey
+  std::uint16_t top[kColumns]{};    // the column's top kCoinBits of its threshold: the own zone when the coin is below
+};
+
+// In the records, a move into another key is flagged by a bit that record offsets (multiples of
+// 64) never have, worth the size of a log entry: the log's end advances by `to & flag` itself.
+constexpr std::uint32_t kEntersOtherKey = 16;
+
+template <int LogColumns>
+std::uint32_t record_target(std::uint32_t slot_to) {
+  return static_cast<std::uint32_t>((slot_to & ~kChangeBit) * sizeof(ZoneRecord<LogColumns>)) | (slot_to & kChangeBit ? kEntersOtherKey : 0u);
+}
+
+template <int LogColumns>
+std::vector<ZoneRecord<LogColumns>> zone_records(const Chain& c) {
+  using Record = ZoneRecord<LogColumns>;
+  static_assert(sizeof(Record) % 64 == 0 && kEntersOtherKey < 64);
+  if (static_cast<std::uint64_t>(c.zones) * sizeof(Record) >= kChangeBit) throw std::invalid_argument("lifelines: too many zones");
+  std::vector<Record> r(c.zones);
+  for (int k = 0; k < c.zones; ++k) {
+    r[k].mean_s = c.mean_dwell[k];
+    for (int j = 0; j < Record::kColumns; ++j) {
+      const size_t s = (static_cast<size_t>(k) << LogColumns) + j;
+      r[k].to[0][j] = record_target<LogColumns>(c.slots[s].to[0]);
+      r[k].to[1][j] = record_target<LogColumns>(c.slots[s].to[1]);
+      r[k].top[j] = static_cast<std::uint16_t>(c.threshold[s] >> (64 - kCoinBits));
+    }
+  }
+  return r;
+}
+
+// A cell being followed: what the hot loop reads and writes on every move (the rest of a cell's
+// state, read at key changes and the end, is in its CellState and its Lane).
+struct Entry;
+struct Walker {
+  CellRandom::Words rng{1, 0};
+  double t = 0.0;
+  std::uint32_t zone = 0;  // the byte offset of its record
+  Entry* end = nullptr;    // where the next entry into a zone with another key is written
+};
+
+// An entry into a zone with another key. Moves write one every time, without a branch, and keep
+// it only when the key changes (the pointer advances by the slot's flag): a branch there would be
+// mispredicted on most of the 7 % of moves that change key, each miss discarding the work of all
+// the lanes in flight. The log is booked when it is full and when the cell ends.
+struct Entry {
+  double t;
+  std::uint32_t zone;  // record offset
+};
+static_assert(sizeof(Entry) == kEntersOtherKey, "a flagged move advances the log by one entry");
+constexpr int kLogEntries = 128;
+// The log starts on a multiple of twice its size, so it is full exactly when this bit of the end
+// pointer is set: one test per move, no limit to keep.
+constexpr std::uintptr_t kLogFull = kLogEntries * sizeof(Entry);
+
+// What a lane knows of its cell apart from the walker: touched only when its log is booked.
+struct alignas(2 * kLogFull) Lane {
+  std::array<Entry, kLogEntries + 1> log;  // one spare: every move writes, kept or not
+  std::uint32_t key = 0;  // of the zone of the last booked entry
+  int cell = -1;          // -1: idle
+};
+
+constexpr int kBlock = 64;  // cells per block: the unit of work and of the ordered merge
+constexpr int kLanes = 4;   // cells followed side by side in one thread (3-4 measured best, 8 slower)
+
+// The lanes of a thread as the rare paths of a move see them: they take a lane index, so that a
+// move does not prepare the addresses of its lane's state on the way (the compiler did, and kept
+// them on the stack, on every move).
+struct LaneSet {
+  Lane* lanes;
+  CellState* states;
+  Tally* tally;
+};
+
+class Simulator {
+ public:
+  Simulator(const Chain& chain, int n_fields, int n_regimes, const LifelineOptions& o)
+      : c_(chain), n_fields_(n_fields), n_regimes_(n_regimes), count_regimes_(n_regimes > 0), duration_(o.duration_s),
+        min_excursion_(o.min_excursion_s), seed_(o.seed) {}
+
+  int fields() const { return n_fields_; }
+  int regimes() const { return n_regimes_; }
+  double duration() const { return duration_; }
+
+  template <int LogColumns>
+  [[gnu::noinline]] Walker start(Lane& lane, CellState& st, int cell) const {
+    CellRandom rng(seed_, static_cast<std::uint64_t>(cell));
+    const int zone = std::min(static_cast<int>(std::lower_bound(c_.start_cdf.begin(), c_.start_cdf.end(), rng.uniform()) - c_.start_cdf.begin()),
+                              c_.zones - 1);
+    Walker w;
+    w.rng = rng.words();
+    w.zone = static_cast<std::uint32_t>(zone * sizeof(ZoneRecord<LogColumns>));
+    w.end = lane.log.data();
+    lane.cell = cell;
+    lane.key = c_.key[zone];
+    for (int f = 0; f < n_fields_; ++f) st.fields[f] = FieldCell{((lane.key >> (8 + f)) & 1u) != 0};
+    st.regime = static_cast<int>(lane.key & 0xffu);
+    st.regime_seen_change = false;
+    st.regime_since = 0.0;
+    std::fill(st.last_entry.begin(), st.last_entry.end(), -1.0);
+    return w;
+  }
+
+  // What the hot loop reads, as plain values (kept in registers: nothing is reloaded after the
+  // stores of a move).
+  struct Hot {
+    char* records;
+    double duration;
+  };
+
+  // One move of w; false (and the last partial stay booked) when the cell reaches the end.
+  // LogColumns: log2 of the alias columns per zone, a constant so that the indexing is immediate.
+  template <int LogColumns, int L>
+  [[gnu::always_inline]] bool step(const Hot& h, Walker& w, const LaneSet& lanes) const {
+    using Record = ZoneRecord<LogColumns>;
+    const std::uint64_t r = CellRandom::next(w.rng);
+    Record& z = *reinterpret_cast<Record*>(h.records + w.zone);
+    const double t_next = w.t + zig_.from_draw(r, w.rng) * z.mean_s;
+    if (!(t_next < h.duration)) [[unlikely]] {  // also catches +inf (no outflow)
+      z.sum += Pair{h.duration - w.t, 0.0};
+      book<LogColumns>(lanes, L, w.end);
+      return false;
+    }
+    z.sum += Pair{t_next - w.t, 1.0};
+    const auto column = static_cast<std::uint32_t>(r >> kCoinBits) & (Record::kColumns - 1);
+    const auto coin = static_cast<std::uint16_t>(r & ((1u << kCoinBits) - 1));
+    const std::uint16_t top = z.top[column];
+    // Own or alias by an index, not a branch: the choice is close to a coin toss, a branch on it
+    // would be mispredicted on a large share of the moves.
+    std::uint32_t next = z.to[coin < top][column];
+    if (coin == top) [[unlikely]] {
+      const Refined d = refine<LogColumns>(w.rng, w.zone, column, coin);
+      next = d.to, w.rng = d.rng;
+    }
+    w.t = t_next;
+    w.zone = next & ~kEntersOtherKey;
+    *w.end = {t_next, w.zone};
+    w.end = reinterpret_cast<Entry*>(reinterpret_cast<char*>(w.end) + (next & kEntersOtherKey));
+    if (reinterpret_cast<std::uintptr_t>(w.end) & kLogFull) [[unlikely]] w.end = book<LogColumns>(lanes, L, w.end);
+    return true;
+  }
+
+  // Time outside per field [s] of a cell that has reached the end.
+  void finish(const CellState& st, double* outside) const {
+    for (int f = 0; f < n_fields_; ++f) {
+      const FieldCell& fc = st.fields[f];
+      outside[f] = fc.outside_time + (fc.outside ? duration_ - fc.since : 0.0);
+    }
+  }
+
+ private:
+  // The pick when the coin's top bits tie with the threshold's (one move in 2^13): the coin's
+  // other bits decide. Generator words by value: a walker whose address escaped could not be kept
+  // unrolled.
+  struct Refined {
+    std::uint32_t to;
+    CellRandom::Words rng;
+  };
+  template <int LogColumns>
+  [[gnu::noinline]] Refined refine(CellRandom::Words rng, std::uint32_t record, std::uint32_t column, std::uint16_t coin) const {
+    const size_t slot = (record / sizeof(ZoneRecord<LogColumns>) << LogColumns) + column;
+    const std::uint64_t full = (static_cast<std::uint64_t>(coin) << (64 - kCoinBits)) | (CellRandom::next(rng) >> kCoinBits);
+    const std::uint32_t to = c_.slots[slot].to[full < c_.threshold[slot]];
+    return {record_target<LogColumns>(to), rng};
+  }
+
+  // Books the entries of lane l's log up to `end`; returns the log's start. The end pointer by
+  // value: a walker whose address escaped could not be kept unrolled.
+  template <int LogColumns>
+  [[gnu::noinline]] Entry* book(const LaneSet& lanes, int l, const Entry* end) const {
+    return book<LogColumns>(lanes.lanes[l], end, *lanes.tally, lanes.states[l]);
+  }
+  // Whether an entry changes the regime, a field or both is close to random: the entries are first
+  // sorted into the two kinds without a branch, then each kind is booked in order by code whose
+  // branches follow the cell's own rhythm (a field's side alternates) and are predicted.
+  template <int LogColumns>
+  [[gnu::noinline]] Entry* book(Lane& lane, const Entry* end, Tally& tally, CellState& st) const {
+    const Entry* log = lane.log.data();
+    const auto n = static_cast<int>(end - log);
+    std::array<std::uint32_t, kLogEntries + 1> key;  // [0]: before the first entry
+    std::array<std::uint16_t, kLogEntries> regime_moves, field_moves;
+    int regimes = 0, fields = 0;
+    key[0] = lane.key;
+    for (int i = 0; i < n; ++i) {
+      key[i + 1] = c_.key[log[i].zone / sizeof(ZoneRecord<LogColumns>)];
+      const std::uint32_t diff = key[i] ^ key[i + 1];
+      regime_moves[regimes] = static_cast<std::uint16_t>(i), regimes += (diff & 0xffu) != 0;
+      field_moves[fields] = static_cast<std::uint16_t>(i), fields += (diff >> 8) != 0;
+    }
+    if (count_regimes_) {
+      for (int k = 0; k < regimes; ++k) {
+        const int i = regime_moves[k];
+        regime_change(static_cast<int>(key[i] & 0xffu), static_cast<int>(key[i + 1] & 0xffu), log[i].t, tally, st);
+      }
+    }
+    for (int k = 0; k < fields; ++k) {
+      const int i = field_moves[k];
+      for (std::uint32_t m = (key[i] ^ key[i + 1]) >> 8; m != 0; m &= m - 1) field_change(std::countr_zero(m), log[i].t, st);
+    }
+    lane.key = key[n];
+    return lane.log.data();
+  }
+
+  // A cell passes from regime a to regime b at t.
+  [[gnu::always_inline]] void regime_change(int a, int b, double t, Tally& tally, CellState& st) const {
+    if (st.regime_seen_change) {
+      const double stay = t - st.regime_since;
+      tally.stay_sum[a] += stay;
+      ++tally.stay_count[a];
+      ++tally.stay_bins[static_cast<size_t>(a) * kBins + log_bin(stay)];
+    }
+    ++tally.transitions[static_cast<size_t>(a) * n_regimes_ + b];
+    if (st.last_entry[b] >= 0.0) {
+      const double back = t - st.last_entry[b];
+      tally.return_sum[b] += back;
+      ++tally.return_count[b];
+      ++tally.return_bins[static_cast<size_t>(b) * kBins + log_bin(back)];
+    }
+    st.last_entry[b] = t;
+    st.regime_since = t;
+    st.regime_seen_change = true;
+  }
+
+  // A cell crosses field f's threshold at t.
+  void field_change(int f, double t, CellState& st) const {
+    FieldCell& fc = st.fields[f];
+    FieldEvents& ev = st.events[f];
+    const double run = t - fc.since;
+    if (fc.outside) {  // an excursion ends
+      fc.outside_time += run;
+      if (fc.seen_change) {
+        ev.excursions.push_back(run);
+        if (min_excursion_ > 0.0 && run >= min_excursion_) {
+          if (fc.last_long_end >= 0.0) ev.long_between.push_back(fc.since - fc.last_long_end);
+          ev.long_excursions.push_back(run);
+          fc.last_long_end = t;
+        }
+      }
+    } else if (fc.seen_change) {
+      ev.between.push_back(run);
+    }
+    fc.outside = !fc.outside;
+    fc.seen_change = true;
+    fc.since = t;
+  }
+
+  const Chain& c_;
+  const ExponentialZiggurat zig_;
+  int n_fields_, n_regimes_;
+  bool count_regimes_;
+  double duration_, min_excursion_;
+  std::uint64_t seed_;
+};
+
+// A thread's workspace for a block of cells: its tally, the event lists of each cell of the block
+// (merged in cell order), the lanes. Allocated once per thread; capacities are kept.
+struct BlockWork {
+  Tally tally;
+  std::vector<std::vector<FieldEvents>> events;  // [cell in block][field]
+  std::vector<Lane> lanes;                       // over-aligned: a vector, not on the stack
+  std::vector<CellState> states;                 // per lane
+  std::vector<double> outside;
+
+  BlockWork(const Simulator& sim, int zones)
+      : tally(zones, sim.regimes()), events(kBlock, std::vector<FieldEvents>(sim.fields())), lanes(kLanes), outside(sim.fields()) {
+    for (int l = 0; l < kLanes; ++l) states.push_back({std::vector<FieldCell>(sim.fields()), 0, false, 0.0, std::vector<double>(sim.regimes())});
+  }
+};
+
+// The lanes' walkers are locals reached only through constant indices (the folds below): the
+// round of moves is unrolled, each lane's state at a fixed place, with no lane index to carry.
+template <int LogColumns, typename Begin, typename Done, int... L>
+[[gnu::always_inline]] inline void run_lanes(const Simulator& sim, const Simulator::Hot& h, BlockWork& work, int& next, int last,
+                                             Begin& begin, Done& done, std::integer_sequence<int, L...>) {
+  Walker w[kLanes];
+  const LaneSet lanes{work.lanes.data(), work.states.data(), &work.tally};
+  int live = 0;
+  ((next < last ? (w[L] = begin(L), ++live) : 0), ...);
+  auto move = [&]<int l>(Walker& x) __attribute__((always_inline)) {
+    if (!sim.step<LogColumns, l>(h, x, lanes)) [[unlikely]] {
+      done(l);
+      if (next < last) {
+        x = begin(l);
+      } else {
+        --live;
+      }
+    }
+  };
+  while (live == kLanes) (move.template operator()<L>(w[L]), ...);
+  auto finish = [&]<int l>(Walker& x) {
+    if (work.lanes[l].cell < 0) return;
+    while (sim.step<LogColumns, l>(h, x, lanes)) {
+    }
+    done(l);
+  };
+  (finish.template operator()<L>(w[L]), ...);
+}
+
+// Follows cells [first, last) (one block) on this thread's zone records, writing each cell's time
+// outside into `outside[f][c]` and its path, for c < paths.size(), into paths[c]; the block's zone
+// sums end up in work.tally (and the records' sums are cleared).
+template <int LogColumns>
+void run_block(const Simulator& sim, std::vector<ZoneRecord<LogColumns>>& records, int first, int last, BlockWork& work,
+               std::vector<std::vector<double>>& outside, std::vector<Trajectory>& paths) {
+  work.tally.clear();
+  for (int c = first; c < last; ++c) {
+    for (auto& e : work.events[c - first]) e.clear();
+  }
+  for (Lane& lane : work.lanes) lane.cell = -1;
+  int next = first;
+  auto begin = [&](int l) {
+    work.states[l].events = work.events[next - first].data();
+    return sim.start<LogColumns>(work.lanes[l], work.states[l], next++);
+  };
+  auto done = [&](int l) {
+    sim.finish(work.states[l], work.outside.data());
+    for (int f = 0; f < sim.fields(); ++f) outside[f][work.lanes[l].cell] = work.outside[f];
+    work.lanes[l].cell = -1;
+  };
+  const Simulator::Hot h{reinterpret_cast<char*>(records.data()), sim.duration()};
+  // Cells whose path is kept: one by one, recording every entry.
+  const LaneSet lanes{work.lanes.data(), work.states.data(), &work.tally};
+  while (next < last && next < static_cast<int>(paths.size())) {
+    Trajectory& p = paths[next];
+    Walker w = begin(0);
+    do {
+      p.time_s.push_back(w.t), p.zone.push_back(static_cast<int>(w.zone / sizeof(ZoneRecord<LogColumns>)));
+    } while (sim.step<LogColumns, 0>(h, w, lanes));
+    done(0);
+  }
+  // The others side by side: kLanes independent chains of loads overlap in the processor.
+  run_lanes<LogColumns>(sim, h, work, next, last, begin, done, std::make_integer_sequence<int, kLanes>{});
+  for (size_t k = 0; k < records.size(); ++k) work.tally.zone[k].sum = records[k].sum, records[k].sum = Pair{0.0, 0.0};
+}
+
+// Everything the threads add up, merged in block order.
+struct Totals {
+  Tally tally;
+  std::vector<FieldEvents> events;  // per field
+  std::vector<std::vector<double>> outside;  // [field][cell]: time outside [s]
+};
+
+// All cells, in blocks over the threads, with the column count a constant.
+template <int LogColumns>
+void follow_cells(const Chain& chain, const Simulator& sim, int cells, int threads, Totals& out, std::vector<Trajectory>& paths) {
+  const auto prototype = zone_records<LogColumns>(chain);
+  const int blocks = (cells + kBlock - 1) / kBlock;
+#pragma omp parallel num_threads(threads)
+  {
+    BlockWork work(sim, chain.zones);
+    auto records = prototype;  // this thread's: its sums sit on the lines the moves read
+#pragma omp for ordered schedule(dynamic, 1)
+    for (int b = 0; b < blocks; ++b) {
+      const int first = b * kBlock, last = std::min(cells, first + kBlock);
+      run_block<LogColumns>(sim, records, first, last, work, out.outside, paths);
+#pragma omp ordered
+      {
+        out.tally.add(work.tally);
+        for (int c = first; c < last; ++c) {
+          for (int f = 0; f < sim.fields(); ++f) work.events[c - first][f].append_to(out.events[f]);
+        }
+        // Room for all the events, estimated from the first block, so that the lists (hundreds of
+        // MB at 1e5 cells) are not copied again and again as they grow.
+        if (b == 0) {
+          const double scale = 1.05 * cells / std::max(last - first, 1);
+          for (auto& e : out.events) {
+            for (auto* v : {&e.excursions, &e.between, &e.long_excursions, &e.long_between}) {
+              v->reserve(static_cast<size_t>(scale * v->size()) + 64);
+            }
+          }
+        }
+      }
+    }
+  }
+}
+
+// follow_cells with the column count as a constant (0 .. 8; the (r, z) grid has at most four
+// neighbours, so 2).
+template <int L = 0>
+void follow(const Chain& chain, const Simulator& sim, int cells, int threads, Totals& out, std::vector<Trajectory>& paths) {
+  if constexpr (L < 8) {
+    if (chain.log_columns != L) return follow<L + 1>(chain, sim, cells, threads, out, paths);
+  }
+  follow_cells<L>(chain, sim, cells, threads, out, paths);
+}
+
+}  // namespace
+
+// ---- building blocks ----
+
+CellRandom::CellRandom(std::uint64_t seed, std::uint64_t stream) {
+  // Seed and stream go through SplitMix64 separately, so that (seed, stream) pairs that differ
+  // in either give unrelated states.
+  std::uint64_t x = seed;
+  std::uint64_t y = splitmix64(x) ^ (stream * 0xd1b54a32d192ed03ull);
+  hi_ = splitmix64(y);
+  lo_ = splitmix64(y) | 1u;  // odd: the multiplicative group's full period
+}
+
+double ExponentialZiggurat::base_edge(int layers) {
+  // Marsaglia & Tsang (2000): layers of equal area v = (r + 1) exp(-r) (the base layer is the
+  // rectangle up to r plus the tail beyond it); from r, each layer's left edge follows from the one
+  // below. The right r makes the top layer end at x = 0: v / x_1 + exp(-x_1) = 1. Too small an r
+  // runs out of area before the top (the argument of the logarithm reaches 1).
+  auto excess = [layers](double r) {
+    const double v = (r + 1.0) * std::exp(-r);
+    double x = r;
+    for (int i = layers - 2; i >= 1; --i) {
+      const double a = v / x + std::exp(-x);
+      if (a >= 1.0) return 1.0;
+      x = -std::log(a);
+    }
+    return v / x + std::exp(-x) - 1.0;
+  };
+  double lo = 1.0, hi = 40.0;
+  for (int k = 0; k < 200 && hi - lo > 1e-15 * hi; ++k) {
+    const double mid = 0.5 * (lo + hi);
+    (excess(mid) > 0.0 ? lo : hi) = mid;
+  }
+  return 0.5 * (lo + hi);
+}
+
+ExponentialZiggurat::ExponentialZiggurat() : r_([] {
+  static const double edge = base_edge(kLayers);  // once: the bisection takes some 10^5 exp and log
+  return edge;
+}()) {
+  // Marsaglia & Tsang (2000)'s set-up with 32-bit abscissae, for kLayers layers.
+  constexpr int n = kLayers;
+  const double m = 0x1.0p32;
+  double d = r_, prev = d;
+  const double v = (r_ + 1.0) * std::exp(-r_);
+  const double q = v / std::exp(-d);
+  k_[0] = static_cast<std::uint32_t>((d / q) * m);
+  k_[1] = 0;
+  w_[0] = q / m;
+  w_[n - 1] = d / m;
+  f_[0] = 1.0;
+  f_[n - 1] = std::exp(-d);
+  for (int i = n - 2; i >= 1; --i) {
+    d = -std::log(v / d + std::exp(-d));
+    k_[i + 1] = static_cast<std::uint32_t>((d / prev) * m);
+    prev = d;
+    f_[i] = std::exp(-d);
+    w_[i] = d / m;
+  }
+  // Layer i >= 1 spans x in [0, x_i], y in [f_i, f_{i-1}]; its wedge is x in [x_{i-1}, x_i], with
+  // x_0 = 0 (the top layer is all wedge).
+  for (int i = 1; i < n; ++i) {
+    x_[i] = w_[i] * m;
+    const double left = i > 1 ? w_[i - 1] * m : 0.0;
+    const double width = x_[i] - left, drop = f_[i - 1] - f_[i];
+    inv_width_[i] = 1.0 / width;
+    tangent_right_[i] = f_[i] * width / drop;     // < 1
+    tangent_left_[i] = f_[i - 1] * width / drop;  // > 1
+  }
+}
+
+double ExponentialZiggurat::slow(CellRandom& rng, unsigned i, std::uint32_t j) const {
+  const Slow d = slow_words(rng.words(), i, j);
+  rng = CellRandom(d.words);
+  return d.x;
+}
+
+ExponentialZiggurat::Slow ExponentialZiggurat::slow_words(CellRandom::Words words, unsigned i, std::uint32_t j) const {
+  CellRandom rng(words);
+  for (;;) {
+    if (i == 0) return {r_ - std::log1p(-rng.uniform()), rng.words()};  // memoryless tail beyond r
+    const double x = static_cast<double>(j) * w_[i];
+    // y = f_i + u (f_{i-1} - f_i) against exp(-x). With s the position under the chord (1 at
+    // x_{i-1}, 0 at x_i): above the chord is above the curve; below either tangent is below it.
+    // Only between them is exp needed (the same decisions, a few times fewer exp calls).
+    const double u = rng.uniform();
+    const double s = (x_[i] - x) * inv_width_[i];
+    if (u <= s) {
+      if (u < s * tangent_right_[i] || u < 1.0 - (1.0 - s) * tangent_left_[i]) return {x, rng.words()};
+      if (f_[i] + u * (f_[i - 1] - f_[i]) < std::exp(-x)) return {x, rng.words()};
+    }
+    const std::uint64_t b = rng.next();
+    i = layer(b);
+    j = abscissa(b);
+    if (j < k_[i]) return {static_cast<double>(j) * w_[i], rng.words()};
+  }
+}
+
+AliasTable::AliasTable(const std::vector<double>& weights, int cols) : columns(cols) {
+  const int n = static_cast<int>(weights.size());
+  if (n < 1 || cols < n || !std::has_single_bit(static_cast<unsigned>(cols)) || cols > 256) {
+    throw std::invalid_argument("AliasTable: columns must be a power of two, at least the outcomes and at most 256");
+  }
+  double total = 0.0;
+  for (double w : weights) {
+    if (!(w >= 0.0)) throw std::invalid_argument("AliasTable: weights must be non-negative");
+    total += w;
+  }
+  if (!(total > 0.0)) throw std::invalid_argument("AliasTable: weights must have a positive sum");
+  std::vector<double> p(cols, 0.0);
+  for (int i = 0; i < n; ++i) p[i] = weights[i] / total * cols;
+  own.resize(cols);
+  alias.resize(cols);
+  std::vector<double> prob(cols, 1.0);
+  std::vector<int> small, large;
+  for (int i = 0; i < cols; ++i) (p[i] < 1.0 ? small : large).push_back(i);
+  while (!small.empty() && !large.empty()) {
+    const int s = small.back(), l = large.back();
+    small.pop_back();
+    prob[s] = p[s];
+    alias[s] = l;
+    p[l] = (p[l] + p[s]) - 1.0;
+    if (p[l] < 1.0) large.pop_back(), small.push_back(l);
+  }
+  // Left over (only by round-off): their own outcome for sure.
+  for (int i : small) prob[i] = 1.0, alias[i] = i;
+  for (int i : large) prob[i] = 1.0, alias[i] = i;
+  const int heaviest = static_cast<int>(std::max_element(weights.begin(), weights.end()) - weights.begin());
+  threshold.resize(cols);
+  for (int i = 0; i < cols; ++i) {
+    own[i] = i;
+    if (i >= n) own[i] = alias[i] < n ? alias[i] : heaviest, prob[i] = 0.0;  // padding: never its own (empty) outcome
+    if (alias[i] >= n) alias[i] = heaviest;
+    if (prob[i] >= 1.0 || alias[i] == own[i]) {
+      alias[i] = own[i];
+      threshold[i] = ~0ull;
+    } else {
+      threshold[i] = static_cast<std::uint64_t>(std::ldexp(prob[i], 64));  // prob < 1, so below 2^64
+    }
+  }
+}
+
+LifelineRegimes impeller_regimes(const ZoneNetwork& net) {
+  LifelineRegimes r;
+  int impellers = 1;
+  for (const auto& z : net.region) impellers = std::max({impellers, z.domain + 1, z.discharge + 1});
+  for (int i = 0; i < impellers; ++i) r.names.push_back("impeller" + std::to_string(i + 1));
+  for (int i = 0; i < impellers; ++i) r.names.push_back("bulk" + std::to_string(i + 1));
+  for (const auto& z : net.region) r.of_zone.push_back(z.discharge >= 0 ? z.discharge : impellers + z.domain);
+  return r;
+}
+
+const FieldStatistics* LifelineResult::field(const std::string& name) const {
+  for (const auto& f : fields) {
+    if (f.name == name) return &f;
+  }
+  return nullptr;
+}
+
+LifelineField do_lifeline_field(const std::vector<double>& do_mol_m3, double critical_do_mol_m3) {
+  return {"do", "critical DO", "mol/m3", "mmol/L", 1.0, do_mol_m3, critical_do_mol_m3, true};
+}
+
+namespace {
+
+// log_histogram with the range (smallest and largest positive value) known. Lists of 10^7 values
+// at 10^5 cells are split over the threads (they are idle by now).
+Histogram histogram_over(const std::vector<double>& values, int bins, int threads, double lo, double hi) {
+  Histogram h;
+  const auto n = static_cast<std::ptrdiff_t>(values.size());
+  const double* x = values.data();
+  threads = n > (1 << 16) ? std::max(threads, 1) : 1;
+  constexpr int kWays = 4;
+  const std::ptrdiff_t steps = n / kWays;
+  if (hi <= 0.0) return h;
+  if (hi <= lo) hi = lo * 1.0001;
+  for (int i = 0; i <= bins; ++i) h.edges.push_back(lo * std::pow(hi / lo, static_cast<double>(i) / bins));
+  // A value's bin is the last whose lower edge it reaches (the edges decide, so the counts agree
+  // with the edges given). A first guess comes from the bits of the value: a positive double read
+  // as an integer, over 2^52, less 1023, is log2 of it within 0.087 (exact at powers of two, the
+  // mantissa taken as linear in between), no logarithm needed; where bins are wide enough (more
+  // than 0.2 in log2) that guess is at most one bin off, and one comparison with an edge settles
+  // it. Narrower bins take the logarithm for the guess.
+  const double* edges = h.edges.data();
+  const double log2_lo = std::log2(lo), per_log2 = bins / std::log2(hi / lo);
+  const bool from_bits = per_log2 < 5.0;
+  const double span = std::log(hi / lo);  // once: the compiler may not hoist it (log sets errno)
+  auto bin_of = [&](double v) {
+    const double guess = from_bits ? (static_cast<double>(std::bit_cast<std::int64_t>(v)) * 0x1p-52 - 1023.0 - log2_lo) * per_log2
+                                   : std::log(v / lo) / span * bins;
+    int b = std::clamp(static_cast<int>(guess), 0, bins - 1);
+    if (b + 1 < bins && v >= edges[b + 1]) {
+      ++b;
+    } else if (b > 0 && v < edges[b]) {
+      --b;
+    }
+    return b;
+  };
+  // Four partial counts a value apart, so that a count in the same bin does not wait for the one
+  // before; integer counts do not depend on how the values are split.
+  std::vector<long> counts(static_cast<size_t>(kWays) * bins, 0);  // [way][bin]
+  long* c = counts.data();
+  const int cells = kWays * bins;
+#pragma omp parallel for num_threads(threads) reduction(+ : c[:cells])
+  for (std::ptrdiff_t k = 0; k < steps; ++k) {
+    for (int j = 0; j < kWays; ++j) {
+      const double v = x[kWays * k + j];
+      if (v > 0.0) ++c[j * bins + bin_of(v)];
+    }
+  }
+  for (std::ptrdiff_t i = kWays * steps; i < n; ++i) {
+    if (x[i] > 0.0) ++c[bin_of(x[i])];
+  }
+  h.counts.assign(bins, 0.0);
+  for (int j = 0; j < kWays; ++j) {
+    for (int b = 0; b < bins; ++b) h.counts[b] += static_cast<double>(c[j * bins + b]);
+  }
+  return h;
+}
+
+}  // namespace
+
+Histogram log_histogram(const std::vector<double>& values, int bins, int threads) {
+  const auto n = static_cast<std::ptrdiff_t>(values.size());
+  const double* x = values.data();
+  // Four partial minima and maxima a value apart, so that no value waits for the one before it.
+  threads = n > (1 << 16) ? std::max(threads, 1) : 1;
+  constexpr int kWays = 4;
+  const std::ptrdiff_t steps = n / kWays;
+  double lo = 1e300, hi = 0.0;
+#pragma omp parallel num_threads(threads)
+  {
+    double l[kWays] = {1e300, 1e300, 1e300, 1e300}, u[kWays] = {0.0, 0.0, 0.0, 0.0};
+#pragma omp for nowait
+    for (std::ptrdiff_t k = 0; k < steps; ++k) {
+      for (int j = 0; j < kWays; ++j) {
+        const double v = x[kWays * k + j];
+        l[j] = std::min(l[j], v > 0.0 ? v : 1e300), u[j] = std::max(u[j], v);
+      }
+    }
+#pragma omp critical(oxystrat_histogram_range)
+    for (int j = 0; j < kWays; ++j) lo = std::min(lo, l[j]), hi = std::max(hi, u[j]);
+  }
+  for (std::ptrdiff_t i = kWays * steps; i < n; ++i) {
+    if (x[i] > 0.0) lo = std::min(lo, x[i]), hi = std::max(hi, x[i]);
+  }
+  return histogram_over(values, bins, threads, lo, hi);
+}
+
+LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<LifelineField>& fields,
+                                  const LifelineRegimes& regimes, const LifelineOptions& opts) {
+  const int n = net.size();
+  const int n_fields = static_cast<int>(fields.size());
+  const int n_regimes = static_cast<int>(regimes.names.size());
+  const Chain chain = build_chain(net, h, fields, regimes);
+  const Simulator sim(chain, n_fields, n_regimes, opts);
+  const int cells = std::max(opts.cells, 0);
+  const int kept = std::clamp(opts.trajectories, 0, cells);
+
+  LifelineResult res;
+  res.cells = cells;
+  res.duration_s = opts.duration_s;
+  res.trajectories.resize(kept);
+  Totals totals{Tally(n, n_regimes), std::vector<FieldEvents>(n_fields), std::vector<std::vector<double>>(n_fields, std::vector<double>(cells))};
+  const int threads = opts.threads > 0 ? opts.threads : omp_get_max_threads();
+  follow(chain, sim, cells, threads, totals, res.trajectories);
+  const Tally& total = totals.tally;
+  auto& outside = totals.outside;
+  auto& events = totals.events;
+
+  res.occupancy.assign(n, 0.0);
+  res.residence_mean_s.assign(n, 0.0);
+  res.visits.assign(n, 0);
+  double total_time = 0.0;
+  for (int k = 0; k < n; ++k) total_time += total.zone[k].sum[0];
+  for (int k = 0; k < n; ++k) {
+    const double time = total.zone[k].sum[0];
+    res.visits[k] = static_cast<long>(total.zone[k].sum[1]);
+    res.jumps += res.visits[k];  // every completed visit ends in a move
+    res.residence_mean_s[k] = res.visits[k] > 0 ? time / res.visits[k] : 0.0;
+    res.occupancy[k] = total_time > 0.0 ? time / total_time : 0.0;
+  }
+  const double cell_hours = cells * opts.duration_s / 3600.0;
+  for (int f = 0; f < n_fields; ++f) {
+    const LifelineField& in = fields[f];
+    FieldStatistics s;
+    s.name = in.name, s.label = in.label, s.unit = in.unit, s.display_unit = in.display_unit;
+    s.display_scale = in.display_scale, s.threshold = in.threshold, s.below = in.below;
+    s.min_excursion_s = opts.min_excursion_s;
+    s.time_outside_fraction = std::move(outside[f]);
+    double sum = 0.0;
+    for (double& x : s.time_outside_fraction) sum += (x /= opts.duration_s);
+    s.mean_time_outside_fraction = cells > 0 ? sum / cells : 0.0;
+    FieldEvents& ev = events[f];
+    s.excursion_durations_s = std::move(ev.excursions);
+    s.between_excursions_s = std::move(ev.between);
+    s.long_excursion_durations_s = std::move(ev.long_excursions);
+    s.between_long_excursions_s = std::move(ev.long_between);
+    s.excursions_per_hour = cell_hours > 0 ? s.excursion_durations_s.size() / cell_hours : 0.0;
+    s.long_excursions_per_hour = cell_hours > 0 ? s.long_excursion_durations_s.size() / cell_hours : 0.0;
+    s.excursion_histogram = histogram_over(s.excursion_durations_s, 20, threads, ev.excursions_range.lo, ev.excursions_range.hi);
+    s.between_histogram = histogram_over(s.between_excursions_s, 20, threads, ev.between_range.lo, ev.between_range.hi);
+    s.long_excursion_histogram =
+        histogram_over(s.long_excursion_durations_s, 20, threads, ev.long_excursions_range.lo, ev.long_excursions_range.hi);
+    s.between_long_histogram = histogram_over(s.between_long_excursions_s, 20, threads, ev.long_between_range.lo, ev.long_between_range.hi);
+    res.fields.push_back(std::move(s));
+  }
+  RegimeStatistics& rs = res.regimes;
+  rs.names = regimes.names;
+  rs.transitions_per_hour.resize(total.transitions.size());
+  for (size_t i = 0; i < total.transitions.size(); ++i) rs.transitions_per_hour[i] = cell_hours > 0 ? total.transitions[i] / cell_hours : 0.0;
+  rs.occupancy.assign(n_regimes, 0.0);
+  for (int k = 0; k < n && n_regimes > 0; ++k) rs.occupancy[regimes.of_zone[k]] += res.occupancy[k];
+  for (int g = 0; g < n_regimes; ++g) {
+    rs.stays.push_back(total.stay_count[g]);
+    rs.stay_mean_s.push_back(total.stay_count[g] > 0 ? total.stay_sum[g] / total.stay_count[g] : 0.0);
+    rs.return_mean_s.push_back(total.return_count[g] > 0 ? total.return_sum[g] / total.return_count[g] : 0.0);
+    rs.stay_histograms.push_back(fixed_bin_histogram(&total.stay_bins[static_cast<size_t>(g) * kBins]));
+    rs.return_histograms.push_back(fixed_bin_histogram(&total.return_bins[static_cast<size_t>(g) * kBins]));
+  }
+  return res;
+}
+
+LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<double>& do_mol_m3,
+                                  double critical_do_mol_m3, const LifelineOptions& opts) {
+  std::vector<LifelineField> fields;
+  if (!do_mol_m3.empty()) fields.push_back(do_lifeline_field(do_mol_m3, critical_do_mol_m3));
+  return simulate_lifelines(net, h, fields, {}, opts);
+}
+
+}  // namespace oxystrat

@@ -1,0 +1,185 @@
+#include "solver/studies/sweep.hpp"
+
+#include <fmt/format.h>
+#include <omp.h>
+
+#include <algorithm>
+#include <cmath>
+#include <numeric>
+#include <random>
+#include <stdexcept>
+
+#include "input/units.hpp"
+#include "solver/flow/hydrodynamics.hpp"
+#include "solver/flow/mixing_time.hpp"
+#include "solver/studies/uncertainty.hpp"
+
+namespace oxystrat {
+
+SweepAxis parse_vary(const std::string& argument, const LoadedCase& base) {
+  const auto eq = argument.find('=');
+  if (eq == std::string::npos) {
+    throw CaseError(fmt::format("--vary '{}': expected KEY=START:STOP:COUNT[:UNIT], e.g. operation.speed=80:140:4:rpm", argument));
+  }
+  SweepAxis a;
+  a.key = argument.substr(0, eq);
+  std::vector<std::string> parts;
+  std::string rest = argument.substr(eq + 1), part;
+  for (char ch : rest) {
+    if (ch == ':') {
+      parts.push_back(part);
+      part.clear();
+    } else {
+      part += ch;
+    }
+  }
+  parts.push_back(part);
+  if (parts.size() < 3 || parts.size() > 4) {
+    throw CaseError(fmt::format("--vary '{}': expected START:STOP:COUNT[:UNIT]", argument));
+  }
+  try {
+    a.start = std::stod(parts[0]);
+    a.stop = std::stod(parts[1]);
+    a.count = std::stoi(parts[2]);
+  } catch (const std::exception&) {
+    throw CaseError(fmt::format("--vary '{}': START, STOP must be numbers and COUNT a whole number", argument));
+  }
+  if (a.count < 1 || a.count > 10000) throw CaseError(fmt::format("--vary '{}': COUNT must be 1 to 10000", argument));
+  if (parts.size() == 4) {
+    a.unit = parts[3];
+  } else if (const auto raw = raw_value(base, a.key)) {
+    try {
+      a.unit = units::split(*raw).unit;
+    } catch (const UnitError&) {
+      throw CaseError(fmt::format("--vary '{}': the case's value '{}' is not a number", argument, *raw));
+    }
+  } else {
+    throw CaseError(fmt::format("--vary '{}': the case has no key {}; give the unit: {}=START:STOP:COUNT:UNIT", argument,
+                                a.key, a.key));
+  }
+  return a;
+}
+
+SweepPlan full_factorial(const std::vector<SweepAxis>& axes) {
+  SweepPlan plan{axes, {}};
+  size_t total = 1;
+  for (const auto& a : axes) total *= static_cast<size_t>(a.count);
+  for (size_t i = 0; i < total; ++i) {
+    std::vector<double> p;
+    size_t rest = i;
+    std::vector<size_t> idx(axes.size());  // the first axis varies slowest
+    for (size_t d = axes.size(); d-- > 0;) {
+      idx[d] = rest % axes[d].count;
+      rest /= axes[d].count;
+    }
+    for (size_t d = 0; d < axes.size(); ++d) {
+      const auto& a = axes[d];
+      p.push_back(a.count == 1 ? a.start : a.start + (a.stop - a.start) * static_cast<double>(idx[d]) / (a.count - 1));
+    }
+    plan.points.push_back(p);
+  }
+  return plan;
+}
+
+SweepPlan latin_hypercube(const std::vector<SweepAxis>& axes, int n, std::uint64_t seed) {
+  SweepPlan plan{axes, std::vector<std::vector<double>>(static_cast<size_t>(n), std::vector<double>(axes.size()))};
+  std::mt19937_64 rng(seed);
+  std::uniform_real_distribution<double> u(0.0, 1.0);
+  for (size_t d = 0; d < axes.size(); ++d) {
+    std::vector<int> strata(static_cast<size_t>(n));
+    std::iota(strata.begin(), strata.end(), 0);
+    std::shuffle(strata.begin(), strata.end(), rng);
+    for (int i = 0; i < n; ++i) {
+      const double x = (strata[i] + u(rng)) / n;
+      plan.points[i][d] = axes[d].start + (axes[d].stop - axes[d].start) * x;
+    }
+  }
+  return plan;
+}
+
+std::vector<Override> point_overrides(const SweepPlan& plan, size_t i) {
+  std::vector<Override> out;
+  for (size_t d = 0; d < plan.axes.size(); ++d) {
+    const auto& a = plan.axes[d];
+    const std::string value = a.unit.empty() ? fmt::format("{:.12g}", plan.points[i][d])
+                                             : fmt::format("{:.12g} {}", plan.points[i][d], a.unit);
+    out.push_back(Override{a.key, value, a.key + "=" + value});
+  }
+  return out;
+}
+
+void append_uncertainty_values(const Case& c, int samples, std::uint64_t seed, bool with_mixing,
+                               std::vector<SummaryValue>& values) {
+  UncertaintyOptions o;
+  o.samples = samples;
+  o.seed = seed;
+  o.with_mixing = with_mixing;
+  const auto u = run_uncertainty(c, o);
+  for (const auto& out : u.outputs) {
+    if (out.name == "theta95" && !with_mixing) continue;
+    for (const auto& [suffix, v] : {std::pair{"_p10", out.q.p10}, std::pair{"_p50", out.q.p50}, std::pair{"_p90", out.q.p90}}) {
+      values.push_back({out.name + suffix, out.unit, v, out.name + " " + std::string(suffix + 1)});
+    }
+  }
+}
+
+PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supportable_biomass, int uncertainty_samples,
+                           std::uint64_t seed) {
+  PointResult r;
+  const Case& c = loaded.data;
+  try {
+    const auto run = run_case(c, {supportable_biomass});
+    std::optional<double> theta;
+    if (with_mixing) theta = tracer_mixing_time(run.net, run.hydro, {}).theta_s;
+    r.values = summary_values(c, run, theta);
+    if (uncertainty_samples > 0) append_uncertainty_values(c, uncertainty_samples, seed, with_mixing, r.values);
+    r.checks = check_constraints(c, run);
+    r.feasible = feasible(r.checks);
+    r.ok = true;
+  } catch (const std::exception& e) {
+    r.error = e.what();
+  }
+  return r;
+}
+
+void run_sweep(const LoadedCase& base, const std::vector<Override>& base_overrides, const SweepPlan& plan,
+               const SweepOptions& opts, const std::vector<bool>& done,
+               const std::function<void(size_t, const PointResult&)>& on_done) {
+  const auto n = static_cast<long>(plan.points.size());
+  if (opts.threads > 0) omp_set_num_threads(opts.threads);
+#pragma omp parallel for schedule(dynamic, 1)
+  for (long i = 0; i < n; ++i) {
+    if (done[static_cast<size_t>(i)]) continue;
+    auto overrides = base_overrides;
+    for (auto& o : point_overrides(plan, static_cast<size_t>(i))) overrides.push_back(o);
+    PointResult r;
+    try {
+      const auto loaded = read_case_text(base.source_text, base.file_name, overrides);
+      r = evaluate_point(loaded, opts.with_mixing, opts.supportable_biomass, opts.uncertainty_samples, opts.seed);
+    } catch (const std::exception& e) {
+      r.error = e.what();
+    }
+#pragma omp critical(oxystrat_sweep_done)
+    on_done(static_cast<size_t>(i), r);
+  }
+}
+
+std::vector<bool> pareto_front(const std::vector<PointResult>& results) {
+  std::vector<bool> front(results.size(), false);
+  const auto get = [](const PointResult& r, const char* name) { return summary_value(r.values, name); };
+  for (size_t i = 0; i < results.size(); ++i) {
+    if (!results[i].ok) continue;
+    const double pi = get(results[i], "power_gassed"), di = get(results[i], "do_min");
+    if (std::isnan(di)) continue;
+    bool dominated = false;
+    for (size_t j = 0; j < results.size() && !dominated; ++j) {
+      if (j == i || !results[j].ok) continue;
+      const double pj = get(results[j], "power_gassed"), dj = get(results[j], "do_min");
+      dominated = pj <= pi && dj >= di && (pj < pi || dj > di);
+    }
+    front[i] = !dominated;
+  }
+  return front;
+}
+
+}  // namespace oxystrat

@@ -1,0 +1,68 @@
+// Monte Carlo over the uncertain model constants: seeded Latin-hypercube samples in standard-normal
+// space, each constant perturbed by a documented width, the case re-run per sample (in parallel,
+// results independent of the thread count); P10 / P50 / P90 of the answers and a ranked
+// sensitivity (which constant moves DO_min most).
+#pragma once
+
+#include <cstdint>
+#include <functional>
+#include <string>
+#include <vector>
+
+#include "input/case.hpp"
+
+namespace oxystrat {
+
+struct UncertainConstant {
+  std::string name;
+  bool log_normal = true;  //!< true: multiply by exp(width z); false: add width z
+  double width = 0.0;      //!< sigma of ln(factor), or of the shift
+  std::string source;      //!< where the width comes from
+  std::function<void(Case&, double)> apply;  //!< applies the factor (or shift) to a case
+};
+
+//! The constants with their default widths and sources (README, "Uncertainty").
+std::vector<UncertainConstant> uncertain_constants();
+
+struct UncertaintyOptions {
+  int samples = 100;
+  std::uint64_t seed = 1;
+  double width_scale = 1.0;          //!< multiplies every width (0: the deterministic answer)
+  std::vector<std::string> only;     //!< when not empty: vary just these constants
+  bool with_mixing = true;           //!< theta95 per sample
+  int threads = 0;
+};
+
+struct Quantiles {
+  double p10 = 0.0, p50 = 0.0, p90 = 0.0;
+};
+
+struct UncertaintyOutput {
+  std::string name, unit;
+  std::vector<double> samples;  //!< one per sample (NaN where a sample failed)
+  Quantiles q;
+};
+
+struct Sensitivity {
+  std::string constant;
+  double spearman = 0.0;  //!< rank correlation of the constant's draw with DO_min [-]
+};
+
+struct UncertaintyResult {
+  std::vector<UncertainConstant> constants;
+  std::vector<std::vector<double>> draws;  //!< [sample][constant] standard-normal draws
+  std::vector<UncertaintyOutput> outputs;  //!< do_min, volume_below_critical, max_biomass, theta95
+  std::vector<Sensitivity> sensitivity;    //!< sorted by |spearman|, largest first
+  std::vector<double> profile_z;           //!< level heights [m]
+  std::vector<Quantiles> profile_do;       //!< mean DO per level [mol/m3]
+  int failed = 0;
+};
+
+UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts);
+
+//! Linear-interpolation quantile (type 7) of finite values; NaN when none.
+double quantile(std::vector<double> values, double p);
+//! Inverse of the standard normal CDF (bisection on erfc to round-off).
+double normal_quantile(double p);
+
+}  // namespace oxystrat

@@ -1,0 +1,74 @@
+// Uncertainty: zero widths collapse to the deterministic answer; seeded runs are thread-count
+// independent; a constant with a known effect gives the expected band.
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <cstring>
+
+#include "case_fixtures.hpp"
+#include "solver/oxygen/case_run.hpp"
+#include "solver/studies/uncertainty.hpp"
+
+namespace oxystrat {
+namespace {
+
+Case small() { return testing::gassed_vessel(4, 10); }
+
+TEST(Uncertainty, ZeroWidthsGiveTheDeterministicAnswer) {
+  const Case c = small();
+  UncertaintyOptions o;
+  o.samples = 8;
+  o.width_scale = 0.0;
+  o.with_mixing = false;
+  const auto u = run_uncertainty(c, o);
+  const auto run = run_case(c, {true, false, 1e-3});
+  for (double v : u.outputs[0].samples) EXPECT_EQ(v, run.field->do_min);  // the same computation, bit for bit
+  EXPECT_EQ(u.outputs[2].q.p10, u.outputs[2].q.p90);
+  EXPECT_EQ(u.outputs[2].q.p50, run.max_biomass_kg_m3);
+}
+
+TEST(Uncertainty, SeededRunsAreIdenticalWithOneAndTwoThreads) {
+  UncertaintyOptions o;
+  o.samples = 6;
+  o.seed = 99;
+  o.with_mixing = true;
+  o.threads = 1;
+  const auto one = run_uncertainty(small(), o);
+  o.threads = 2;
+  const auto two = run_uncertainty(small(), o);
+  for (size_t q = 0; q < one.outputs.size(); ++q) {
+    for (size_t i = 0; i < one.outputs[q].samples.size(); ++i) {
+      EXPECT_EQ(std::memcmp(&one.outputs[q].samples[i], &two.outputs[q].samples[i], sizeof(double)), 0);
+    }
+  }
+}
+
+TEST(Uncertainty, UptakeScatterGivesTheExpectedBiomassBand) {
+  // The supportable biomass depends on q_O2 X only, so X_max = X_det / f for an uptake factor f:
+  // with ln f ~ N(0, s^2) the band is X_det exp(-+1.2816 s) (z of the 10th/90th percentile).
+  // Tolerance 3 %: 64 Latin-hypercube samples put the quantiles within ~2 %, and the biomass
+  // search has 0.1 % tolerance.
+  const Case c = small();
+  UncertaintyOptions o;
+  o.samples = 64;
+  o.only = {"q_o2_max"};
+  o.with_mixing = false;
+  const auto u = run_uncertainty(c, o);
+  const double s = 0.10;  // documented width of q_o2_max
+  const double x = run_case(c, {true, false, 1e-3}).max_biomass_kg_m3;
+  EXPECT_NEAR(u.outputs[2].q.p50 / x, 1.0, 0.03);
+  EXPECT_NEAR(u.outputs[2].q.p10 / (x * std::exp(-1.2816 * s)), 1.0, 0.03);
+  EXPECT_NEAR(u.outputs[2].q.p90 / (x * std::exp(1.2816 * s)), 1.0, 0.03);
+  ASSERT_EQ(u.sensitivity.size(), 1u);
+  EXPECT_LT(u.sensitivity[0].spearman, -0.9);  // more uptake, lower DO: a monotone link
+}
+
+TEST(Uncertainty, NormalQuantileAndSampleQuantile) {
+  EXPECT_NEAR(normal_quantile(0.9), 1.2815515655, 1e-9);  // standard normal table value
+  EXPECT_NEAR(normal_quantile(0.5), 0.0, 1e-12);
+  EXPECT_DOUBLE_EQ(quantile({1, 2, 3, 4, 5}, 0.5), 3.0);
+  EXPECT_DOUBLE_EQ(quantile({1, 2, 3, 4, 5}, 0.1), 1.4);  // linear interpolation (type 7)
+}
+
+}  // namespace
+}  // namespace oxystrat
