@@ -67,12 +67,12 @@ std::shared_ptr<const Step> step_for(int zones_wanted) {
 void BM_ZoneBlock(benchmark::State& state) {
   const auto s = step_for(static_cast<int>(state.range(0)));
   const bool fresh = state.range(1) == 1;
-  const int saved = ZoneBlockSolver::multigrid_from;
-  ZoneBlockSolver::multigrid_from = state.range(2) == 1 ? 1 : 1 << 30;
+  SolverOptions linear;
+  linear.multigrid_from_zones = state.range(2) == 1 ? 1 : 1 << 30;
   const ZoneLayout layout{s->zones, &s->gas_order};
   ZoneBlockSolver z;
+  z.set_options(linear);
   if (!z.accept(layout, s->triplets) || !z.refresh_preconditioner()) {
-    ZoneBlockSolver::multigrid_from = saved;
     state.SkipWithError("the Jacobian was refused");
     return;
   }
@@ -82,7 +82,6 @@ void BM_ZoneBlock(benchmark::State& state) {
     ok = z.accept(layout, s->triplets) && (!fresh || z.refresh_preconditioner()) && z.solve(s->rhs, dx, 1e-10) && ok;
     benchmark::DoNotOptimize(dx.data());
   }
-  ZoneBlockSolver::multigrid_from = saved;
   if (!ok) state.SkipWithError("GMRES did not reach 1e-10");
   state.counters["zones"] = s->zones;
   state.counters["nnz_A"] = static_cast<double>(s->jac.nonZeros());

@@ -48,12 +48,13 @@ BENCHMARK(BM_NetworkBuild)->Arg(2000)->Unit(benchmark::kMillisecond)->UseRealTim
 
 // The coupled steady solve (outer holdup/kLa loop around damped Newton), cold start each time;
 // `structured` false forces the general sparse LU of the whole Jacobian (the previous solver).
-void steady_solve(benchmark::State& state, bool structured) {
+void steady_solve(benchmark::State& state, bool structured, const SolverOptions& linear = {}) {
   const auto loaded = load_case(kDemo, grid_for_zones(static_cast<double>(state.range(0))));
   const auto n = build(loaded.data);
   const OxygenContext ctx{loaded.data, n.net, n.hydro, n.routing};
   NewtonOptions newton;
   newton.structured = structured;
+  newton.linear = linear;
   OxygenField f;
   for (auto _ : state) {
     f = solve_oxygen_field(ctx, -1.0, nullptr, nullptr, newton);
@@ -74,12 +75,11 @@ void BM_SteadySolveGeneralLu(benchmark::State& state) { steady_solve(state, fals
 BENCHMARK(BM_SteadySolve)->Arg(500)->Arg(2000)->Unit(benchmark::kMillisecond)->UseRealTime();
 BENCHMARK(BM_SteadySolveGeneralLu)->Arg(2000)->Unit(benchmark::kMillisecond)->UseRealTime();
 // The choice of the liquid blocks' preconditioner by size: range(1) = 0 exact scalar LU at any
-// size, 1 aggregation multigrid at any size (ZoneBlockSolver::multigrid_from is the crossover).
+// size, 1 aggregation multigrid at any size (SolverOptions::multigrid_from_zones is the crossover).
 void BM_SteadySolveByPreconditioner(benchmark::State& state) {
-  const int saved = ZoneBlockSolver::multigrid_from;
-  ZoneBlockSolver::multigrid_from = state.range(1) == 1 ? 1 : 1 << 30;
-  steady_solve(state, true);
-  ZoneBlockSolver::multigrid_from = saved;
+  SolverOptions linear;
+  linear.multigrid_from_zones = state.range(1) == 1 ? 1 : 1 << 30;
+  steady_solve(state, true, linear);
 }
 BENCHMARK(BM_SteadySolveByPreconditioner)
     ->ArgsProduct({{500, 1000, 2000, 5000, 10000, 20000}, {0, 1}})

@@ -8,7 +8,8 @@
 #include <ctime>
 #include <optional>
 
-#include "solver/studies/calibrate.hpp"
+#include "solver/studies/calibrate_exchange.hpp"
+#include "solver/studies/calibrate_kla.hpp"
 #include "postproc/report/calibrate_output.hpp"
 #include "input/units.hpp"
 #include "cli/common.hpp"

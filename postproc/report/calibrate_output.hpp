@@ -6,7 +6,8 @@
 
 #include <string>
 
-#include "solver/studies/calibrate.hpp"
+#include "solver/studies/calibrate_exchange.hpp"
+#include "solver/studies/calibrate_kla.hpp"
 #include "postproc/io/h5_writer.hpp"
 
 namespace oxystrat {

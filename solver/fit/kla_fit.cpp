@@ -12,7 +12,8 @@
 #include <limits>
 #include <sstream>
 
-#include "input/csv_cells.hpp"
+#include "input/csv_table.hpp"
+#include "input/numbers.hpp"
 #include "input/case_reader.hpp"
 #include "input/errors.hpp"
 #include "input/units.hpp"
@@ -27,9 +28,6 @@ constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 // ---------------------------------------------------------------------------------------------
 // Reading the trace
 
-using csv::parse_number;
-using csv::split_cells;
-using csv::trim;
 
 std::string lower_without_spaces(std::string_view s) {
   std::string out;
@@ -46,31 +44,111 @@ bool is_percent_saturation(std::string_view unit) {
 
 constexpr const char* kDoUnits = "%, % air saturation, mg/L, mmol/L, mol/m3 (also mM, umol/L, mol/L)";
 
-struct HeaderCell {
-  std::string name, unit;
-};
-
-// "time [s]", "time (s)" or "time s": the name, then the unit in brackets or after a space.
-HeaderCell split_header_cell(std::string_view cell) {
-  cell = trim(cell);
-  for (auto [open, close] : {std::pair{'[', ']'}, std::pair{'(', ')'}}) {
-    const auto o = cell.find(open);
-    if (o == std::string_view::npos) continue;
-    const auto c = cell.find(close, o);
-    if (c == std::string_view::npos) return {std::string(cell), ""};
-    return {std::string(trim(cell.substr(0, o))), std::string(trim(cell.substr(o + 1, c - o - 1)))};
-  }
-  const auto space = cell.find_first_of(" \t");
-  if (space == std::string_view::npos) return {std::string(cell), ""};
-  return {std::string(cell.substr(0, space)), std::string(trim(cell.substr(space + 1)))};
-}
-
 double time_factor(std::string_view unit) {
   if (unit == "s") return 1.0;
   if (unit == "min") return 60.0;
   if (unit == "h") return 3600.0;
   return kNaN;
 }
+
+// SI value (mol/m3) of one DO concentration unit, or nothing.
+std::optional<double> do_unit_factor(const std::string& unit) {
+  if (unit.empty()) return std::nullopt;
+  try {
+    return units::to_si(units::Dimension::concentration, {1.0, units::split("1 " + unit).unit}, physics::molar_mass_o2);
+  } catch (const UnitError&) {
+    return std::nullopt;
+  }
+}
+
+// The trace from a parsed table: two columns, time and DO, each with its unit.
+DoTrace do_trace_from(const CsvTable& table) {
+  DoTrace tr;
+  tr.file_name = table.file_name;
+  const auto where = table.where(table.header_line);
+  const auto& cells = table.header;
+  if (cells.size() != 2) {
+    throw CaseError(fmt::format("{}: the header has {} columns; expected two, time and DO, e.g. 'time [s],DO [%]' "
+                                "(separated by ',' or ';')",
+                                where, cells.size()));
+  }
+  // The first reading of each header cell whose unit is one of the column's.
+  HeaderCell tc = header_cell_readings(cells[0]).front(), dc = header_cell_readings(cells[1]).front();
+  for (const auto& r : header_cell_readings(cells[0])) {
+    if (std::isfinite(time_factor(r.unit))) {
+      tc = r;
+      break;
+    }
+  }
+  for (const auto& r : header_cell_readings(cells[1])) {
+    if (is_percent_saturation(r.unit) || do_unit_factor(r.unit)) {
+      dc = r;
+      break;
+    }
+  }
+  tr.time_header = cells[0];
+  tr.do_header = cells[1];
+  if (tc.unit.empty()) {
+    throw CaseError(fmt::format("{}: column 1 '{}': missing unit; write it in brackets or after a space, "
+                                "e.g. 'time [s]' (s, min or h)",
+                                where, cells[0]));
+  }
+  const double time_scale = time_factor(tc.unit);
+  if (!std::isfinite(time_scale)) {
+    throw CaseError(fmt::format("{}: column 1 '{}': unknown time unit '{}'; expected s, min or h", where, cells[0],
+                                tc.unit));
+  }
+  if (dc.unit.empty()) {
+    throw CaseError(fmt::format("{}: column 2 '{}': missing unit; write it in brackets or after a space, "
+                                "e.g. 'DO [%]' or 'DO [mg/L]' ({})",
+                                where, cells[1], kDoUnits));
+  }
+  double do_scale = 0.01;
+  if (is_percent_saturation(dc.unit)) {
+    tr.scale = DoScale::saturation;
+  } else {
+    tr.scale = DoScale::concentration;
+    const auto f = do_unit_factor(dc.unit);
+    if (!f) {
+      throw CaseError(fmt::format("{}: column 2 '{}': unknown DO unit '{}'; expected {}", where, cells[1], dc.unit,
+                                  kDoUnits));
+    }
+    do_scale = *f;
+  }
+  tr.time_unit = tc.unit;
+  tr.do_unit = dc.unit;
+  tr.time_factor = time_scale;
+  tr.do_factor = do_scale;
+  for (const auto& row : table.rows) {
+    const auto at = table.where(row.line);
+    const auto tv = table.number(row, 0);
+    if (!tv) {
+      throw CaseError(fmt::format("{}: column 1 '{}': '{}' is not a number; expected the time in {}", at,
+                                  tr.time_header, row.cells[0], tr.time_unit));
+    }
+    const auto dv = table.number(row, 1);
+    if (!dv) {
+      throw CaseError(fmt::format("{}: column 2 '{}': '{}' is not a number; expected the DO in {}", at,
+                                  tr.do_header, row.cells[1], tr.do_unit));
+    }
+    const double t_s = *tv * time_scale;
+    if (!tr.time_s.empty() && t_s <= tr.time_s.back()) {
+      throw CaseError(fmt::format("{}: column 1 '{}': time {} {} is not after the previous row's (line {}); rows must "
+                                  "be in increasing time",
+                                  at, tr.time_header, row.cells[0], tr.time_unit, tr.line.back()));
+    }
+    tr.time_s.push_back(t_s);
+    tr.value.push_back(*dv * do_scale);
+    tr.line.push_back(row.line);
+  }
+  if (static_cast<int>(tr.time_s.size()) < min_trace_points) {
+    throw CaseError(fmt::format("{}: too few points: {} rows of data; the fit needs at least {} (better: dozens "
+                                "spread over the whole rise)",
+                                table.file_name, tr.time_s.size(), min_trace_points));
+  }
+  return tr;
+}
+
 
 // ---------------------------------------------------------------------------------------------
 // The model
@@ -330,114 +408,11 @@ std::string format_interval(double lo, double hi, const char* unit) {
 // Public: parsing
 
 DoTrace parse_do_trace(const std::string& text, const std::string& file_name) {
-  DoTrace tr;
-  tr.file_name = file_name;
-  bool have_header = false;
-  char sep = ',';
-  double time_scale = 1.0, do_scale = 1.0;
-  std::istringstream in(text);
-  std::string raw;
-  int line_no = 0;
-  while (std::getline(in, raw)) {
-    ++line_no;
-    const std::string_view line = csv::content_line(raw, line_no);
-    if (line.empty()) continue;
-    const auto where = fmt::format("{}:{}", file_name, line_no);
-    if (!have_header) {
-      sep = csv::separator_of(line);
-      const auto cells = split_cells(line, sep);
-      if (parse_number(cells.front(), sep == ';')) {
-        throw CaseError(fmt::format("{}: expected a header row naming the two columns with their units, e.g. "
-                                    "'time [s],DO [%]', before the first row of numbers",
-                                    where));
-      }
-      if (cells.size() != 2) {
-        throw CaseError(fmt::format("{}: the header has {} columns; expected two, time and DO, e.g. 'time [s],DO [%]' "
-                                    "(separated by ',' or ';')",
-                                    where, cells.size()));
-      }
-      const auto tc = split_header_cell(cells[0]);
-      const auto dc = split_header_cell(cells[1]);
-      tr.time_header = std::string(cells[0]);
-      tr.do_header = std::string(cells[1]);
-      if (tc.unit.empty()) {
-        throw CaseError(fmt::format("{}: column 1 '{}': missing unit; write it in brackets or after a space, "
-                                    "e.g. 'time [s]' (s, min or h)",
-                                    where, cells[0]));
-      }
-      time_scale = time_factor(tc.unit);
-      if (!std::isfinite(time_scale)) {
-        throw CaseError(fmt::format("{}: column 1 '{}': unknown time unit '{}'; expected s, min or h", where, cells[0],
-                                    tc.unit));
-      }
-      if (dc.unit.empty()) {
-        throw CaseError(fmt::format("{}: column 2 '{}': missing unit; write it in brackets or after a space, "
-                                    "e.g. 'DO [%]' or 'DO [mg/L]' ({})",
-                                    where, cells[1], kDoUnits));
-      }
-      if (is_percent_saturation(dc.unit)) {
-        tr.scale = DoScale::saturation;
-        do_scale = 0.01;
-      } else {
-        tr.scale = DoScale::concentration;
-        try {
-          do_scale = units::to_si(units::Dimension::concentration, {1.0, units::split("1 " + dc.unit).unit},
-                                  physics::molar_mass_o2);
-        } catch (const UnitError&) {
-          throw CaseError(fmt::format("{}: column 2 '{}': unknown DO unit '{}'; expected {}", where, cells[1], dc.unit,
-                                      kDoUnits));
-        }
-      }
-      tr.time_unit = tc.unit;
-      tr.do_unit = dc.unit;
-      tr.time_factor = time_scale;
-      tr.do_factor = do_scale;
-      have_header = true;
-      continue;
-    }
-    const auto cells = split_cells(line, sep);
-    if (cells.size() != 2) {
-      throw CaseError(fmt::format("{}: {} fields; expected 2 (time, DO) separated by '{}'", where, cells.size(), sep));
-    }
-    const auto tv = parse_number(cells[0], sep == ';');
-    if (!tv) {
-      throw CaseError(fmt::format("{}: column 1 '{}': '{}' is not a number; expected the time in {}", where,
-                                  tr.time_header, cells[0], tr.time_unit));
-    }
-    const auto dv = parse_number(cells[1], sep == ';');
-    if (!dv) {
-      throw CaseError(fmt::format("{}: column 2 '{}': '{}' is not a number; expected the DO in {}", where,
-                                  tr.do_header, cells[1], tr.do_unit));
-    }
-    const double t_s = *tv * time_scale;
-    if (!tr.time_s.empty() && t_s <= tr.time_s.back()) {
-      throw CaseError(fmt::format("{}: column 1 '{}': time {} {} is not after the previous row's (line {}); rows must "
-                                  "be in increasing time",
-                                  where, tr.time_header, cells[0], tr.time_unit, tr.line.back()));
-    }
-    tr.time_s.push_back(t_s);
-    tr.value.push_back(*dv * do_scale);
-    tr.line.push_back(line_no);
-  }
-  if (!have_header) {
-    throw CaseError(fmt::format("{}: no header row; expected e.g. 'time [s],DO [%]' followed by one row per sample",
-                                file_name));
-  }
-  if (static_cast<int>(tr.time_s.size()) < min_trace_points) {
-    throw CaseError(fmt::format("{}: too few points: {} rows of data; the fit needs at least {} (better: dozens "
-                                "spread over the whole rise)",
-                                file_name, tr.time_s.size(), min_trace_points));
-  }
-  return tr;
+  const CsvTable table = parse_csv_table(text, file_name, "'time [s],DO [%]'");
+  return do_trace_from(table);
 }
 
-DoTrace read_do_trace(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) throw CaseError(fmt::format("{}: cannot open the DO trace", path));
-  std::stringstream buf;
-  buf << in.rdbuf();
-  return parse_do_trace(buf.str(), path);
-}
+DoTrace read_do_trace(const std::string& path) { return do_trace_from(read_csv_table(path, "DO trace", "'time [s],DO [%]'")); }
 
 double parse_do_value(const std::string& text, DoScale scale, const std::string& what) {
   units::Split q;

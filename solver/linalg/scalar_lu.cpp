@@ -8,9 +8,8 @@
 
 namespace oxystrat {
 
-int ScalarLu::supernodal_from = 500000;
 
-bool ScalarLu::factorize(const Eigen::SparseMatrix<double>& a) {
+bool ScalarLu::factorize(const Eigen::SparseMatrix<double>& a, int supernodal_from) {
   const int n = static_cast<int>(a.rows());
   supernodal_ = n >= supernodal_from;
   if (supernodal_) {

@@ -8,6 +8,8 @@
 #include <Eigen/SparseLU>
 #include <vector>
 
+#include "solver/linalg/solver_options.hpp"
+
 namespace oxystrat {
 
 //! Sparse LU without pivoting of P A P^T (left-looking, Gilbert & Peierls 1988), P a fill-reducing
@@ -19,19 +21,14 @@ namespace oxystrat {
 //! triangular sweeps.
 class ScalarLu {
  public:
-  bool factorize(const Eigen::SparseMatrix<double>& a);  //!< keeps the ordering while the pattern stays
+  //! Keeps the ordering while the pattern stays; blocks of `supernodal_from` rows or more go to
+  //! Eigen's supernodal SparseLU (SolverOptions::supernodal_lu_from).
+  bool factorize(const Eigen::SparseMatrix<double>& a, int supernodal_from = SolverOptions{}.supernodal_lu_from);
   void solve(Eigen::VectorXd& x) const;                   //!< in place
   long nonzeros() const {
     return supernodal_ ? static_cast<long>(big_.nnzL() + big_.nnzU())
                        : static_cast<long>(l_val_.size() + u_val_.size() + diag_.size());
   }
-  //! From this size on, Eigen's supernodal SparseLU (COLAMD, partial pivoting that picks the
-  //! diagonal here, dense kernels on the supernodes). With COLAMD for both, the crossover was
-  //! 5000-10000 zones; with AMD the plain columns have so much less fill that they were faster at
-  //! every size measured (to 2e5 zones, bench/notes.md), so the switch is only for larger blocks.
-  //! Eigen's SparseLU with AMD was 3-5x slower than with COLAMD. Benchmarks may set it.
-  static int supernodal_from;
-
  private:
   bool supernodal_ = false;
   Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> big_;

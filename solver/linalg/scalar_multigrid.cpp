@@ -157,7 +157,6 @@ Csr galerkin(const Csr& b, const std::vector<int>& aggregate, int coarse) {
 
 }  // namespace
 
-int ScalarMultigrid::coarsest_size = 500;
 
 namespace {
 
@@ -205,7 +204,8 @@ double dot(const std::vector<double>& a, const std::vector<double>& b) {
 
 }  // namespace
 
-bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vector<double>& diagonal_shift) {
+bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vector<double>& diagonal_shift,
+                            const SolverOptions& options) {
   levels_.clear();
   Csr b = negated_rows(a, diagonal_shift);
   for (;;) {
@@ -220,7 +220,7 @@ bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vec
     }
     // Double pairwise aggregation: aggregates of up to four rows, coarsening by about 4.
     Csr coarse;
-    bool last = b.n <= coarsest_size;
+    bool last = b.n <= options.multigrid_coarsest_size;
     if (!last) {
       std::vector<int> first, second;
       const int n1 = pair_up(b, first);
@@ -241,7 +241,7 @@ bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vec
       Eigen::SparseMatrix<double> m(b.n, b.n);
       m.setFromTriplets(t.begin(), t.end());
       m.makeCompressed();
-      if (!coarsest_.factorize(m)) return false;
+      if (!coarsest_.factorize(m, options.supernodal_lu_from)) return false;
       coarse_scratch_.resize(b.n);
     } else {
       sort_rows(b);

@@ -27,14 +27,14 @@ namespace oxystrat {
 class ScalarMultigrid {
  public:
   //! Builds the hierarchy for A - diag(diagonal_shift) (no shift when empty). False when a pivot
-  //! of the ILU(0) or of the coarsest LU is not of the sign of an M-matrix block.
-  bool setup(const Eigen::SparseMatrix<double>& a, const std::vector<double>& diagonal_shift = {});
+  //! of the ILU(0) or of the coarsest LU is not of the sign of an M-matrix block. Coarsening stops
+  //! at options.multigrid_coarsest_size rows.
+  bool setup(const Eigen::SparseMatrix<double>& a, const std::vector<double>& diagonal_shift = {},
+             const SolverOptions& options = {});
   //! x <- M^-1 x in place, M^-1 ~ A^-1: one K-cycle from a zero guess.
   void solve(Eigen::VectorXd& x) const;
   int levels() const { return static_cast<int>(levels_.size()); }
   long nonzeros() const;  //!< all levels' operators and smoothers and the coarsest factor
-  //! Coarsening stops at this size (the coarsest LU is then a small share of a cycle).
-  static int coarsest_size;
 
  private:
   struct Level {

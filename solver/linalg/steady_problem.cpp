@@ -118,6 +118,7 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
   NewtonWorkspace local;
   NewtonWorkspace& ws = workspace != nullptr ? *workspace : local;
   const ZoneLayout layout = p.zone_layout();
+  ws.blocks.set_options(opts.linear);
   int structured_iterations = 0, linear_iterations = 0;
   if (opts.structured && layout.zones > 0 && 4 * layout.zones == n) {
     if (structured_newton(p, layout, x, opts, ws, rep)) return rep;

@@ -7,6 +7,7 @@
 #include <Eigen/SparseLU>
 #include <vector>
 
+#include "solver/linalg/solver_options.hpp"
 #include "solver/linalg/zone_block_solver.hpp"
 
 namespace oxystrat {
@@ -36,6 +37,7 @@ struct NewtonOptions {
   int max_iterations = 60;
   double tolerance = 1e-12;  //!< max |r_i| / residual_scale() at convergence
   bool structured = true;    //!< use the structured solve when the problem has a zone layout
+  SolverOptions linear;      //!< size thresholds of the linear solves and the nested start
 };
 
 struct NewtonReport {

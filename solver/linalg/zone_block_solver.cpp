@@ -72,8 +72,6 @@ double chunk_dot(const double* a, const T* b, int n) {
 
 }  // namespace
 
-int ZoneBlockSolver::multigrid_from = 3000;
-int ZoneBlockSolver::parallel_from = 200000;
 
 bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
   have_jacobian_ = false;
@@ -310,7 +308,7 @@ bool ZoneBlockSolver::refresh_preconditioner() {
     shift_c[k] = c[3];
     p_co_[k] = x10_[k] - c[2];
   }
-  multigrid_ = n_ >= multigrid_from;
+  multigrid_ = n_ >= options_.multigrid_from_zones;
   if (multigrid_) {
     // The hierarchy takes the shifted blocks straight from the Jacobian's (no copy of them).
     // The two hierarchies are independent: built side by side (each sequential: the same for any
@@ -319,9 +317,9 @@ bool ZoneBlockSolver::refresh_preconditioner() {
 #pragma omp parallel sections
     {
 #pragma omp section
-      ok_o = mg_o_.setup(j_oo_, shift_o);
+      ok_o = mg_o_.setup(j_oo_, shift_o, options_);
 #pragma omp section
-      ok_c = mg_c_.setup(j_cc_, shift_c);
+      ok_c = mg_c_.setup(j_cc_, shift_c, options_);
     }
     if (!ok_o || !ok_c) return false;
   } else {
@@ -331,7 +329,8 @@ bool ZoneBlockSolver::refresh_preconditioner() {
       p_oo_.coeffRef(k, k) -= shift_o[k];
       p_cc_.coeffRef(k, k) -= shift_c[k];
     }
-    if (!lu_o_.factorize(p_oo_) || !lu_c_.factorize(p_cc_)) return false;
+    if (!lu_o_.factorize(p_oo_, options_.supernodal_lu_from) || !lu_c_.factorize(p_cc_, options_.supernodal_lu_from))
+      return false;
   }
   ++factorisations_;
   factored_ = true;
@@ -386,7 +385,7 @@ void ZoneBlockSolver::apply_schur(const V& v, Eigen::VectorXd& out) {
     transport(1);
   }
   out.resize(2 * n_);
-#pragma omp parallel for schedule(static) if (2 * n_ >= parallel_from)
+#pragma omp parallel for schedule(static) if (2 * n_ >= options_.parallel_from_unknowns)
   for (int k = 0; k < n_; ++k) {
     const Block& m = lg_[k];
     const double ga = t_gas_[2 * k], gb = t_gas_[2 * k + 1];
@@ -416,7 +415,7 @@ void ZoneBlockSolver::precondition(const Eigen::VectorXf& v, Eigen::VectorXf& ou
 #pragma omp section
       cycle(1);
     }
-#pragma omp parallel for schedule(static) if (2 * n_ >= parallel_from)
+#pragma omp parallel for schedule(static) if (2 * n_ >= options_.parallel_from_unknowns)
     for (int k = 0; k < n_; ++k) {
       out[2 * k] = static_cast<float>(s_o_[k]);
       out[2 * k + 1] = static_cast<float>(s_c_[k]);
@@ -460,7 +459,7 @@ double ZoneBlockSolver::orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<
   // One sweep over the chunks: subtract d (if asked), then either project on the basis or
   // measure |w|^2 (partial sums in partial_).
   const auto sweep = [&](bool subtract, bool measure) {
-#pragma omp parallel for schedule(static) if (m >= parallel_from)
+#pragma omp parallel for schedule(static) if (m >= options_.parallel_from_unknowns)
     for (int c = 0; c < chunks; ++c) {
       const int b = c * kChunk, e = std::min(m, b + kChunk);
       double* out = partial_.data() + static_cast<size_t>(c) * count;

@@ -27,6 +27,7 @@
 
 #include "solver/linalg/scalar_lu.hpp"
 #include "solver/linalg/scalar_multigrid.hpp"
+#include "solver/linalg/solver_options.hpp"
 
 namespace oxystrat {
 
@@ -62,14 +63,13 @@ class ZoneBlockSolver {
   bool solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, double rel_tol);
   int last_iterations() const { return last_iterations_; }
   int factorisations() const { return factorisations_; }
-  //! From this many zones on, the liquid blocks are preconditioned by aggregation multigrid
-  //! (ScalarMultigrid, O(N) cost and memory) instead of the exact ScalarLu, whose fill grows
-  //! faster than N (measured crossover: bench/notes.md). Benchmarks and tests may set it.
-  static int multigrid_from;
-  //! From this many liquid unknowns on, the Krylov basis sweeps (in fixed chunks summed in order)
-  //! and the zone loops of the Schur product and the preconditioner are split over the threads:
-  //! the same bits for any thread count. Tests may set it.
-  static int parallel_from;
+  //! Size thresholds (multigrid, threads, supernodal LU); taken at the next accept().
+  void set_options(const SolverOptions& options) {
+    if (options == options_) return;
+    options_ = options;
+    factored_ = false;  // a preconditioner of the other kind may be cached
+  }
+  const SolverOptions& options() const { return options_; }
 
  private:
   using Block = std::array<double, 4>;  // row-major 2 x 2
@@ -80,6 +80,7 @@ class ZoneBlockSolver {
   // w <- w minus its projections on basis_[0, count), which go to h[0, count); returns |w|.
   double orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<Eigen::VectorXd> h);
 
+  SolverOptions options_;
   int n_ = 0;
   std::vector<int> order_;
   // The Jacobian, by part.

@@ -10,11 +10,6 @@
 
 namespace oxystrat {
 
-// Measured (bench/notes.md, nested iteration): nesting already pays at 4900 zones (48 -> 35 ms)
-// and 9800 (105 -> 64 ms); 5000 keeps the bundled cases (476 to 2000 zones) and the exact-LU
-// regime of the zone block solver (below 3000) on the direct cold solve.
-int NestedStart::from_zones = 5000;
-
 namespace {
 
 // The coarse field only seeds the fine solve, whose first scaled residual after interpolation is
@@ -115,7 +110,7 @@ Eigen::VectorXd nested_state(const ZoneNetwork& coarse, const OxygenField& coars
 
 bool seed_from_coarse_grid(const OxygenContext& ctx, double biomass_kg_m3, const NewtonOptions& newton,
                            const std::vector<double>& inert_mol_s, Eigen::VectorXd& x, CoarseWork& work) {
-  if (ctx.net.size() < NestedStart::from_zones) return false;
+  if (ctx.net.size() < newton.linear.nested_start_from_zones) return false;
   Case coarse_case = ctx.c;
   coarse_case.grid.radial = std::max(1, ctx.c.grid.radial / 2);
   coarse_case.grid.axial = std::max(1, ctx.c.grid.axial / 2);

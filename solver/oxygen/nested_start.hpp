@@ -10,13 +10,10 @@
 
 namespace oxystrat {
 
-//! Cold starts of networks with at least `from_zones` zones are seeded from the same case solved
-//! on the grid with half the radial and half the axial count (nested iteration or mesh
-//! sequencing: Brandt 1977, Math. Comp. 31, full multigrid; Knoll & Keyes 2004, J. Comput. Phys.
-//! 193, section on mesh sequencing; both cited from memory). Tests and benchmarks may change it.
-struct NestedStart {
-  static int from_zones;
-};
+// Cold starts of networks with at least SolverOptions::nested_start_from_zones zones are seeded
+// from the same case solved on the grid with half the radial and half the axial count (nested
+// iteration or mesh sequencing: Brandt 1977, Math. Comp. 31, full multigrid; Knoll & Keyes 2004,
+// J. Comput. Phys. 193, section on mesh sequencing; both cited from memory).
 
 //! Weights of the coarse zones that give the value at one fine zone.
 struct ZoneStencil {
@@ -50,7 +47,7 @@ struct CoarseWork {
 
 //! Solves the case of `ctx` on the halved grid (itself nested while still large) and replaces `x`
 //! (the cold start) by its interpolation. Returns false and leaves `x` when the network is below
-//! NestedStart::from_zones, the grid cannot be halved, or the coarse solve fails.
+//! newton.linear.nested_start_from_zones, the grid cannot be halved, or the coarse solve fails.
 bool seed_from_coarse_grid(const OxygenContext& ctx, double biomass_kg_m3, const NewtonOptions& newton,
                            const std::vector<double>& inert_mol_s, Eigen::VectorXd& x, CoarseWork& work);
 

@@ -87,7 +87,7 @@ struct OxygenSetup {
 
 //! Steady field at biomass `biomass_kg_m3` (the case's own when negative). `warm` may hold a
 //! previous field of the same network to start from; without it, a network of at least
-//! NestedStart::from_zones zones starts from the field on its halved grid (nested_start.hpp).
+//! newton.linear.nested_start_from_zones zones starts from the field on its halved grid (nested_start.hpp).
 //! Throws SolveError on failure.
 //! `workspace` (optional) carries the sparse factorisation from one solve to the next.
 //! `newton.structured = false` forces the general sparse LU path (for tests and benchmarks);

@@ -146,8 +146,8 @@ void run_sweep(const LoadedCase& base, const std::vector<Override>& base_overrid
                const SweepOptions& opts, const std::vector<bool>& done,
                const std::function<void(size_t, const PointResult&)>& on_done) {
   const auto n = static_cast<long>(plan.points.size());
-  if (opts.threads > 0) omp_set_num_threads(opts.threads);
-#pragma omp parallel for schedule(dynamic, 1)
+  const int threads = opts.threads > 0 ? opts.threads : omp_get_max_threads();
+#pragma omp parallel for schedule(dynamic, 1) num_threads(threads)
   for (long i = 0; i < n; ++i) {
     if (done[static_cast<size_t>(i)]) continue;
     auto overrides = base_overrides;

@@ -131,8 +131,8 @@ UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts)
   const auto net0 = build_zone_geometry(c);
   std::vector<std::vector<double>> profiles(static_cast<size_t>(n));
   int failed = 0;
-  if (opts.threads > 0) omp_set_num_threads(opts.threads);
-#pragma omp parallel for schedule(dynamic, 1) reduction(+ : failed)
+  const int threads = opts.threads > 0 ? opts.threads : omp_get_max_threads();
+#pragma omp parallel for schedule(dynamic, 1) num_threads(threads) reduction(+ : failed)
   for (int i = 0; i < n; ++i) {
     Case ci = c;
     for (size_t k = 0; k < nk; ++k) {

@@ -495,7 +495,7 @@ TEST(KlaFitTrace, ErrorsNameFileLineColumnAndExpectation) {
   expect_trace_error("time [s],DO [%]\n1,2\nx1,3\n", {"trace.csv:3:", "column 1 'time [s]'", "'x1' is not a number"});
   expect_trace_error("time [s],DO [%]\n" + rows(5), {"trace.csv:", "too few points: 5 rows", "at least 10"});
   expect_trace_error("time [s],DO [%]\n0,1\n1,2\n1,3\n", {"trace.csv:4:", "not after the previous row's (line 3)"});
-  expect_trace_error("time [s],DO [%]\n0,1,2\n", {"trace.csv:2:", "3 fields; expected 2"});
+  expect_trace_error("time [s],DO [%]\n0,1,2\n", {"trace.csv:2:", "3 cells; the header has 2 columns"});
   expect_trace_error("time [s],DO [%],T [degC]\n", {"trace.csv:1:", "header has 3 columns"});
   expect_trace_error("0,1\n1,2\n", {"trace.csv:1:", "expected a header row"});
   expect_trace_error("# only comments\n", {"trace.csv: no header row"});

@@ -40,23 +40,28 @@ int stationary(const SparseMatrix& a, const ScalarMultigrid& mg, const Eigen::Ve
   return 1000;
 }
 
-// Sets a static setting for one test and restores it.
-struct Setting {
-  int& value;
-  int saved;
-  Setting(int& v, int now) : value(v), saved(v) { v = now; }
-  ~Setting() { value = saved; }
-};
+// The large-network path (multigrid, coarsened to a few dozen rows) on a small network.
+NewtonOptions multigrid_newton() {
+  NewtonOptions n;
+  n.linear.multigrid_from_zones = 1;
+  n.linear.multigrid_coarsest_size = 30;
+  return n;
+}
+
+SolverOptions coarsest(int size) {
+  SolverOptions o;
+  o.multigrid_coarsest_size = size;
+  return o;
+}
 
 TEST(ScalarMultigrid, ConvergesToTheLuAnswerAtARateThatHoldsUnderRefinement) {
-  const Setting coarsest(ScalarMultigrid::coarsest_size, 20);  // 3 to 6 levels on these grids
   std::vector<int> iterations;
   for (int f : {1, 2, 4, 8}) {  // 90 to 5638 zones
     const SparseMatrix a = liquid_block(6 * f, 15 * f);
     Eigen::VectorXd b(a.rows());
     for (int i = 0; i < b.size(); ++i) b[i] = std::cos(1.3 * i);
     ScalarMultigrid mg;
-    ASSERT_TRUE(mg.setup(a));
+    ASSERT_TRUE(mg.setup(a, {}, coarsest(20)));  // 3 to 6 levels on these grids
     EXPECT_GE(mg.levels(), f == 1 ? 2 : 4);
     // O(N) memory: operators and ILU factors of all levels about 2.8x A (Galerkin levels add
     // about 40 %, the factors double it; measured 2.6-2.8x), far below a 2-D LU's growing fill.
@@ -79,11 +84,10 @@ TEST(ScalarMultigrid, ConvergesToTheLuAnswerAtARateThatHoldsUnderRefinement) {
 }
 
 TEST(ScalarMultigrid, RefusesABlockThatIsNotOfMMatrixSign) {
-  const Setting coarsest(ScalarMultigrid::coarsest_size, 20);  // not the LU alone
   SparseMatrix a = liquid_block(6, 15);
   a.coeffRef(10, 10) = 1.0;  // a positive diagonal in L - T: -A then has a negative one
   ScalarMultigrid mg;
-  EXPECT_FALSE(mg.setup(a));
+  EXPECT_FALSE(mg.setup(a, {}, coarsest(20)));  // not the LU alone
 }
 
 TEST(ScalarMultigrid, AsPreconditionerGivesTheFieldOfTheExactScalarLu) {
@@ -93,11 +97,7 @@ TEST(ScalarMultigrid, AsPreconditionerGivesTheFieldOfTheExactScalarLu) {
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   const auto exact = solve_oxygen_field(ctx);
-  OxygenField mg;
-  {
-    const Setting from(ZoneBlockSolver::multigrid_from, 1), coarsest(ScalarMultigrid::coarsest_size, 30);
-    mg = solve_oxygen_field(ctx);
-  }
+  const OxygenField mg = solve_oxygen_field(ctx, -1.0, nullptr, nullptr, multigrid_newton());
   EXPECT_GT(mg.linear_iterations, exact.linear_iterations);  // the approximate inverse costs iterations
   // Both stop at a scaled residual below 1e-12 of the O2 fed; as in the zone block solver tests
   // (measured ~1e-11 between solvers), 1e-8 of the largest value.
@@ -118,12 +118,11 @@ TEST(ScalarMultigrid, OneAndTwoThreadsGiveBitIdenticalFields) {
   const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml").data;
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
-  const Setting from(ZoneBlockSolver::multigrid_from, 1), coarsest(ScalarMultigrid::coarsest_size, 30);
   const int saved = omp_get_max_threads();
   omp_set_num_threads(1);
-  const auto one = solve_oxygen_field(ctx);
+  const auto one = solve_oxygen_field(ctx, -1.0, nullptr, nullptr, multigrid_newton());
   omp_set_num_threads(2);
-  const auto two = solve_oxygen_field(ctx);
+  const auto two = solve_oxygen_field(ctx, -1.0, nullptr, nullptr, multigrid_newton());
   omp_set_num_threads(saved);
   EXPECT_EQ(one.linear_iterations, two.linear_iterations);
   EXPECT_EQ(one.do_mol_m3, two.do_mol_m3);

@@ -100,28 +100,25 @@ TEST(ScalarLu, SolvesATransportMatrixWithTransferDiagonalInBothModes) {
   a.makeCompressed();
   Eigen::VectorXd b(a.rows());
   for (int i = 0; i < b.size(); ++i) b[i] = std::cos(1.3 * i);
-  const int saved = ScalarLu::supernodal_from;
   for (int from : {1 << 30, 1}) {  // plain columns, then Eigen's supernodal LU
-    ScalarLu::supernodal_from = from;
     ScalarLu lu;
-    ASSERT_TRUE(lu.factorize(a));
+    ASSERT_TRUE(lu.factorize(a, from));
     for (int again = 0; again < 2; ++again) {  // a refactorisation keeps the ordering
       Eigen::VectorXd x = b;
       lu.solve(x);
       // A direct solve: residual at round-off, ~1e-16 x |A| |x| x fill; 1e-10 of |b| is generous.
       EXPECT_LE((a * x - b).norm(), 1e-10 * b.norm()) << from;
-      ASSERT_TRUE(lu.factorize(a));
+      ASSERT_TRUE(lu.factorize(a, from));
     }
     EXPECT_GT(lu.nonzeros(), a.nonZeros() / 2);
     // New values on the same pattern (a numeric-only refactorisation in the plain mode).
     SparseMatrix changed = a;
     for (int k = 0; k < changed.rows(); ++k) changed.coeffRef(k, k) *= 1.5 + 0.5 * std::cos(k);
-    ASSERT_TRUE(lu.factorize(changed));
+    ASSERT_TRUE(lu.factorize(changed, from));
     Eigen::VectorXd x = b;
     lu.solve(x);
     EXPECT_LE((changed * x - b).norm(), 1e-10 * b.norm()) << from;  // as above
   }
-  ScalarLu::supernodal_from = saved;
   // A zero pivot (a structurally empty column) is refused, not divided by.
   SparseMatrix singular = a;
   for (SparseMatrix::InnerIterator it(singular, 3); it; ++it) it.valueRef() = 0.0;
@@ -310,20 +307,19 @@ TEST(ZoneBlockSolver, ThreadedKrylovSweepsGiveTheSameBitsForAnyThreadCount) {
   p.jacobian(bal.f.state, t);
   Eigen::VectorXd b(p.size());
   for (int i = 0; i < b.size(); ++i) b[i] = std::cos(0.3 * i);
-  const int saved_from = ZoneBlockSolver::parallel_from, saved_mg = ZoneBlockSolver::multigrid_from;
   const int saved_threads = omp_get_max_threads();
-  ZoneBlockSolver::multigrid_from = 1;  // the large-network path (sections and sweeps) on a small one
   auto solve_with = [&](int parallel_from, int threads) {
-    ZoneBlockSolver::parallel_from = parallel_from;
+    SolverOptions o;
+    o.multigrid_from_zones = 1;  // the large-network path (sections and sweeps) on a small one
+    o.parallel_from_unknowns = parallel_from;
     omp_set_num_threads(threads);
     ZoneBlockSolver s;
+    s.set_options(o);
     Eigen::VectorXd dx;
     EXPECT_TRUE(s.accept(p.zone_layout(), t) && s.refresh_preconditioner() && s.solve(b, dx, 1e-10));
     return dx;
   };
   const Eigen::VectorXd serial = solve_with(1 << 30, 1), one = solve_with(1, 1), two = solve_with(1, 2);
-  ZoneBlockSolver::parallel_from = saved_from;
-  ZoneBlockSolver::multigrid_from = saved_mg;
   omp_set_num_threads(saved_threads);
   ASSERT_EQ(serial.size(), p.size());
   EXPECT_EQ((serial - one).cwiseAbs().maxCoeff(), 0.0);

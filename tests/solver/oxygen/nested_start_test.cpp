@@ -16,12 +16,12 @@ namespace {
 
 using testing::Chain;
 
-struct Setting {
-  int& value;
-  int saved;
-  Setting(int& v, int now) : value(v), saved(v) { v = now; }
-  ~Setting() { value = saved; }
-};
+// Newton options with the nested start from `zones` zones on.
+NewtonOptions nesting_from(int zones) {
+  NewtonOptions n;
+  n.linear.nested_start_from_zones = zones;
+  return n;
+}
 
 TEST(NestedStart, BilinearStencilsReproduceALinearField) {
   // Ellipsoidal bottom head: cut cells there take the containing coarse zone instead.
@@ -65,18 +65,11 @@ TEST(NestedStart, SeededSolveGivesTheFieldOfTheDirectSolve) {
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   ASSERT_GT(ch.net.size(), 4000);
-  OxygenField direct, nested;
-  {
-    const Setting off(NestedStart::from_zones, 1 << 30);
-    direct = solve_oxygen_field(ctx);
-  }
-  {
-    const Setting on(NestedStart::from_zones, 2000);
-    nested = solve_oxygen_field(ctx);
-    // A warm start never nests.
-    const auto warm = solve_oxygen_field(ctx, -1.0, &nested);
-    EXPECT_EQ(warm.coarse_levels, 0);
-  }
+  const OxygenField direct = solve_oxygen_field(ctx, -1.0, nullptr, nullptr, nesting_from(1 << 30));
+  const OxygenField nested = solve_oxygen_field(ctx, -1.0, nullptr, nullptr, nesting_from(2000));
+  // A warm start never nests.
+  const auto warm = solve_oxygen_field(ctx, -1.0, &nested, nullptr, nesting_from(2000));
+  EXPECT_EQ(warm.coarse_levels, 0);
   EXPECT_EQ(direct.coarse_levels, 0);
   EXPECT_EQ(nested.coarse_levels, 1);
   EXPECT_GT(nested.coarse_newton_iterations, 0);
@@ -109,12 +102,11 @@ TEST(NestedStart, OneAndTwoThreadsGiveBitIdenticalFields) {
                      .data;
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
-  const Setting on(NestedStart::from_zones, 1000);
   const int saved = omp_get_max_threads();
   omp_set_num_threads(1);
-  const auto one = solve_oxygen_field(ctx);
+  const auto one = solve_oxygen_field(ctx, -1.0, nullptr, nullptr, nesting_from(1000));
   omp_set_num_threads(2);
-  const auto two = solve_oxygen_field(ctx);
+  const auto two = solve_oxygen_field(ctx, -1.0, nullptr, nullptr, nesting_from(1000));
   omp_set_num_threads(saved);
   EXPECT_EQ(one.coarse_levels, 1);
   EXPECT_EQ(one.linear_iterations, two.linear_iterations);

@@ -13,7 +13,8 @@
 #include <string>
 #include <vector>
 
-#include "solver/studies/calibrate.hpp"
+#include "solver/studies/calibrate_exchange.hpp"
+#include "solver/studies/calibrate_kla.hpp"
 #include "input/case_reader.hpp"
 #include "solver/flow/gas_routing.hpp"
 #include "solver/fit/kla_fit.hpp"

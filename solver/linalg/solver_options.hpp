@@ -1,0 +1,31 @@
+// Size thresholds of the linear and nonlinear solves: plain values passed down with the solve,
+// never global settings. The defaults are the measured crossovers of bench/notes.md; tests and
+// benchmarks pass others to exercise a path on a small network.
+#pragma once
+
+namespace oxystrat {
+
+struct SolverOptions {
+  //! From this many zones on, the zone block solver preconditions the liquid blocks by
+  //! aggregation multigrid (O(N) cost and memory) instead of the exact ScalarLu, whose fill
+  //! grows faster than N.
+  int multigrid_from_zones = 3000;
+  //! From this many liquid unknowns on, the Krylov basis sweeps (fixed chunks summed in order)
+  //! and the zone loops of the Schur product and the preconditioner are split over the threads:
+  //! the same bits for any thread count.
+  int parallel_from_unknowns = 200000;
+  //! From this block size on, ScalarLu hands over to Eigen's supernodal SparseLU (COLAMD). With
+  //! AMD the plain columns had so much less fill that they were faster at every size measured up
+  //! to 2e5 zones, so the switch is only for larger blocks.
+  int supernodal_lu_from = 500000;
+  //! Multigrid coarsening stops at this size (the coarsest LU is then a small share of a cycle).
+  int multigrid_coarsest_size = 500;
+  //! Cold starts of networks with at least this many zones are seeded from the same case solved
+  //! on the halved grid (nested iteration; solver/oxygen/nested_start.hpp). Nesting already pays
+  //! near 5000 zones; below it the bundled cases keep the direct cold solve (bench/notes.md).
+  int nested_start_from_zones = 5000;
+
+  bool operator==(const SolverOptions&) const = default;
+};
+
+}  // namespace oxystrat
