@@ -13,13 +13,6 @@
 namespace oxystrat {
 namespace {
 
-std::uint64_t splitmix64(std::uint64_t& x) {
-  std::uint64_t z = (x += 0x9e3779b97f4a7c15ull);
-  z = (z ^ (z >> 30)) * 0xbf58476d1ce4e5b9ull;
-  z = (z ^ (z >> 27)) * 0x94d049bb133111ebull;
-  return z ^ (z >> 31);
-}
-
 // ---- fixed logarithmic bins for the regime statistics, merged as integers ----
 // Edges at 2^(i/4 - 12) s, i = 0 .. kBins: 0.24 ms to 18 h; values outside land in the end bins.
 constexpr int kBins = 112;
@@ -613,146 +606,6 @@ void follow(const Chain& chain, const Simulator& sim, int cells, int threads, To
 
 }  // namespace
 
-// ---- building blocks ----
-
-CellRandom::CellRandom(std::uint64_t seed, std::uint64_t stream) {
-  // Seed and stream go through SplitMix64 separately, so that (seed, stream) pairs that differ
-  // in either give unrelated states.
-  std::uint64_t x = seed;
-  std::uint64_t y = splitmix64(x) ^ (stream * 0xd1b54a32d192ed03ull);
-  hi_ = splitmix64(y);
-  lo_ = splitmix64(y) | 1u;  // odd: the multiplicative group's full period
-}
-
-double ExponentialZiggurat::base_edge(int layers) {
-  // Marsaglia & Tsang (2000): layers of equal area v = (r + 1) exp(-r) (the base layer is the
-  // rectangle up to r plus the tail beyond it); from r, each layer's left edge follows from the one
-  // below. The right r makes the top layer end at x = 0: v / x_1 + exp(-x_1) = 1. Too small an r
-  // runs out of area before the top (the argument of the logarithm reaches 1).
-  auto excess = [layers](double r) {
-    const double v = (r + 1.0) * std::exp(-r);
-    double x = r;
-    for (int i = layers - 2; i >= 1; --i) {
-      const double a = v / x + std::exp(-x);
-      if (a >= 1.0) return 1.0;
-      x = -std::log(a);
-    }
-    return v / x + std::exp(-x) - 1.0;
-  };
-  double lo = 1.0, hi = 40.0;
-  for (int k = 0; k < 200 && hi - lo > 1e-15 * hi; ++k) {
-    const double mid = 0.5 * (lo + hi);
-    (excess(mid) > 0.0 ? lo : hi) = mid;
-  }
-  return 0.5 * (lo + hi);
-}
-
-ExponentialZiggurat::ExponentialZiggurat() : r_([] {
-  static const double edge = base_edge(kLayers);  // once: the bisection takes some 10^5 exp and log
-  return edge;
-}()) {
-  // Marsaglia & Tsang (2000)'s set-up with 32-bit abscissae, for kLayers layers.
-  constexpr int n = kLayers;
-  const double m = 0x1.0p32;
-  double d = r_, prev = d;
-  const double v = (r_ + 1.0) * std::exp(-r_);
-  const double q = v / std::exp(-d);
-  k_[0] = static_cast<std::uint32_t>((d / q) * m);
-  k_[1] = 0;
-  w_[0] = q / m;
-  w_[n - 1] = d / m;
-  f_[0] = 1.0;
-  f_[n - 1] = std::exp(-d);
-  for (int i = n - 2; i >= 1; --i) {
-    d = -std::log(v / d + std::exp(-d));
-    k_[i + 1] = static_cast<std::uint32_t>((d / prev) * m);
-    prev = d;
-    f_[i] = std::exp(-d);
-    w_[i] = d / m;
-  }
-  // Layer i >= 1 spans x in [0, x_i], y in [f_i, f_{i-1}]; its wedge is x in [x_{i-1}, x_i], with
-  // x_0 = 0 (the top layer is all wedge).
-  for (int i = 1; i < n; ++i) {
-    x_[i] = w_[i] * m;
-    const double left = i > 1 ? w_[i - 1] * m : 0.0;
-    const double width = x_[i] - left, drop = f_[i - 1] - f_[i];
-    inv_width_[i] = 1.0 / width;
-    tangent_right_[i] = f_[i] * width / drop;     // < 1
-    tangent_left_[i] = f_[i - 1] * width / drop;  // > 1
-  }
-}
-
-double ExponentialZiggurat::slow(CellRandom& rng, unsigned i, std::uint32_t j) const {
-  const Slow d = slow_words(rng.words(), i, j);
-  rng = CellRandom(d.words);
-  return d.x;
-}
-
-ExponentialZiggurat::Slow ExponentialZiggurat::slow_words(CellRandom::Words words, unsigned i, std::uint32_t j) const {
-  CellRandom rng(words);
-  for (;;) {
-    if (i == 0) return {r_ - std::log1p(-rng.uniform()), rng.words()};  // memoryless tail beyond r
-    const double x = static_cast<double>(j) * w_[i];
-    // y = f_i + u (f_{i-1} - f_i) against exp(-x). With s the position under the chord (1 at
-    // x_{i-1}, 0 at x_i): above the chord is above the curve; below either tangent is below it.
-    // Only between them is exp needed (the same decisions, a few times fewer exp calls).
-    const double u = rng.uniform();
-    const double s = (x_[i] - x) * inv_width_[i];
-    if (u <= s) {
-      if (u < s * tangent_right_[i] || u < 1.0 - (1.0 - s) * tangent_left_[i]) return {x, rng.words()};
-      if (f_[i] + u * (f_[i - 1] - f_[i]) < std::exp(-x)) return {x, rng.words()};
-    }
-    const std::uint64_t b = rng.next();
-    i = layer(b);
-    j = abscissa(b);
-    if (j < k_[i]) return {static_cast<double>(j) * w_[i], rng.words()};
-  }
-}
-
-AliasTable::AliasTable(const std::vector<double>& weights, int cols) : columns(cols) {
-  const int n = static_cast<int>(weights.size());
-  if (n < 1 || cols < n || !std::has_single_bit(static_cast<unsigned>(cols)) || cols > 256) {
-    throw std::invalid_argument("AliasTable: columns must be a power of two, at least the outcomes and at most 256");
-  }
-  double total = 0.0;
-  for (double w : weights) {
-    if (!(w >= 0.0)) throw std::invalid_argument("AliasTable: weights must be non-negative");
-    total += w;
-  }
-  if (!(total > 0.0)) throw std::invalid_argument("AliasTable: weights must have a positive sum");
-  std::vector<double> p(cols, 0.0);
-  for (int i = 0; i < n; ++i) p[i] = weights[i] / total * cols;
-  own.resize(cols);
-  alias.resize(cols);
-  std::vector<double> prob(cols, 1.0);
-  std::vector<int> small, large;
-  for (int i = 0; i < cols; ++i) (p[i] < 1.0 ? small : large).push_back(i);
-  while (!small.empty() && !large.empty()) {
-    const int s = small.back(), l = large.back();
-    small.pop_back();
-    prob[s] = p[s];
-    alias[s] = l;
-    p[l] = (p[l] + p[s]) - 1.0;
-    if (p[l] < 1.0) large.pop_back(), small.push_back(l);
-  }
-  // Left over (only by round-off): their own outcome for sure.
-  for (int i : small) prob[i] = 1.0, alias[i] = i;
-  for (int i : large) prob[i] = 1.0, alias[i] = i;
-  const int heaviest = static_cast<int>(std::max_element(weights.begin(), weights.end()) - weights.begin());
-  threshold.resize(cols);
-  for (int i = 0; i < cols; ++i) {
-    own[i] = i;
-    if (i >= n) own[i] = alias[i] < n ? alias[i] : heaviest, prob[i] = 0.0;  // padding: never its own (empty) outcome
-    if (alias[i] >= n) alias[i] = heaviest;
-    if (prob[i] >= 1.0 || alias[i] == own[i]) {
-      alias[i] = own[i];
-      threshold[i] = ~0ull;
-    } else {
-      threshold[i] = static_cast<std::uint64_t>(std::ldexp(prob[i], 64));  // prob < 1, so below 2^64
-    }
-  }
-}
-
 LifelineRegimes impeller_regimes(const ZoneNetwork& net) {
   LifelineRegimes r;
   int impellers = 1;
@@ -772,92 +625,6 @@ const FieldStatistics* LifelineResult::field(const std::string& name) const {
 
 LifelineField do_lifeline_field(const std::vector<double>& do_mol_m3, double critical_do_mol_m3) {
   return {"do", "critical DO", "mol/m3", "mmol/L", 1.0, do_mol_m3, critical_do_mol_m3, true};
-}
-
-namespace {
-
-// log_histogram with the range (smallest and largest positive value) known. Lists of 10^7 values
-// at 10^5 cells are split over the threads (they are idle by now).
-Histogram histogram_over(const std::vector<double>& values, int bins, int threads, double lo, double hi) {
-  Histogram h;
-  const auto n = static_cast<std::ptrdiff_t>(values.size());
-  const double* x = values.data();
-  threads = n > (1 << 16) ? std::max(threads, 1) : 1;
-  constexpr int kWays = 4;
-  const std::ptrdiff_t steps = n / kWays;
-  if (hi <= 0.0) return h;
-  if (hi <= lo) hi = lo * 1.0001;
-  for (int i = 0; i <= bins; ++i) h.edges.push_back(lo * std::pow(hi / lo, static_cast<double>(i) / bins));
-  // A value's bin is the last whose lower edge it reaches (the edges decide, so the counts agree
-  // with the edges given). A first guess comes from the bits of the value: a positive double read
-  // as an integer, over 2^52, less 1023, is log2 of it within 0.087 (exact at powers of two, the
-  // mantissa taken as linear in between), no logarithm needed; where bins are wide enough (more
-  // than 0.2 in log2) that guess is at most one bin off, and one comparison with an edge settles
-  // it. Narrower bins take the logarithm for the guess.
-  const double* edges = h.edges.data();
-  const double log2_lo = std::log2(lo), per_log2 = bins / std::log2(hi / lo);
-  const bool from_bits = per_log2 < 5.0;
-  const double span = std::log(hi / lo);  // once: the compiler may not hoist it (log sets errno)
-  auto bin_of = [&](double v) {
-    const double guess = from_bits ? (static_cast<double>(std::bit_cast<std::int64_t>(v)) * 0x1p-52 - 1023.0 - log2_lo) * per_log2
-                                   : std::log(v / lo) / span * bins;
-    int b = std::clamp(static_cast<int>(guess), 0, bins - 1);
-    if (b + 1 < bins && v >= edges[b + 1]) {
-      ++b;
-    } else if (b > 0 && v < edges[b]) {
-      --b;
-    }
-    return b;
-  };
-  // Four partial counts a value apart, so that a count in the same bin does not wait for the one
-  // before; integer counts do not depend on how the values are split.
-  std::vector<long> counts(static_cast<size_t>(kWays) * bins, 0);  // [way][bin]
-  long* c = counts.data();
-  const int cells = kWays * bins;
-#pragma omp parallel for num_threads(threads) reduction(+ : c[:cells])
-  for (std::ptrdiff_t k = 0; k < steps; ++k) {
-    for (int j = 0; j < kWays; ++j) {
-      const double v = x[kWays * k + j];
-      if (v > 0.0) ++c[j * bins + bin_of(v)];
-    }
-  }
-  for (std::ptrdiff_t i = kWays * steps; i < n; ++i) {
-    if (x[i] > 0.0) ++c[bin_of(x[i])];
-  }
-  h.counts.assign(bins, 0.0);
-  for (int j = 0; j < kWays; ++j) {
-    for (int b = 0; b < bins; ++b) h.counts[b] += static_cast<double>(c[j * bins + b]);
-  }
-  return h;
-}
-
-}  // namespace
-
-Histogram log_histogram(const std::vector<double>& values, int bins, int threads) {
-  const auto n = static_cast<std::ptrdiff_t>(values.size());
-  const double* x = values.data();
-  // Four partial minima and maxima a value apart, so that no value waits for the one before it.
-  threads = n > (1 << 16) ? std::max(threads, 1) : 1;
-  constexpr int kWays = 4;
-  const std::ptrdiff_t steps = n / kWays;
-  double lo = 1e300, hi = 0.0;
-#pragma omp parallel num_threads(threads)
-  {
-    double l[kWays] = {1e300, 1e300, 1e300, 1e300}, u[kWays] = {0.0, 0.0, 0.0, 0.0};
-#pragma omp for nowait
-    for (std::ptrdiff_t k = 0; k < steps; ++k) {
-      for (int j = 0; j < kWays; ++j) {
-        const double v = x[kWays * k + j];
-        l[j] = std::min(l[j], v > 0.0 ? v : 1e300), u[j] = std::max(u[j], v);
-      }
-    }
-#pragma omp critical(oxystrat_histogram_range)
-    for (int j = 0; j < kWays; ++j) lo = std::min(lo, l[j]), hi = std::max(hi, u[j]);
-  }
-  for (std::ptrdiff_t i = kWays * steps; i < n; ++i) {
-    if (x[i] > 0.0) lo = std::min(lo, x[i]), hi = std::max(hi, x[i]);
-  }
-  return histogram_over(values, bins, threads, lo, hi);
 }
 
 LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<LifelineField>& fields,
@@ -911,11 +678,11 @@ LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h
     s.between_long_excursions_s = std::move(ev.long_between);
     s.excursions_per_hour = cell_hours > 0 ? s.excursion_durations_s.size() / cell_hours : 0.0;
     s.long_excursions_per_hour = cell_hours > 0 ? s.long_excursion_durations_s.size() / cell_hours : 0.0;
-    s.excursion_histogram = histogram_over(s.excursion_durations_s, 20, threads, ev.excursions_range.lo, ev.excursions_range.hi);
-    s.between_histogram = histogram_over(s.between_excursions_s, 20, threads, ev.between_range.lo, ev.between_range.hi);
+    s.excursion_histogram = log_histogram_in_range(s.excursion_durations_s, 20, threads, ev.excursions_range.lo, ev.excursions_range.hi);
+    s.between_histogram = log_histogram_in_range(s.between_excursions_s, 20, threads, ev.between_range.lo, ev.between_range.hi);
     s.long_excursion_histogram =
-        histogram_over(s.long_excursion_durations_s, 20, threads, ev.long_excursions_range.lo, ev.long_excursions_range.hi);
-    s.between_long_histogram = histogram_over(s.between_long_excursions_s, 20, threads, ev.long_between_range.lo, ev.long_between_range.hi);
+        log_histogram_in_range(s.long_excursion_durations_s, 20, threads, ev.long_excursions_range.lo, ev.long_excursions_range.hi);
+    s.between_long_histogram = log_histogram_in_range(s.between_long_excursions_s, 20, threads, ev.long_between_range.lo, ev.long_between_range.hi);
     res.fields.push_back(std::move(s));
   }
   RegimeStatistics& rs = res.regimes;
@@ -934,11 +701,5 @@ LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h
   return res;
 }
 
-LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<double>& do_mol_m3,
-                                  double critical_do_mol_m3, const LifelineOptions& opts) {
-  std::vector<LifelineField> fields;
-  if (!do_mol_m3.empty()) fields.push_back(do_lifeline_field(do_mol_m3, critical_do_mol_m3));
-  return simulate_lifelines(net, h, fields, {}, opts);
-}
 
 }  // namespace oxystrat

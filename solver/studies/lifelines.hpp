@@ -18,7 +18,11 @@
 #include <string>
 #include <vector>
 
+#include "solver/fit/histogram.hpp"
 #include "solver/flow/hydrodynamics.hpp"
+#include "solver/random/alias_table.hpp"
+#include "solver/random/cell_random.hpp"
+#include "solver/random/exponential_ziggurat.hpp"
 #include "mesh/zone_network.hpp"
 
 namespace oxystrat {
@@ -57,11 +61,6 @@ struct LifelineRegimes {
 //! Regimes "impeller k" (the swept volume of impeller k) and "bulk k" (the rest of impeller k's
 //! domain), impellers counted from the bottom.
 LifelineRegimes impeller_regimes(const ZoneNetwork& net);
-
-struct Histogram {
-  std::vector<double> edges;  //!< bin edges [s], size bins + 1 (logarithmic)
-  std::vector<double> counts; //!< number of events per bin
-};
 
 struct Trajectory {
   std::vector<double> time_s;  //!< entry times [s]
@@ -122,120 +121,5 @@ LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h
 
 //! The DO field as the recorder's field "do" (below `critical_do_mol_m3` is outside).
 LifelineField do_lifeline_field(const std::vector<double>& do_mol_m3, double critical_do_mol_m3);
-
-//! Former interface: one DO field (empty: no field statistics), no regimes.
-LifelineResult simulate_lifelines(const ZoneNetwork& net, const Hydrodynamics& h, const std::vector<double>& do_mol_m3,
-                                  double critical_do_mol_m3, const LifelineOptions& opts);
-
-//! Logarithmic histogram of positive values between the smallest and largest; the same counts for
-//! any thread count (integer counts, exact minimum and maximum).
-Histogram log_histogram(const std::vector<double>& values, int bins = 20, int threads = 1);
-
-// ---- building blocks, exposed for their tests ----
-
-//! A 128-bit multiplicative congruential generator (Lehmer 1951) returning the upper 64 bits of
-//! its state: x <- a x mod 2^128 with the 64-bit multiplier a = 0xda942042e4dd58b5 (listed as
-//! spectrally good for this modulus by Steele & Vigna 2022, Softw. Pract. Exp. 52(2) [mem]). The
-//! upper half of such a generator passes the BigCrush battery (L'Ecuyer & Simard 2007's TestU01)
-//! [mem]. Two words of state and one 64x128-bit product per draw: the cheapest good generator we
-//! know for a hot loop that draws once per move. The period is 2^126; (seed, stream) pairs start at
-//! unrelated points of it (state filled by SplitMix64, Steele, Lea & Flood 2014), so cells do not
-//! share stretches of their sequences in any run of practical length.
-class CellRandom {
- public:
-  CellRandom(std::uint64_t seed, std::uint64_t stream);
-  //! The state as two words, for loops that keep several generators as plain values.
-  struct Words {
-    std::uint64_t lo, hi;
-  };
-  explicit CellRandom(Words w) : lo_(w.lo), hi_(w.hi) {}
-  Words words() const { return {lo_, hi_}; }
-  [[gnu::always_inline]] static std::uint64_t next(Words& s) {
-    // (hi 2^64 + lo) a = (hi a + high(lo a)) 2^64 + low(lo a), mod 2^128.
-    const auto p = static_cast<Wide>(s.lo) * kMultiplier;
-    s.lo = static_cast<std::uint64_t>(p);
-    s.hi = s.hi * kMultiplier + static_cast<std::uint64_t>(p >> 64);
-    return s.hi;
-  }
-  std::uint64_t next() {
-    Words s{lo_, hi_};
-    const std::uint64_t r = next(s);
-    lo_ = s.lo, hi_ = s.hi;
-    return r;
-  }
-  //! Uniform on [0, 1) with 53 random bits.
-  double uniform() { return static_cast<double>(next() >> 11) * 0x1.0p-53; }
-
- private:
-  __extension__ typedef unsigned __int128 Wide;
-  static constexpr std::uint64_t kMultiplier = 0xda942042e4dd58b5ull;
-  std::uint64_t lo_ = 1, hi_ = 0;  //!< the state, odd
-};
-
-//! Unit exponential variates by the ziggurat method of Marsaglia & Tsang (2000, J. Stat. Softw.
-//! 5(8)) with 32-bit abscissae, as published, but 2048 layers instead of 256 (their set-up, with
-//! the base layer's edge r found for that count: base_edge), so that 99.66 % of the draws take the
-//! fast path instead of 97.8 %. The layer comes from bits 53-63 and the abscissa from bits 21-52
-//! of a draw (disjoint bits, so they are independent; bits 0-20 stay free for the caller). The
-//! fast path is one compare and one multiply; the rest test the wedge (first against the chord
-//! and the tangents of the convex exp(-x), so that exp is rarely evaluated) or sample the tail
-//! exactly, with further draws.
-class ExponentialZiggurat {
- public:
-  static constexpr int kLayerBits = 11;
-  static constexpr int kLayers = 1 << kLayerBits;
-  ExponentialZiggurat();
-  //! The right edge r of the base layer for `layers` layers of equal area under exp(-x) (for 256:
-  //! Marsaglia & Tsang's r = 7.69711747013104972).
-  static double base_edge(int layers);
-  double operator()(CellRandom& rng) const { return from_draw(rng.next(), rng); }
-  double from_draw(std::uint64_t r, CellRandom& rng) const {
-    const unsigned i = layer(r);
-    const std::uint32_t j = abscissa(r);
-    if (j < k_[i]) [[likely]] return static_cast<double>(j) * w_[i];
-    return slow(rng, i, j);
-  }
-  //! The same for a generator held as words: the rare slow path takes and returns them by value.
-  [[gnu::always_inline]] double from_draw(std::uint64_t r, CellRandom::Words& s) const {
-    const unsigned i = layer(r);
-    const std::uint32_t j = abscissa(r);
-    if (j < k_[i]) [[likely]] return static_cast<double>(j) * w_[i];
-    const Slow d = slow_words(s, i, j);
-    s = d.words;
-    return d.x;
-  }
-
- private:
-  static unsigned layer(std::uint64_t r) { return static_cast<unsigned>(r >> (64 - kLayerBits)); }
-  static std::uint32_t abscissa(std::uint64_t r) { return static_cast<std::uint32_t>(r >> (32 - kLayerBits)); }
-  double slow(CellRandom& rng, unsigned i, std::uint32_t j) const;
-  struct Slow {
-    double x;
-    CellRandom::Words words;
-  };
-  [[gnu::noinline]] Slow slow_words(CellRandom::Words s, unsigned i, std::uint32_t j) const;
-  double r_;  //!< right edge of the base layer; the tail lies beyond it
-  // The fast path's tables first (they are read on every draw).
-  std::array<std::uint32_t, kLayers> k_{};
-  std::array<double, kLayers> w_{}, f_{};
-  // Wedge squeeze of layer i (exp(-x) is convex): the right edge x_i, 1 / (x_i - x_{i-1}), and the
-  // slopes of the tangents at both ends relative to the chord.
-  std::array<double, kLayers> x_{}, inv_width_{}, tangent_right_{}, tangent_left_{};
-};
-
-//! Walker's alias method (Walker 1977, ACM TOMS 3(3); the robust set-up of Vose 1991, IEEE TSE
-//! 17(9)) over `weights.size()` outcomes padded to `columns` (a power of two, >= size, <= 256):
-//! a draw picks column c uniformly and a uniform 64-bit coin below `threshold[c]` keeps the
-//! column's own outcome, else its alias. A column whose own outcome is certain has alias == own.
-struct AliasTable {
-  int columns = 1;
-  std::vector<std::uint64_t> threshold;  //!< per column, probability of the own outcome in units of 2^-64
-  std::vector<int> own, alias;           //!< per column: outcome index
-  AliasTable(const std::vector<double>& weights, int columns);
-  int draw(std::uint64_t column_draw, std::uint64_t coin) const {
-    const int c = static_cast<int>(column_draw & static_cast<std::uint64_t>(columns - 1));
-    return coin < threshold[c] ? own[c] : alias[c];
-  }
-};
 
 }  // namespace oxystrat

@@ -35,7 +35,7 @@ TEST(Lifelines, OccupancyEqualsVolumeShareAndResidenceIsVolumeOverOutflow) {
   LifelineOptions o;
   o.cells = 4000;
   o.duration_s = 600.0;  // ~10^3 residence times per zone per cell
-  const auto r = simulate_lifelines(s.net, s.h, {}, 0.0, o);
+  const auto r = simulate_lifelines(s.net, s.h, {}, {}, o);
   const double v = s.net.total_volume();
   // Outflow of each zone: convective out plus exchange.
   std::vector<double> out(s.net.size(), 0.0);
@@ -216,7 +216,7 @@ TEST(Lifelines, KeptPathsJumpWithTheChainsProbabilitiesAfterExponentialDwells) {
   o.cells = 40;
   o.trajectories = 40;
   o.duration_s = 3000.0;
-  const auto r = simulate_lifelines(s.net, s.h, {}, 0.0, o);
+  const auto r = simulate_lifelines(s.net, s.h, {}, {}, o);
   const auto out = outflows(s);
   std::vector<double> total(s.net.size(), 0.0);
   for (int i = 0; i < s.net.size(); ++i) {
