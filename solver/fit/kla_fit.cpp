@@ -14,6 +14,8 @@
 
 #include "input/csv_table.hpp"
 #include "input/numbers.hpp"
+#include "solver/fit/bounded_least_squares.hpp"
+#include "solver/fit/student_t.hpp"
 #include "input/case_reader.hpp"
 #include "input/errors.hpp"
 #include "input/units.hpp"
@@ -213,11 +215,7 @@ struct Model {
   }
 };
 
-// ---------------------------------------------------------------------------------------------
-// Levenberg-Marquardt with simple bounds (projection; a parameter on its bound whose gradient
-// points outwards sits out the step). Column scaling by the largest Jacobian column norm seen
-// (More 1978); damping update of Nielsen (1999).
-
+// The fit of the model by bounded Levenberg-Marquardt (solver/fit/bounded_least_squares.hpp).
 struct LmResult {
   Vec p;
   double cost = kInf;
@@ -225,112 +223,14 @@ struct LmResult {
   bool converged = false;
 };
 
-std::vector<int> indices(const std::array<bool, kParams>& mask) {
-  std::vector<int> out;
-  for (int j = 0; j < kParams; ++j) {
-    if (mask[static_cast<size_t>(j)]) out.push_back(j);
-  }
-  return out;
+LmResult levenberg_marquardt(const Model& m, const Vec& start, const std::array<bool, kParams>& free, const Vec& lo,
+                             const Vec& hi, int max_iterations) {
+  const Residuals f = [&m](const Eigen::VectorXd& p, Eigen::VectorXd& r, Eigen::MatrixXd* J) { m.evaluate(p, r, J); };
+  const auto r = bounded_levenberg_marquardt(f, start, std::vector<bool>(free.begin(), free.end()), lo, hi, max_iterations);
+  return {r.p, r.cost, r.iterations, r.converged};
 }
 
-LmResult levenberg_marquardt(const Model& m, Vec p, const std::array<bool, kParams>& free, const Vec& lo,
-                             const Vec& hi, int max_iterations) {
-  const auto idx = indices(free);
-  const auto nf = static_cast<Eigen::Index>(idx.size());
-  p = p.cwiseMax(lo).cwiseMin(hi);
-  Eigen::VectorXd r, r_trial;
-  Eigen::MatrixXd Jfull;
-  m.evaluate(p, r, &Jfull);
-  double cost = 0.5 * r.squaredNorm();
-  Eigen::VectorXd scale = Eigen::VectorXd::Zero(nf);
-  double lambda = -1.0, nu = 2.0;
-  LmResult out;
-  for (int it = 0; it < max_iterations; ++it) {
-    out.iterations = it + 1;
-    Eigen::MatrixXd J(Jfull.rows(), nf);
-    for (Eigen::Index j = 0; j < nf; ++j) {
-      J.col(j) = Jfull.col(idx[static_cast<size_t>(j)]);
-      scale[j] = std::max(scale[j], J.col(j).norm());
-      if (scale[j] == 0.0) scale[j] = 1.0;
-    }
-    const Eigen::VectorXd grad = J.transpose() * r;
-    // Active bounds: on the bound with the descent direction pointing outwards.
-    std::vector<Eigen::Index> act;
-    double worst_cos = 0.0;
-    for (Eigen::Index j = 0; j < nf; ++j) {
-      const int q = idx[static_cast<size_t>(j)];
-      const bool at_lo = p[q] <= lo[q] && grad[j] > 0.0;
-      const bool at_hi = p[q] >= hi[q] && grad[j] < 0.0;
-      if (at_lo || at_hi) continue;
-      act.push_back(j);
-      const double denom = J.col(j).norm() * r.norm();
-      if (denom > 0.0) worst_cos = std::max(worst_cos, std::abs(grad[j]) / denom);
-    }
-    // Stationary (the residual is orthogonal to every free column) or an exact fit.
-    if (act.empty() || worst_cos <= 1e-10 || cost == 0.0) {
-      out.converged = true;
-      break;
-    }
-    const auto na = static_cast<Eigen::Index>(act.size());
-    Eigen::MatrixXd Js(J.rows(), na);
-    for (Eigen::Index a = 0; a < na; ++a) Js.col(a) = J.col(act[static_cast<size_t>(a)]) / scale[act[static_cast<size_t>(a)]];
-    const Eigen::MatrixXd A = Js.transpose() * Js;
-    const Eigen::VectorXd gs = Js.transpose() * r;
-    if (lambda < 0.0) lambda = 1e-3 * A.diagonal().maxCoeff();
-    bool accepted = false;
-    bool done = false;
-    while (!accepted) {
-      const Eigen::MatrixXd M = A + lambda * Eigen::MatrixXd::Identity(na, na);
-      const Eigen::VectorXd hs = M.ldlt().solve(-gs);
-      Vec trial = p;
-      for (Eigen::Index a = 0; a < na; ++a) {
-        const auto j = act[static_cast<size_t>(a)];
-        const int q = idx[static_cast<size_t>(j)];
-        trial[q] = std::clamp(p[q] + hs[a] / scale[j], lo[q], hi[q]);
-      }
-      // Predicted reduction of the linear model for the projected step.
-      Eigen::VectorXd step(nf);
-      for (Eigen::Index j = 0; j < nf; ++j) step[j] = trial[idx[static_cast<size_t>(j)]] - p[idx[static_cast<size_t>(j)]];
-      const double predicted = cost - 0.5 * (r + J * step).squaredNorm();
-      m.evaluate(trial, r_trial, nullptr);
-      const double trial_cost = 0.5 * r_trial.squaredNorm();
-      const double rho = predicted > 0.0 && std::isfinite(trial_cost) ? (cost - trial_cost) / predicted : -1.0;
-      if (rho > 1e-4) {
-        accepted = true;
-        double step_norm = 0.0, p_norm = 0.0;
-        for (Eigen::Index j = 0; j < nf; ++j) {
-          step_norm += std::pow(step[j] * scale[j], 2);
-          p_norm += std::pow(p[idx[static_cast<size_t>(j)]] * scale[j], 2);
-        }
-        const double reduction = cost - trial_cost;
-        p = trial;
-        cost = trial_cost;
-        lambda *= std::max(1.0 / 3.0, 1.0 - std::pow(2.0 * rho - 1.0, 3));
-        nu = 2.0;
-        // Steps that no longer move the parameters or the cost: converged.
-        if (std::sqrt(step_norm) <= 1e-11 * (std::sqrt(p_norm) + 1e-11) || reduction <= 1e-15 * cost) done = true;
-      } else {
-        lambda *= nu;
-        nu *= 2.0;
-        // No step lowers the cost any more: a minimum if the gradient is small, else stuck.
-        if (lambda > 1e16 * std::max(1.0, A.diagonal().maxCoeff())) {
-          out.p = p;
-          out.cost = cost;
-          out.converged = worst_cos <= 1e-6;
-          return out;
-        }
-      }
-    }
-    m.evaluate(p, r, &Jfull);
-    if (done) {
-      out.converged = true;
-      break;
-    }
-  }
-  out.p = p;
-  out.cost = cost;
-  return out;
-}
+int free_count(const std::array<bool, kParams>& free) { return static_cast<int>(std::count(free.begin(), free.end(), true)); }
 
 // ---------------------------------------------------------------------------------------------
 // Start values and statistics
@@ -355,47 +255,6 @@ double noise_estimate(const std::vector<double>& y) {
 std::string scale_unit(DoScale s) { return s == DoScale::saturation ? "%" : "mmol/L"; }
 // SI value of the trace scale -> the number printed with scale_unit.
 double shown(DoScale s, double v) { return s == DoScale::saturation ? 100.0 * v : v; }
-
-// ln B(a, b)
-double log_beta(double a, double b) { return std::lgamma(a) + std::lgamma(b) - std::lgamma(a + b); }
-
-// Continued fraction of the incomplete beta function (Lentz's method; the even/odd terms of
-// the classical expansion, e.g. Abramowitz & Stegun 26.5.8).
-double beta_continued_fraction(double a, double b, double x) {
-  constexpr double tiny = 1e-300;
-  auto guard = [](double v) { return std::abs(v) < tiny ? tiny : v; };
-  double c = 1.0;
-  double d = 1.0 / guard(1.0 - (a + b) * x / (a + 1.0));
-  double h = d;
-  for (int m = 1; m <= 500; ++m) {
-    const double m2 = 2.0 * m;
-    double aa = m * (b - m) * x / ((a - 1.0 + m2) * (a + m2));
-    d = 1.0 / guard(1.0 + aa * d);
-    c = guard(1.0 + aa / c);
-    h *= d * c;
-    aa = -(a + m) * (a + b + m) * x / ((a + m2) * (a + 1.0 + m2));
-    d = 1.0 / guard(1.0 + aa * d);
-    c = guard(1.0 + aa / c);
-    const double delta = d * c;
-    h *= delta;
-    if (std::abs(delta - 1.0) < 1e-16) break;
-  }
-  return h;
-}
-
-// Regularised incomplete beta I_x(a, b).
-double incomplete_beta(double a, double b, double x) {
-  if (x <= 0.0) return 0.0;
-  if (x >= 1.0) return 1.0;
-  const double front = std::exp(a * std::log(x) + b * std::log1p(-x) - log_beta(a, b));
-  if (x < (a + 1.0) / (a + b + 2.0)) return front * beta_continued_fraction(a, b, x) / a;
-  return 1.0 - front * beta_continued_fraction(b, a, 1.0 - x) / b;
-}
-
-double student_t_pdf(double t, double dof) {
-  return std::exp(std::lgamma(0.5 * (dof + 1.0)) - std::lgamma(0.5 * dof) - 0.5 * std::log(dof * M_PI) -
-                  0.5 * (dof + 1.0) * std::log1p(t * t / dof));
-}
 
 std::string format_interval(double lo, double hi, const char* unit) {
   if (!std::isfinite(lo) || !std::isfinite(hi)) return "undetermined";
@@ -517,35 +376,6 @@ StepResponse probe_step_response_derivatives(double s, double kla, double tau) {
 }
 
 double probe_step_response(double s, double kla, double tau) { return probe_step_response_derivatives(s, kla, tau).g; }
-
-double student_t_cdf(double t, double dof) {
-  if (!(dof > 0.0)) throw std::invalid_argument("student_t_cdf: degrees of freedom must be positive");
-  const double x = dof / (dof + t * t);
-  const double tail = 0.5 * incomplete_beta(0.5 * dof, 0.5, x);
-  return t > 0.0 ? 1.0 - tail : tail;
-}
-
-double student_t_quantile(double p, double dof) {
-  if (!(p > 0.0 && p < 1.0)) throw std::invalid_argument("student_t_quantile: p must be in (0, 1)");
-  if (p < 0.5) return -student_t_quantile(1.0 - p, dof);
-  if (p == 0.5) return 0.0;
-  double lo = 0.0, hi = 1.0;
-  while (student_t_cdf(hi, dof) < p) {
-    lo = hi;
-    hi *= 2.0;
-    if (hi > 1e300) return kInf;
-  }
-  double t = 0.5 * (lo + hi);
-  for (int it = 0; it < 200; ++it) {
-    const double f = student_t_cdf(t, dof) - p;
-    if (f > 0.0) hi = t; else lo = t;
-    double next = t - f / student_t_pdf(t, dof);
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);  // Newton left the bracket: bisect
-    if (std::abs(next - t) <= 1e-13 * std::max(1.0, std::abs(t))) return next;
-    t = next;
-  }
-  return t;
-}
 
 std::vector<double> kla_model_values(const KlaFitResult& r, const std::vector<double>& time_s) {
   std::vector<double> out;
@@ -829,7 +659,7 @@ KlaFitResult fit_kla(const DoTrace& tr, const KlaFitOptions& o) {
         const auto rl = levenberg_marquardt(model, start, s_lag.free, s_lag.lo, s_lag.hi, o.max_iterations);
         if (rl.converged && (!b.converged || rl.cost < b.cost)) b = rl;
       }
-      const int dof_lag = res.points - static_cast<int>(indices(s_lag.free).size());
+      const int dof_lag = res.points - free_count(s_lag.free);
       if (b.converged && dof_lag >= 1) {
         double ka = b.p[kKla], tau = b.p[kTau];
         if (ka * tau > 1.0) {  // the same response with the roles swapped (see above)

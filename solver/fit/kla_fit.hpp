@@ -66,12 +66,6 @@ struct StepResponse {
 };
 StepResponse probe_step_response_derivatives(double s, double kla_1_s, double tau_p_s);
 
-//! Student-t distribution function P(T <= t) for `dof` > 0 degrees of freedom, through the
-//! regularised incomplete beta function (continued fraction, Lentz's method).
-double student_t_cdf(double t, double dof);
-//! Its inverse: the quantile t_p for 0 < p < 1 (Newton steps safeguarded by bisection, to 1e-12).
-double student_t_quantile(double p, double dof);
-
 enum class ProbeLagMode {
   fitted,  //!< tau_p is an unknown of the fit
   fixed,   //!< tau_p is given (measured separately)

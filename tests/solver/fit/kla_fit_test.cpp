@@ -13,6 +13,7 @@
 
 #include "input/case_reader.hpp"
 #include "solver/fit/kla_fit.hpp"
+#include "solver/fit/student_t.hpp"
 #include "solver/oxygen/oxygen_field.hpp"
 
 namespace oxystrat {
