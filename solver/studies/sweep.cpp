@@ -6,13 +6,13 @@
 #include <algorithm>
 #include <cmath>
 #include <numeric>
-#include <random>
 #include <stdexcept>
 
 #include "input/units.hpp"
 #include "solver/flow/hydrodynamics.hpp"
 #include "solver/flow/mixing_time.hpp"
 #include "solver/studies/uncertainty.hpp"
+#include "solver/random/latin_hypercube.hpp"
 
 namespace oxystrat {
 
@@ -83,16 +83,9 @@ SweepPlan full_factorial(const std::vector<SweepAxis>& axes) {
 
 SweepPlan latin_hypercube(const std::vector<SweepAxis>& axes, int n, std::uint64_t seed) {
   SweepPlan plan{axes, std::vector<std::vector<double>>(static_cast<size_t>(n), std::vector<double>(axes.size()))};
-  std::mt19937_64 rng(seed);
-  std::uniform_real_distribution<double> u(0.0, 1.0);
+  const auto unit = latin_hypercube_unit(n, static_cast<int>(axes.size()), seed);
   for (size_t d = 0; d < axes.size(); ++d) {
-    std::vector<int> strata(static_cast<size_t>(n));
-    std::iota(strata.begin(), strata.end(), 0);
-    std::shuffle(strata.begin(), strata.end(), rng);
-    for (int i = 0; i < n; ++i) {
-      const double x = (strata[i] + u(rng)) / n;
-      plan.points[i][d] = axes[d].start + (axes[d].stop - axes[d].start) * x;
-    }
+    for (int i = 0; i < n; ++i) plan.points[i][d] = axes[d].start + (axes[d].stop - axes[d].start) * unit[i][d];
   }
   return plan;
 }

@@ -1,18 +1,19 @@
 #include "solver/studies/uncertainty.hpp"
 
 #include <algorithm>
+#include <boost/math/distributions/normal.hpp>
 #include <cmath>
 #include <limits>
 #include <numeric>
 #include <omp.h>
 
-#include <random>
 
 #include "solver/oxygen/case_run.hpp"
 #include "solver/flow/hydrodynamics.hpp"
 #include "physics/impeller_power.hpp"
 #include "physics/mass_transfer.hpp"
 #include "solver/flow/mixing_time.hpp"
+#include "solver/random/latin_hypercube.hpp"
 
 namespace oxystrat {
 namespace {
@@ -51,12 +52,9 @@ double spearman(const std::vector<double>& a, const std::vector<double>& b) {
 }  // namespace
 
 double normal_quantile(double p) {
-  double lo = -40.0, hi = 40.0;
-  for (int i = 0; i < 200; ++i) {
-    const double mid = 0.5 * (lo + hi);
-    (0.5 * std::erfc(-mid / std::sqrt(2.0)) < p ? lo : hi) = mid;
-  }
-  return 0.5 * (lo + hi);
+  // A Latin hypercube draw can be exactly 0 (one in 2^53 per stratum): the smallest positive p.
+  p = std::clamp(p, std::numeric_limits<double>::min(), 1.0 - std::numeric_limits<double>::epsilon() / 2);
+  return boost::math::quantile(boost::math::normal(), p);
 }
 
 double quantile(std::vector<double> v, double p) {
@@ -114,14 +112,9 @@ UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts)
   const int n = opts.samples;
   const size_t nk = res.constants.size();
   // Latin hypercube in probability, mapped to standard-normal draws; all drawn before any run.
-  std::mt19937_64 rng(opts.seed);
-  std::uniform_real_distribution<double> u(0.0, 1.0);
-  res.draws.assign(static_cast<size_t>(n), std::vector<double>(nk));
-  for (size_t k = 0; k < nk; ++k) {
-    std::vector<int> strata(static_cast<size_t>(n));
-    std::iota(strata.begin(), strata.end(), 0);
-    std::shuffle(strata.begin(), strata.end(), rng);
-    for (int i = 0; i < n; ++i) res.draws[i][k] = normal_quantile((strata[i] + u(rng)) / n);
+  res.draws = latin_hypercube_unit(n, static_cast<int>(nk), opts.seed);
+  for (auto& draw : res.draws) {
+    for (double& x : draw) x = normal_quantile(x);
   }
   const char* names[4] = {"do_min", "volume_below_critical", "max_biomass", "theta95"};
   const char* units_[4] = {"mmol/L", "%", "g/L", "s"};
