@@ -103,7 +103,7 @@ struct Output {
   int sectors = 24;  //!< Angular sectors when the network is revolved for VTK
 };
 
-//! Model constants a user may calibrate; defaults and sources in README "Method".
+//! Model constants a user may calibrate; defaults and sources in docs/method.md.
 struct ModelConstants {
   double exchange_constant = 0.0;       //!< c_t in D_t = c_t eps^(1/3) l^(4/3) [-]; 0 = default
   double mixing_length_ratio = 0.0;     //!< l / T [-]; 0 = default

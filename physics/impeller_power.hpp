@@ -1,6 +1,6 @@
 // Impeller correlations: power and pumping numbers, gassed power, flooding. Free functions of
 // plain arguments, SI in and out, each with its source. Values tagged [mem] were recalled from the
-// literature and not re-checked against the original paper (see README, "Method").
+// literature and not re-checked against the original paper (see docs/method.md, section 3).
 #pragma once
 
 #include <string>

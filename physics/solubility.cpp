@@ -42,7 +42,7 @@ double henry_co2(double temperature_k) {
 }
 
 namespace {
-// Ion-specific parameters h_i [m3/kmol], Weisenberger & Schumpe (1996) table 1 (via MODEL.md,
+// Ion-specific parameters h_i [m3/kmol], Weisenberger & Schumpe (1996) table 1 (via docs/method.md,
 // [sec]); K+ uses 0.0922, the value of the original table as we read it (0.0992 appears elsewhere).
 const std::map<std::string, double>& ion_parameters() {
   static const std::map<std::string, double> h{

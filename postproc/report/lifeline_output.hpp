@@ -13,7 +13,7 @@ namespace oxystrat {
 //! the long excursions and the regime passages.
 std::string lifeline_text(const LifelineResult& r, double critical_do_mol_m3);
 //! /lifelines/...: the former datasets (DO from the field "do"; zeros and empty without it), then
-//! /lifelines/fields/NAME/... for every field and /lifelines/regimes/... (README, "lifelines").
+//! /lifelines/fields/NAME/... for every field and /lifelines/regimes/... (docs/outputs.md, "lifelines").
 void write_lifelines_h5(H5Writer& h5, const LifelineResult& r, const LifelineOptions& o,
                         const LifelineRegimes& regimes);
 //! Per cell: share of time below critical DO (and outside each other field); and the kept trajectories (time, zone, DO).

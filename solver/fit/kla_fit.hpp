@@ -55,7 +55,7 @@ double parse_uptake_rate(const std::string& text, DoScale scale, const std::stri
 //! Response of the probe reading to a unit step of the liquid concentration at s = 0, with the
 //! liquid approaching its steady value at rate kLa and the probe lagging with time constant
 //! tau_p: g(s) = (C_inf - C_p)/(C_inf - C0) = [exp(-kLa s) - kLa tau_p exp(-s/tau_p)] / (1 - kLa tau_p)
-//! (MODEL.md 10), which is symmetric in kLa and 1/tau_p and tends to (1 + kLa s) exp(-kLa s) as
+//! (docs/method.md, section 14), which is symmetric in kLa and 1/tau_p and tends to (1 + kLa s) exp(-kLa s) as
 //! kLa tau_p -> 1; evaluated without cancellation near that limit. g = 1 for s <= 0.
 //! s [s], kla [1/s], tau_p [s] (0: no lag).
 double probe_step_response(double s, double kla_1_s, double tau_p_s);

@@ -13,7 +13,7 @@
 namespace oxystrat {
 
 //! Default exchange constant c_t in D_t = c_t eps^(1/3) T^(4/3), calibrated once against the
-//! turbulent mixing-time correlation of a single Rushton at H = T (README, "Calibration";
+//! turbulent mixing-time correlation of a single Rushton at H = T (docs/method.md, section 6;
 //! reproduced by tests/mesh/exchange_calibration_test.cpp).
 inline constexpr double default_exchange_constant = 0.0124;
 

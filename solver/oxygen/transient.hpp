@@ -6,7 +6,7 @@
 // the tank starves. A growing culture (culture.growth_rate_max) adds substrate and biomass per
 // zone, carried by the liquid, with the [feed] entering at its own zone.
 //
-// Integrator (our choice, documented in README "Method"): implicit Euler (BDF1) with the steady
+// Integrator (our choice, documented in docs/method.md, section 12): implicit Euler (BDF1) with the steady
 // solver's analytic Jacobian, a variable step from the local error estimate (h/2)|x'_n+1 - x'_n|,
 // and operator splitting: O2/CO2 at the culture of the old level, then substrate and biomass
 // together at the new DO. First order and unconditionally stable, and every balance (O2,

@@ -1,5 +1,5 @@
 // What cells experience: each cell moves through the zone network as a continuous-time Markov
-// chain on the (steady) flow field (MODEL.md section 9): it leaves zone i after an exponential time
+// chain on the (steady) flow field (docs/method.md, section 13): it leaves zone i after an exponential time
 // with mean V_i / sum_j(Q_ij + q_ij) and goes to neighbour j with probability proportional to that
 // outflow (convective plus exchange). Its long-run occupancy of zone i is V_i / V. Recording the
 // per-zone fields along the way (DO, later substrate) gives how long, and how often, cells are

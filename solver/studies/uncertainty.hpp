@@ -21,7 +21,7 @@ struct UncertainConstant {
   std::function<void(Case&, double)> apply;  //!< applies the factor (or shift) to a case
 };
 
-//! The constants with their default widths and sources (README, "Uncertainty").
+//! The constants with their default widths and sources (docs/trust.md, "Uncertainty").
 std::vector<UncertainConstant> uncertain_constants();
 
 struct UncertaintyOptions {

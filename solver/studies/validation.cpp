@@ -33,7 +33,7 @@ Case gassed(int radial, int axial) { return reference_gassed_vessel(radial, axia
 
 std::vector<ValidationCheck> build() {
   std::vector<ValidationCheck> v;
-  // Solubility: Benson & Krause (1984) values computed from their equation (MODEL.md [calc]).
+  // Solubility: Benson & Krause (1984) values computed from their equation (docs/method.md, section 8 [calc]).
   const std::pair<double, double> bk[] = {{0, 14.621}, {10, 11.288}, {20, 9.092}, {25, 8.263},
                                           {30, 7.559}, {35, 6.949},  {37, 6.727}, {40, 6.413}};
   for (const auto& [t, mg] : bk) {

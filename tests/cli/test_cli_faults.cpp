@@ -1,7 +1,7 @@
 // Faults as tests: absurd sizes are refused by the reader before anything is built, an output
 // folder that cannot be written gives a message and leaves nothing behind, and a run killed
 // while it writes its output leaves the previous result as it was, with at most a
-// DIR.partial-* folder beside it (README: output is written to DIR.partial-PID and moved into
+// DIR.partial-* folder beside it (docs/commands.md: output is written to DIR.partial-PID and moved into
 // place on success only).
 #include <fcntl.h>
 #include <gmock/gmock.h>

@@ -11,7 +11,7 @@ namespace {
 
 TEST(Solubility, BensonKrause1984TableValues) {
   // Benson & Krause (1984), Limnol. Oceanogr. 29:620, APHA form; values computed from the equation
-  // (MODEL.md section 6 [calc]; Garcia & Gordon 1992 agree to 0.001 mg/L). Tolerance 0.003 mg/L:
+  // (docs/method.md, section 8 [calc]; Garcia & Gordon 1992 agree to 0.001 mg/L). Tolerance 0.003 mg/L:
   // the table is rounded to 0.001 mg/L and the coefficients to 7 digits.
   const std::pair<double, double> table[] = {{0, 14.621}, {10, 11.288}, {20, 9.092}, {25, 8.263},
                                              {30, 7.559}, {35, 6.949},  {37, 6.727}, {40, 6.413}};
@@ -48,7 +48,7 @@ TEST(Solubility, Co2HenryAt25C) {
 
 TEST(Solubility, SaltingOutWeisenbergerSchumpe1996) {
   // 0.15 M NaCl at 25 degC: log10(c0/c) = 0.15 (0.1143 + 0.0318) -> c/c0 = 0.9508, i.e. 4.9 % less O2
-  // (Weisenberger & Schumpe 1996; MODEL.md [calc]).
+  // (Weisenberger & Schumpe 1996; docs/method.md, section 8 [calc]).
   const double f = physics::salting_out_factor(physics::Gas::o2, 298.15, {{"Na+", 150.0}, {"Cl-", 150.0}});
   EXPECT_NEAR(f, std::pow(10.0, -0.15 * (0.1143 + 0.0318)), 1e-12);
   EXPECT_NEAR(1.0 - f, 0.049, 0.001);

@@ -21,7 +21,7 @@ namespace {
 
 using ::testing::HasSubstr;
 
-// Liquid C and probe Cp: dC/dt = kLa (C* - C) - OUR, tau_p dCp/dt = C - Cp (MODEL.md 10),
+// Liquid C and probe Cp: dC/dt = kLa (C* - C) - OUR, tau_p dCp/dt = C - Cp (docs/method.md, section 14),
 // integrated by classical RK4 with step h from C = Cp = c0 at t = 0. Returns Cp at multiples of
 // `every` up to `duration`. Independent of the closed form under test.
 std::vector<double> rk4_probe(double kla, double tau, double cstar, double c0, double our, double h, double every,

@@ -14,7 +14,7 @@ namespace oxystrat {
 namespace {
 
 TEST(ImpellerPower, TurbulentPowerIsNpRhoN3D5) {
-  // P = Np rho N^3 D^5 (definition of the power number); Rushton Np = 5.0 (MODEL.md table, [sec]).
+  // P = Np rho N^3 D^5 (definition of the power number); Rushton Np = 5.0 (docs/method.md, section 3, [sec]).
   Case c = testing::single_impeller("rushton", 0.5, 4, 8, 60.0);  // N = 1 rps, D = 0.5 m
   const auto net = build_zone_geometry(c);
   const auto h = compute_hydrodynamics(c, net);
@@ -24,7 +24,7 @@ TEST(ImpellerPower, TurbulentPowerIsNpRhoN3D5) {
 }
 
 TEST(ImpellerPower, LaminarAndTransitionalRegimes) {
-  // Laminar Np = Kp / Re below Re = 10 (Kp = 70 for a Rushton, MODEL.md [sec]); turbulent above 1e4;
+  // Laminar Np = Kp / Re below Re = 10 (Kp = 70 for a Rushton, docs/method.md, section 3 [sec]); turbulent above 1e4;
   // monotone log-log interpolation between (our documented stand-in for the transitional curve).
   EXPECT_NEAR(power_number(1.0, 5.0, 70.0), 70.0, 1e-12);
   EXPECT_NEAR(power_number(1e5, 5.0, 70.0), 5.0, 1e-12);

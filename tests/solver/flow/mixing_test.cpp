@@ -85,7 +85,7 @@ struct MixingPoint {
 class SingleImpellerMixing : public ::testing::TestWithParam<MixingPoint> {};
 
 TEST_P(SingleImpellerMixing, WithinTwentyFivePercentOfTheCorrelation) {
-  // The exchange constant was calibrated once on the three Rushton points (README, Calibration);
+  // The exchange constant was calibrated once on the three Rushton points (docs/method.md, section 6);
   // the pitched-blade point is validation. +-25 %: the correlation's own scatter is about +-20 %.
   const auto p = GetParam();
   const Case c = testing::single_impeller(p.type, p.d_over_t, 27, 54);
