@@ -40,7 +40,7 @@ void BM_NetworkBuild(benchmark::State& state) {
   for (auto _ : state) {
     auto n = build(loaded.data);
     zones = n.net.size();
-    benchmark::DoNotOptimize(n.routing.order.data());
+    benchmark::DoNotOptimize(n.routing.unit_inventory.data());
   }
   state.counters["zones"] = zones;
 }

@@ -1,8 +1,8 @@
 // Bench-only: writes what the SciPy peer (bench/peer/steady_o2.py) needs beyond an `oxystrat run`
 // result.h5, without touching the public output. The case is re-read from /case/text and its
 // network rebuilt (deterministic; the zone count is checked against /zones/volume); from the
-// zone pressures and kLa in /fields it writes C* per unit mole fraction, inert gas flows, the gas
-// routing links, inlet flows and the uptake constants to PEER_H5.
+// zone pressures and kLa in /fields it writes C* per unit mole fraction, inert gas, the gas
+// transport matrix, inlet flows and the uptake constants to PEER_H5.
 //
 //   export_peer RESULT_H5 PEER_H5 [--time REPEATS]
 //
@@ -77,26 +77,25 @@ int run(int argc, char** argv) {
   }
   const auto in = bench::peer_inputs(c, net, hydro, routing, pressure, kla);
 
-  std::vector<int> from, to;
-  std::vector<double> share;
-  for (int k = 0; k < net.size(); ++k) {
-    for (const auto& l : routing.out[k]) {
-      if (l.to < 0) continue;  // to the head space: leaves the balance
-      from.push_back(k);
-      to.push_back(l.to);
-      share.push_back(l.share);
+  std::vector<int> row, col;
+  std::vector<double> value;
+  for (int k = 0; k < routing.transport.outerSize(); ++k) {
+    for (SparseMatrix::InnerIterator it(routing.transport, k); it; ++it) {
+      row.push_back(static_cast<int>(it.row()));
+      col.push_back(k);
+      value.push_back(it.value());
     }
   }
   {
     H5Writer h5(peer_path);
     h5.write("/peer/cstar_per_y_o2", in.coeff.cstar_per_y_o2, "mol/m3");
     h5.write("/peer/cstar_per_y_co2", in.coeff.cstar_per_y_co2, "mol/m3");
-    h5.write("/peer/inert_flow", in.coeff.inert_flow, "mol/s");
+    h5.write("/peer/inert_gas", in.coeff.inert_mol_m3, "mol/m3");
     h5.write("/peer/kla_co2_ratio", co2_kla_ratio, "1");
-    h5.write("/peer/gas_from", from, "1");
-    h5.write("/peer/gas_to", to, "1");
-    h5.write("/peer/gas_share", share, "1");
-    h5.attribute("/peer/gas_share", "meaning", "share of zone gas_from's outgoing gas that enters zone gas_to");
+    h5.write("/peer/gas_row", row, "1");
+    h5.write("/peer/gas_col", col, "1");
+    h5.write("/peer/gas_value", value, "m3/s");
+    h5.attribute("/peer/gas_value", "meaning", "gas transport G: d(gas moles of zone gas_row)/dt per unit gas held in gas_col");
     h5.write("/peer/inlet_o2", in.inlet_o2_mol_s, "mol/s");
     h5.write("/peer/inlet_co2", in.inlet_co2_mol_s, "mol/s");
     h5.write("/peer/inlet_o2_fraction", c.operation.oxygen_fraction, "1");

@@ -1,6 +1,6 @@
 // The inputs of the steady O2/CO2 balances (oxygen_problem.hpp) of one case, rebuilt from a solved
 // field: kLa V and C* per unit mole fraction follow from the zone pressures and kLa the solver ended
-// with, the inert gas flows from the routing. The bench-only export program writes these for the
+// with, the inert gas from the gas transport. The bench-only export program writes these for the
 // SciPy peer, and the linear-solver benchmark uses them to time one Jacobian.
 #pragma once
 
@@ -22,20 +22,13 @@ struct PeerInputs {
   double inlet_o2_mol_s = 0.0, inlet_co2_mol_s = 0.0, inlet_inert_mol_s = 0.0;
 };
 
-//! Flow of a species leaving each zone when it is carried along the gas routing untouched.
-inline std::vector<double> carried(const ZoneNetwork& net, const GasRouting& routing, double inlet_mol_s) {
-  std::vector<double> in(static_cast<size_t>(net.size()), 0.0), out(in.size(), 0.0);
-  for (int k = 0; k < net.size(); ++k) in[k] = inlet_mol_s * net.sparger_share[k];
-  for (int k : routing.order) {
-    out[k] = in[k];
-    for (const auto& l : routing.out[k]) {
-      if (l.to >= 0) in[l.to] += l.share * out[k];
-    }
-  }
-  return out;
+//! Gas of a species each zone holds when it is carried by the gas transport untouched [mol/m3].
+inline std::vector<double> carried(const GasRouting& routing, double inlet_mol_s) {
+  std::vector<double> g(routing.unit_inventory.size());
+  for (size_t k = 0; k < g.size(); ++k) g[k] = routing.unit_inventory[k] * inlet_mol_s;
+  return g;
 }
 
-//! `pressure_pa` and `kla_1_s` per zone as the solver ended (OxygenField::pressure_pa, kla_1_s).
 inline PeerInputs peer_inputs(const Case& c, const ZoneNetwork& net, const Hydrodynamics& hydro, const GasRouting& routing,
                               const std::vector<double>& pressure_pa, const std::vector<double>& kla_1_s) {
   PeerInputs in;
@@ -59,7 +52,7 @@ inline PeerInputs peer_inputs(const Case& c, const ZoneNetwork& net, const Hydro
     k.cstar_per_y_o2[z] = h_o2 * (pressure_pa[z] - pw);
     k.cstar_per_y_co2[z] = h_co2 * (pressure_pa[z] - pw);
   }
-  k.inert_flow = carried(net, routing, in.inlet_inert_mol_s);
+  k.inert_mol_m3 = carried(routing, in.inlet_inert_mol_s);
   in.uptake.rate_mol_m3_s = c.culture.q_o2_max_mol_kg_s * c.culture.biomass_kg_m3;
   in.uptake.k_o2_mol_m3 = c.culture.k_o2_mol_m3;
   in.uptake.rq = c.culture.rq;
@@ -67,10 +60,10 @@ inline PeerInputs peer_inputs(const Case& c, const ZoneNetwork& net, const Hydro
 }
 
 //! The cold start both the peer and oxystrat's inner solve use here: liquid at half the inlet
-//! gas's C* (CO2 at its), gas flows carried through the routing without transfer.
+//! gas's C* (CO2 at its), gas carried by the gas transport without transfer.
 inline Eigen::VectorXd cold_start(const Case& c, const ZoneNetwork& net, const GasRouting& routing, const PeerInputs& in) {
   const int n = net.size();
-  const auto o = carried(net, routing, in.inlet_o2_mol_s), q = carried(net, routing, in.inlet_co2_mol_s);
+  const auto o = carried(routing, in.inlet_o2_mol_s), q = carried(routing, in.inlet_co2_mol_s);
   Eigen::VectorXd x(4 * n);
   for (int z = 0; z < n; ++z) {
     x[4 * z] = 0.5 * in.coeff.cstar_per_y_o2[z] * c.operation.oxygen_fraction;

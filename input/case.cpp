@@ -12,7 +12,14 @@ VantRietConstants vant_riet_constants(Coalescence c, const ModelConstants& m) {
   return k;
 }
 
-std::string to_string(SpargerType t) { return t == SpargerType::ring ? "ring" : "pipe"; }
+std::string to_string(SpargerType t) {
+  switch (t) {
+    case SpargerType::ring: return "ring";
+    case SpargerType::pipe: return "pipe";
+    case SpargerType::porous: return "porous";
+  }
+  return "?";
+}
 std::string to_string(KlaModel m) { return m == KlaModel::mechanistic ? "mechanistic" : "local-correlation"; }
 
 }  // namespace oxystrat

@@ -13,7 +13,7 @@
 
 namespace oxystrat {
 
-enum class SpargerType { ring, pipe };
+enum class SpargerType { ring, pipe, porous };
 
 enum class KlaModel { local_correlation, mechanistic };
 
@@ -44,7 +44,10 @@ struct Impeller {
 struct Sparger {
   SpargerType type = SpargerType::ring;
   double elevation_m = 0.0;  //!< Height above the lowest point [m]
-  double diameter_m = 0.0;   //!< Ring diameter, or outlet diameter of a pipe [m]
+  double diameter_m = 0.0;   //!< Ring diameter, outlet diameter of a pipe, or diameter of a porous element [m]
+  double hole_diameter_m = 0.0;  //!< Orifice diameter of a ring or pipe [m]; 0: not given
+  int holes = 1;                 //!< Number of orifices [-]
+  double pore_diameter_m = 0.0;  //!< Pore size of a porous (sintered) element [m]
 };
 
 struct Operation {
@@ -109,7 +112,8 @@ struct ModelConstants {
   double mixing_length_ratio = 0.0;     //!< l / T [-]; 0 = default
   double discharge_power_share = 0.4;   //!< Share of an impeller's power dissipated in its swept volume [-]
   double upper_gas_share = 0.5;         //!< Share of the local gas flow an upper impeller is loaded with [-]
-  double slip_velocity_m_s = 0.25;      //!< Bubble slip velocity in the drift-flux holdup [m/s]
+  double slip_velocity_m_s = 0.0;       //!< Bubble slip velocity [m/s]; 0: from the bubble size per zone
+  double slip_multiplier = 1.0;         //!< Multiplies every slip velocity (uncertainty studies) [-]
   KlaModel kla_model = KlaModel::local_correlation;
   double kla_prefactor = 0.0;           //!< van 't Riet prefactor (SI); 0 = default for coalescence
   double kla_power_exponent = 0.0;      //!< exponent on P/V; 0 = default

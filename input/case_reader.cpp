@@ -167,13 +167,24 @@ void read_sparger(TomlSource& src, Case& c) {
   src.allow_table("sparger");
   c.has_sparger = src.has("sparger");
   if (!c.has_sparger) return;
-  const auto type = src.choice("sparger.type", {"ring", "pipe"});
-  if (!type) src.missing("sparger.type", "ring | pipe");
-  c.sparger.type = *type == "ring" ? SpargerType::ring : SpargerType::pipe;
-  c.sparger.elevation_m = src.require_quantity("sparger.elevation", Dimension::length,
-                                               {0.0, c.vessel.liquid_height_m, true}, "0.6 m");
-  c.sparger.diameter_m = src.require_quantity("sparger.diameter", Dimension::length,
-                                              {0.0, c.vessel.diameter_m, true}, "0.9 m");
+  const auto type = src.choice("sparger.type", {"ring", "pipe", "porous"});
+  if (!type) src.missing("sparger.type", "ring | pipe | porous");
+  auto& s = c.sparger;
+  s.type = *type == "ring" ? SpargerType::ring : *type == "pipe" ? SpargerType::pipe : SpargerType::porous;
+  s.elevation_m = src.require_quantity("sparger.elevation", Dimension::length, {0.0, c.vessel.liquid_height_m, true},
+                                       "0.6 m");
+  s.diameter_m = src.require_quantity("sparger.diameter", Dimension::length, {0.0, c.vessel.diameter_m, true}, "0.9 m");
+  if (s.type == SpargerType::porous) {
+    s.pore_diameter_m = src.require_quantity("sparger.pore_diameter", Dimension::length, {1e-7, 1e-3, false},
+                                             "20 um");
+  } else {
+    s.hole_diameter_m = src.quantity("sparger.hole_diameter", Dimension::length, {1e-4, 0.1, false}).value_or(0.0);
+    // Without a count: holes about ten hole diameters apart round a ring, one open pipe end.
+    const int spaced = s.hole_diameter_m > 0.0 && s.type == SpargerType::ring
+                           ? static_cast<int>(std::numbers::pi * s.diameter_m / (10.0 * s.hole_diameter_m))
+                           : 1;
+    s.holes = src.integer("sparger.holes", 1, 100000).value_or(std::max(1, spaced));
+  }
 }
 
 void read_operation(TomlSource& src, Case& c) {

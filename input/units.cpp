@@ -20,7 +20,7 @@ constexpr double kHour = 3600.0;
 
 // Accepted spellings per dimension; the first entry is the display unit.
 const std::vector<UnitDef>& table(Dimension dim) {
-  static const std::vector<UnitDef> length{{"m", 1.0}, {"mm", 1e-3}, {"cm", 1e-2},
+  static const std::vector<UnitDef> length{{"m", 1.0}, {"mm", 1e-3}, {"cm", 1e-2}, {"um", 1e-6},
                                            {"in", 0.0254}, {"ft", 0.3048}};
   static const std::vector<UnitDef> volume{{"m3", 1.0}, {"L", 1e-3}, {"l", 1e-3},
                                            {"m^3", 1.0}, {"mL", 1e-6}};

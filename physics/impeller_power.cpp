@@ -27,6 +27,22 @@ double complete_dispersion_aeration_number(double froude, double d_over_t) {
   return 0.2 * std::sqrt(froude) * std::sqrt(d_over_t);
 }
 
+double flooding_aeration_number(ImpellerType type, double froude, double d_over_t) {
+  return impeller_data(type).flooding_capacity * flooding_aeration_number(froude, d_over_t);
+}
+
+double complete_dispersion_aeration_number(ImpellerType type, double froude, double d_over_t) {
+  return impeller_data(type).flooding_capacity * complete_dispersion_aeration_number(froude, d_over_t);
+}
+
+double gassed_power_ratio(ImpellerType type, double fl, double froude, double d_over_t) {
+  if (fl <= 0.0) return 1.0;
+  if (type == ImpellerType::rushton) return cui_gassed_power_ratio(fl);
+  const double at_flooding = impeller_data(type).gassed_ratio_at_flooding;
+  const double load = std::min(1.0, fl / flooding_aeration_number(type, froude, d_over_t));
+  return 1.0 - (1.0 - at_flooding) * load;
+}
+
 std::string to_string(GasRegime r) {
   switch (r) {
     case GasRegime::ungassed: return "ungassed";

@@ -26,6 +26,19 @@ double flooding_aeration_number(double froude, double d_over_t);
 //! Fl_G,CD = 0.2 Fr^0.5 (D/T)^0.5 (Nienow et al. 1985).
 double complete_dispersion_aeration_number(double froude, double d_over_t);
 
+//! Aeration number at flooding for any type: the Rushton value times the type's flooding capacity
+//! (impeller_types.hpp) [-].
+double flooding_aeration_number(ImpellerType type, double froude, double d_over_t);
+//! Aeration number below which gas is completely dispersed, for any type: the Rushton value
+//! times the type's flooding capacity [our scaling, mem] [-].
+double complete_dispersion_aeration_number(ImpellerType type, double froude, double d_over_t);
+
+//! Pg/P0 of any type at aeration number Fl_G: Cui et al. (1996) for a Rushton turbine; for the
+//! other types a straight fall from 1 at no gas to the type's ratio at flooding, reached at its
+//! flooding aeration number and held beyond (our form between the [mem] end points, so that the
+//! ratio depends on the gas load and not only on the type) [-].
+double gassed_power_ratio(ImpellerType type, double aeration_number, double froude, double d_over_t);
+
 enum class GasRegime { ungassed, dispersed, loaded, flooded };
 std::string to_string(GasRegime r);
 

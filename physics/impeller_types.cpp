@@ -11,15 +11,19 @@ namespace {
 // [sec/mem, 0.4-0.56]; hollow-blade disc turbine 3.0 [mem, 2.9-3.2], 70 [our assumption], 0.6
 // [mem, 0.5-0.7]. Blade counts are the standard forms; band heights are blade widths projected on
 // the axis (Rushton w = D/5; 45 degree pitched blade D/5 sin 45; hydrofoil ~0.12 D): common
-// practice. Gassed-power factors of the non-Rushton types: our defaults [mem].
+// practice. Gas handling of the non-Rushton types [mem, qualitative literature summarised in
+// docs/method.md]: down-pumping pitched blades and hydrofoils lose power to Pg/P0 ~0.6 / ~0.55
+// and flood at markedly lower Fl_G than a Rushton (taken as half); a hollow-blade disc turbine
+// keeps Pg/P0 ~0.75 and handles 2-3 times the gas (taken as 2.5); up-pumping axial types keep
+// Pg/P0 ~0.85 and show no sharp flooding.
 constexpr double kPitchedBand = 0.2 * std::numbers::sqrt2 / 2.0;
 constexpr std::array<ImpellerTypeData, 6> kTypes{{
-    {ImpellerType::rushton, "rushton", 0, 5.0, 70.0, 0.72, 6, 0.2, 1.0},
-    {ImpellerType::pitched_blade_down, "pitched-blade-down", -1, 1.27, 45.0, 0.79, 4, kPitchedBand, 0.7},
-    {ImpellerType::pitched_blade_up, "pitched-blade-up", +1, 1.27, 45.0, 0.79, 4, kPitchedBand, 0.85},
-    {ImpellerType::hydrofoil_down, "hydrofoil-down", -1, 0.30, 40.0, 0.50, 3, 0.12, 0.6},
-    {ImpellerType::hydrofoil_up, "hydrofoil-up", +1, 0.30, 40.0, 0.50, 3, 0.12, 0.8},
-    {ImpellerType::hollow_blade, "hollow-blade", 0, 3.0, 70.0, 0.6, 6, 0.2, 0.85},
+    {ImpellerType::rushton, "rushton", 0, 5.0, 70.0, 0.72, 6, 0.2, 0.45, 1.0, true},
+    {ImpellerType::pitched_blade_down, "pitched-blade-down", -1, 1.27, 45.0, 0.79, 4, kPitchedBand, 0.6, 0.5, true},
+    {ImpellerType::pitched_blade_up, "pitched-blade-up", +1, 1.27, 45.0, 0.79, 4, kPitchedBand, 0.85, 3.0, false},
+    {ImpellerType::hydrofoil_down, "hydrofoil-down", -1, 0.30, 40.0, 0.50, 3, 0.12, 0.55, 0.5, true},
+    {ImpellerType::hydrofoil_up, "hydrofoil-up", +1, 0.30, 40.0, 0.50, 3, 0.12, 0.85, 3.0, false},
+    {ImpellerType::hollow_blade, "hollow-blade", 0, 3.0, 70.0, 0.6, 6, 0.2, 0.75, 2.5, true},
 }};
 static_assert([] {
   for (std::size_t i = 0; i < kTypes.size(); ++i)

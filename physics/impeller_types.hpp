@@ -26,7 +26,9 @@ struct ImpellerTypeData {
   double flow_number;            //!< pumping number Nq = Qp/(N D^3) [-]
   int blades;                    //!< standard blade count [-]
   double band_height_ratio;      //!< axial extent of the swept band / D [-]
-  double gassed_power_factor;    //!< Pg/P0 default for types without a gassed-power correlation [-]
+  double gassed_ratio_at_flooding;  //!< Pg/P0 reached at the flooding point (types without a Pg/P0 correlation) [-]
+  double flooding_capacity;      //!< Fl_G at flooding relative to a Rushton turbine's at equal Fr and D/T [-]
+  bool floods;                   //!< false: no sharp flooding transition (up-pumping axial types)
 };
 
 //! Every known type, in enum order.

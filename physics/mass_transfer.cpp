@@ -7,8 +7,6 @@
 
 namespace oxystrat {
 
-double drift_flux_holdup(double j, double u_slip) { return j > 0.0 ? std::min(max_holdup, j / (j + u_slip)) : 0.0; }
-
 std::string to_string(Coalescence c) { return c == Coalescence::coalescing ? "coalescing" : "non-coalescing"; }
 
 VantRietConstants vant_riet_constants(Coalescence c) {
@@ -24,12 +22,7 @@ double eddy_model_kl(double eps, double nu, double sc) { return 0.523 * std::pow
 
 double interfacial_area(double holdup, double d32) { return 6.0 * holdup / d32; }
 
-double default_bubble_diameter(Coalescence c) { return c == Coalescence::coalescing ? 4e-3 : 1.5e-3; }
-
 double kla_temperature_factor(double temperature_k) { return std::pow(1.024, temperature_k - 293.15); }
 
-double o2_diffusivity(double temperature_k) {
-  return 2.1e-9 * (temperature_k / 298.15) * (physics::water_viscosity(298.15) / physics::water_viscosity(temperature_k));
-}
 
 }  // namespace oxystrat

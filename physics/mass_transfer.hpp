@@ -8,13 +8,6 @@ namespace oxystrat {
 enum class Coalescence { coalescing, non_coalescing };
 std::string to_string(Coalescence c);
 
-//! Drift-flux gas holdup eps_G = j_G / (j_G + u_slip) [-] for superficial gas velocity j_G [m/s]
-//! (Zuber & Findlay 1965 form with distribution parameter 1 and zero net liquid flux), capped at
-//! max_holdup: beyond ~0.3 bubbly flow gives way to churning plumes that spread sideways, which a
-//! zone column cannot represent (our modelling choice; typical stirred-tank holdups are 0.05-0.25).
-double drift_flux_holdup(double superficial_gas_m_s, double slip_velocity_m_s);
-inline constexpr double max_holdup = 0.3;
-
 struct VantRietConstants {
   double prefactor;       //!< SI: kLa [1/s], P/V [W/m3], vs [m/s]
   double power_exponent;  //!< on P/V
@@ -35,16 +28,9 @@ double eddy_model_kl(double epsilon_w_kg, double kinematic_viscosity_m2_s, doubl
 //! Interfacial area a = 6 eps_G / d32 [1/m].
 double interfacial_area(double holdup, double sauter_diameter_m);
 
-//! Default Sauter mean bubble diameter [m]: 4 mm coalescing, 1.5 mm non-coalescing [mem].
-double default_bubble_diameter(Coalescence c);
-
 //! Temperature correction theta^(T - 20 degC), theta = 1.024 (common practice in clean-water
 //! aeration testing, e.g. ASCE/EWRI 2-06).
 double kla_temperature_factor(double temperature_k);
-
-//! O2 diffusivity in water [m2/s]: 2.1e-9 at 25 degC [mem], scaled as T / mu_water(T)
-//! (Stokes-Einstein).
-double o2_diffusivity(double temperature_k);
 
 //! kLa_CO2 / kLa_O2 = (D_CO2 / D_O2)^(1/2) ~ 0.9 [common practice].
 inline constexpr double co2_kla_ratio = 0.9;

@@ -3,18 +3,18 @@
 
 It reads an `oxystrat run` result.h5 (faces, face flows and exchange, zone volumes, sparger shares,
 kLa, and the DO/CO2 answer to compare with) plus the bench-only export of what result.h5 does not
-hold (PEER_H5 from bench/export_peer: C* per unit mole fraction, inert gas flows, gas routing links,
-inlet flows, uptake constants), builds the same four balances per zone
+hold (PEER_H5 from bench/export_peer: C* per unit mole fraction, inert gas, the gas transport
+matrix, inlet flows, uptake constants), builds the same four balances per zone
 
     liquid O2   L c + T (K y - c) - OUR(c) V = 0
     liquid CO2  L d + S (Q x - d) + RQ OUR(c) V = 0
-    gas O2      n_O2,in - n_O2 - T (K y - c) = 0
-    gas CO2     n_CO2,in - n_CO2 - S (Q x - d) = 0
+    gas O2      n_O2,in + G g_O2 - T (K y - c) = 0
+    gas CO2     n_CO2,in + G g_CO2 - S (Q x - d) = 0
 
-(L: upwind convection plus turbulent exchange on the faces; y, x: O2 and CO2 fractions of the dry
-gas leaving the zone) and solves them with its own damped Newton (Armijo backtracking on the scaled
+(L: upwind convection plus turbulent exchange on the faces; G: the gas's drift-flux transport; y,
+x: O2 and CO2 fractions of the dry gas the zone holds) and solves them with its own damped Newton (Armijo backtracking on the scaled
 2-norm, scipy.sparse.linalg.splu for the steps), from the same cold start as bench/export_peer.
-The unknowns are stored in blocks (all c, all d, all n_O2, all n_CO2), not interleaved as in
+The unknowns are stored in blocks (all c, all d, all g_O2, all g_CO2), not interleaved as in
 oxystrat. Prints one JSON line: times, iterations, and the agreement of the DO and CO2 fields.
 
     steady_o2.py RESULT_H5 PEER_H5
@@ -41,7 +41,7 @@ def read(result_path, peer_path):
             "kla": f["/fields/kla"][:],
             "do": f["/fields/do"][:], "co2": f["/fields/co2"][:],
         }
-        for k in ("cstar_per_y_o2", "cstar_per_y_co2", "inert_flow", "gas_from", "gas_to", "gas_share"):
+        for k in ("cstar_per_y_o2", "cstar_per_y_co2", "inert_gas", "gas_row", "gas_col", "gas_value"):
             net[k] = g["/peer/" + k][:]
         for k in ("kla_co2_ratio", "inlet_o2", "inlet_co2", "inlet_o2_fraction", "inlet_co2_fraction",
                   "uptake_rate", "k_o2", "rq"):
@@ -60,13 +60,13 @@ class Balances:
         cols = np.concatenate([a, a, b, b])
         vals = np.concatenate([-from_a, from_a, -from_b, from_b])
         self.L = sp.csr_matrix((vals, (rows, cols)), shape=(n, n))
-        self.G = sp.csr_matrix((net["gas_share"], (net["gas_to"], net["gas_from"])), shape=(n, n))
+        self.G = sp.csr_matrix((net["gas_value"], (net["gas_row"], net["gas_col"])), shape=(n, n))
         self.V = net["volume"]
         self.T = net["kla"] * self.V
         self.S = net["kla_co2_ratio"] * self.T
         self.K = net["cstar_per_y_o2"]
         self.Q = net["cstar_per_y_co2"]
-        self.inert = net["inert_flow"]
+        self.inert = net["inert_gas"]
         self.in_o = net["inlet_o2"] * net["sparger_share"]
         self.in_c = net["inlet_co2"] * net["sparger_share"]
         self.rate = net["uptake_rate"]
@@ -102,8 +102,8 @@ class Balances:
         return np.concatenate([
             self.L @ c + otr - our,
             self.L @ d + ctr + self.rq * our,
-            self.in_o + self.G @ no - no - otr,
-            self.in_c + self.G @ nc - nc - ctr,
+            self.in_o + self.G @ no - otr,
+            self.in_c + self.G @ nc - ctr,
         ])
 
     def jacobian(self, x):
@@ -122,15 +122,15 @@ class Balances:
         return sp.bmat([
             [self.L + D(-self.T - dour), None, D(otr_no), D(otr_nc)],
             [D(self.rq * dour), self.L + D(-self.S), D(ctr_no), D(ctr_nc)],
-            [D(self.T), None, self.G - self.eye - D(otr_no), D(-otr_nc)],
-            [None, D(self.S), D(-ctr_no), self.G - self.eye - D(ctr_nc)],
+            [D(self.T), None, self.G - D(otr_no), D(-otr_nc)],
+            [None, D(self.S), D(-ctr_no), self.G - D(ctr_nc)],
         ], format="csc")
 
     def cold_start(self, net):
-        # Gas carried through the routing untouched: n = (I - G)^-1 n_in (a triangular system).
-        a = (self.eye - self.G).tocsc()
-        no = spla.spsolve(a, self.in_o)
-        nc = spla.spsolve(a, self.in_c)
+        # Gas carried by the gas transport untouched: G g = -n_in.
+        a = self.G.tocsc()
+        no = spla.spsolve(a, -self.in_o)
+        nc = spla.spsolve(a, -self.in_c)
         c = 0.5 * self.K * net["inlet_o2_fraction"]
         d = self.Q * net["inlet_co2_fraction"]
         return np.concatenate([c, d, no, nc])

@@ -1,54 +1,132 @@
 #include "solver/flow/gas_routing.hpp"
 
 #include <algorithm>
+#include <cmath>
 #include <numbers>
-#include <numeric>
+
+#include "physics/bubbles.hpp"
+#include "physics/solubility.hpp"
+#include "input/errors.hpp"
+#include "solver/linalg/fgmres.hpp"
+#include "solver/linalg/scalar_lu.hpp"
+#include "solver/linalg/scalar_multigrid.hpp"
 
 namespace oxystrat {
+namespace {
 
-GasRouting route_gas(const Case& /*c*/, const ZoneNetwork& net, const Hydrodynamics& h) {
+constexpr double kR = 8.314462618;  // molar gas constant [J/(mol K)], CODATA 2018
+constexpr double kG = 9.80665;
+
+// Bubble size in zone k from the sparger's size and the zone's dissipation.
+double zone_bubble_size(const Case& c, double formed_m, double epsilon, double sigma) {
+  if (c.model.bubble_diameter_m > 0.0) return c.model.bubble_diameter_m;
+  const double broken = physics::sauter_to_max_ratio *
+                        physics::hinze_max_diameter(sigma, c.broth.density_kg_m3, epsilon);
+  if (c.broth.coalescence == Coalescence::coalescing) return std::min(broken, coalesced_bubble_cap_m);
+  const double formed = formed_m > 0.0 ? formed_m : coalesced_bubble_cap_m;
+  return std::min(formed, broken);
+}
+
+// Solves G g = -s: the gas each zone holds when a unit flow enters by the shares s and none
+// dissolves. G is an M-matrix (transport with outflow at the surface): an exact sparse LU on small
+// and mid-sized networks, GMRES with aggregation multigrid on large ones.
+std::vector<double> carried_gas(const SparseMatrix& g, const std::vector<double>& share, const SolverOptions& o) {
+  const int n = static_cast<int>(share.size());
+  Eigen::VectorXd b(n);
+  for (int k = 0; k < n; ++k) b[k] = -share[k];
+  Eigen::VectorXd x;
+  bool ok = false;
+  if (n < o.multigrid_from_zones) {
+    ScalarLu lu;
+    ok = lu.factorize(g, o.supernodal_lu_from);
+    if (ok) {
+      x = b;
+      lu.solve(x);
+    }
+  } else {
+    ScalarMultigrid mg;
+    Fgmres krylov;
+    FgmresOptions fo;
+    fo.parallel_from_unknowns = o.parallel_from_unknowns;
+    ok = mg.setup(g, {}, o) &&
+         krylov.solve([&g](const Eigen::VectorXd& in, Eigen::VectorXd& out) { out.noalias() = g * in; },
+                      [&mg](const Eigen::VectorXf& in, Eigen::VectorXf& out) {
+                        Eigen::VectorXd v = in.cast<double>();
+                        mg.solve(v);
+                        out = v.cast<float>();
+                      },
+                      b, x, 1e-12, fo);
+  }
+  if (!ok || !x.allFinite()) throw SolveError("the gas transport could not be solved (a zone the gas cannot leave?)");
+  return {x.data(), x.data() + n};
+}
+
+}  // namespace
+
+double sparger_bubble_diameter(const Case& c, double gas_molar_flow_mol_s) {
+  const auto& s = c.sparger;
+  const double orifice = s.type == SpargerType::porous ? s.pore_diameter_m : s.hole_diameter_m;
+  if (!c.has_sparger || orifice <= 0.0) return 0.0;
+  const double t = c.vessel.temperature_k;
+  const double sigma = physics::water_surface_tension(t);
+  // Gas per orifice at the sparger's pressure; a porous element's pores each pass a negligible
+  // flow, so they form bubbles at the static (Tate) limit.
+  double per_orifice = 0.0;
+  if (s.type != SpargerType::porous) {
+    const double p = c.vessel.head_pressure_pa +
+                     c.broth.density_kg_m3 * kG * (c.vessel.liquid_height_m - s.elevation_m);
+    const double q = gas_molar_flow_mol_s * kR * t / (p - physics::water_vapour_pressure(t));
+    per_orifice = q / std::max(1, s.holes);
+  }
+  return physics::orifice_bubble_diameter(orifice, per_orifice, sigma, c.broth.density_kg_m3, c.broth.viscosity_pa_s);
+}
+
+GasRouting route_gas(const Case& c, const ZoneNetwork& net, const Hydrodynamics& h, const SolverOptions& options) {
   const int nz = net.size();
   GasRouting g;
-  g.out.assign(nz, {});
-  g.area.resize(nz);
   const double pi = std::numbers::pi;
+  const double sigma = physics::water_surface_tension(c.vessel.temperature_k);
+  g.sparger_bubble_m = sparger_bubble_diameter(c, h.gas_molar_flow_mol_s);
+  g.area.resize(nz);
+  g.sauter_m.resize(nz);
+  g.slip_m_s.resize(nz);
   for (int k = 0; k < nz; ++k) {
     g.area[k] = pi * (net.r1[k] * net.r1[k] - net.r0[k] * net.r0[k]);
-    const int above = net.row[k] + 1 < net.rows() ? net.zone_at(net.column[k], net.row[k] + 1) : -1;
-    g.out[k].push_back({above, 1.0});
+    g.sauter_m[k] = zone_bubble_size(c, g.sparger_bubble_m, h.epsilon[k], sigma);
+    const double rise = c.model.slip_velocity_m_s > 0.0
+                            ? c.model.slip_velocity_m_s
+                            : physics::bubble_rise_velocity(g.sauter_m[k], sigma, c.broth.density_kg_m3, c.broth.viscosity_pa_s);
+    g.slip_m_s[k] = rise * c.model.slip_multiplier;
   }
-  // A non-flooded impeller (loaded or completely dispersed) draws the gas rising into its lowest
-  // blade row and disperses it to the wall: every zone of that row sends its gas to the row above,
-  // spread uniformly by area. The recirculation below a completely dispersing impeller is not
-  // routed (a conservative choice for the bottom region).
-  std::vector<int> lowest_row(h.impellers.size(), net.rows());
-  for (int k = 0; k < nz; ++k) {
-    const int m = net.region[k].discharge;
-    if (m >= 0) lowest_row[m] = std::min(lowest_row[m], net.row[k]);
+  // The liquid's flows plus the slip through horizontal faces (zone_a below zone_b), upwinded;
+  // the liquid's exchange as the bubbles' turbulent dispersion.
+  std::vector<double> flow(net.faces.size());
+  for (size_t f = 0; f < net.faces.size(); ++f) {
+    const auto& face = net.faces[f];
+    const double slip = 0.5 * (g.slip_m_s[face.zone_a] + g.slip_m_s[face.zone_b]);
+    flow[f] = h.face_flow[f] + (face.orientation == FaceOrientation::axial ? slip * face.area : 0.0);
   }
-  for (size_t m = 0; m < h.impellers.size(); ++m) {
-    const auto regime = h.impellers[m].regime;
-    const int row = lowest_row[m];
-    if (regime == GasRegime::flooded || regime == GasRegime::ungassed || row + 1 >= net.rows()) continue;
-    std::vector<GasLink> spread;
-    double total = 0.0;
-    for (int col = 0; col < net.columns(); ++col) {
-      const int above = net.zone_at(col, row + 1);
-      if (above < 0) continue;
-      spread.push_back({above, g.area[above]});
-      total += g.area[above];
-    }
-    for (auto& l : spread) l.share /= total;
-    for (int col = 0; col < net.columns(); ++col) {
-      const int k = net.zone_at(col, row);
-      if (k >= 0) g.out[k] = spread;
-    }
+  Triplets t;
+  t.reserve(4 * net.faces.size() + nz);
+  add_transport_triplets(net, flow, h.face_exchange, t);
+  // Out through the surface: the zones of the top row.
+  g.surface_outflow.assign(nz, 0.0);
+  for (int col = 0; col < net.columns(); ++col) {
+    const int k = net.zone_at(col, net.rows() - 1);
+    if (k < 0) continue;
+    g.surface_outflow[k] = g.slip_m_s[k] * g.area[k];
+    t.emplace_back(k, k, -g.surface_outflow[k]);
   }
-  // Order: rows from the bottom (gas only moves up).
-  g.order.resize(nz);
-  std::iota(g.order.begin(), g.order.end(), 0);
-  std::stable_sort(g.order.begin(), g.order.end(), [&](int a, int b) { return net.row[a] < net.row[b]; });
+  g.transport.resize(nz, nz);
+  g.transport.setFromTriplets(t.begin(), t.end());
+  g.unit_inventory = carried_gas(g.transport, net.sparger_share, options);
   return g;
+}
+
+double surface_flow(const GasRouting& routing, const std::vector<double>& g) {
+  double out = 0.0;
+  for (size_t k = 0; k < g.size(); ++k) out += routing.surface_outflow[k] * g[k];
+  return out;
 }
 
 }  // namespace oxystrat

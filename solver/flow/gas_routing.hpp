@@ -1,29 +1,51 @@
-// Where the gas goes: sparged gas enters the sparger zones and rises column by column; an impeller
-// that is not flooded (loaded or completely dispersed) takes the gas rising into its lowest blade
-// row and spreads it over the row above out to the wall, by area. A flooded impeller lets it rise
-// as a plume. The routing is a directed acyclic graph, listed in
-// an order in which every zone comes after all zones that send it gas.
+// Where the gas goes: bubbles are carried by the liquid and rise through it at their slip
+// velocity (drift flux), and turbulence spreads them like the liquid's own eddies do. On every face
+// the gas flux is upwind: (liquid flow + slip velocity x area for a horizontal face) times the
+// gas held upstream, plus the turbulent exchange times the difference. Gas therefore recirculates
+// in the impeller loops, is carried down where the liquid descends faster than the bubbles rise,
+// and leaves through the liquid surface at the slip velocity. The operator is an M-matrix with
+// zero column sums but at the surface, so the gas inventory of every zone follows from one sparse
+// solve per species, with no order of zones assumed.
+//
+// Bubble size per zone: the sparger forms bubbles (orifice or pore size and gas flow); turbulence
+// breaks them down to the Hinze limit of the zone's dissipation; in a coalescing broth they merge
+// back up to that limit (at most 6 mm), in a non-coalescing broth they stay at the smaller of the
+// two. The slip velocity is the rise velocity of that size.
 #pragma once
 
 #include <vector>
 
 #include "input/case.hpp"
-#include "solver/flow/hydrodynamics.hpp"
 #include "mesh/zone_network.hpp"
+#include "solver/flow/hydrodynamics.hpp"
+#include "solver/flow/transport.hpp"
+#include "solver/linalg/solver_options.hpp"
 
 namespace oxystrat {
 
-struct GasLink {
-  int to = -1;          //!< receiving zone; -1: the head space (off-gas)
-  double share = 0.0;   //!< share of the sending zone's outgoing gas [-]
-};
+//! Largest bubble a coalescing broth holds away from the impellers [m] ("3-5 mm in coalescing
+//! water", [mem]; a bubble larger than ~6 mm wobbles and breaks).
+inline constexpr double coalesced_bubble_cap_m = 6e-3;
 
 struct GasRouting {
-  std::vector<std::vector<GasLink>> out;  //!< per zone, shares summing to 1
-  std::vector<int> order;                 //!< senders before receivers
-  std::vector<double> area;               //!< horizontal area the gas rises through per zone [m2]
+  //! Gas transport G [m3/s]: d(gas moles in zone i)/dt = sum_j G_ij g_j + sparged_i - transferred_i,
+  //! g = gas moles per zone volume [mol/m3]. Rows and columns are zones.
+  SparseMatrix transport;
+  std::vector<double> surface_outflow;  //!< slip x surface area of zones at the liquid surface [m3/s]
+  std::vector<double> sauter_m;         //!< Sauter bubble diameter per zone [m]
+  std::vector<double> slip_m_s;         //!< bubble slip (rise) velocity per zone [m/s]
+  std::vector<double> area;             //!< horizontal area of the zone [m2]
+  double sparger_bubble_m = 0.0;        //!< size the sparger forms bubbles at [m]; 0: not limiting
+  //! Gas held per zone volume per mol/s sparged, with nothing dissolving: -G^-1 s [s/m3].
+  std::vector<double> unit_inventory;
 };
 
-GasRouting route_gas(const Case& c, const ZoneNetwork& net, const Hydrodynamics& h);
+GasRouting route_gas(const Case& c, const ZoneNetwork& net, const Hydrodynamics& h, const SolverOptions& options = {});
+
+//! Off-gas of one gas species: what leaves through the surface [mol/s] for inventories g [mol/m3].
+double surface_flow(const GasRouting& routing, const std::vector<double>& g);
+
+//! Bubble diameter the case's sparger forms [m]; 0 when the case gives no hole or pore size.
+double sparger_bubble_diameter(const Case& c, double gas_molar_flow_mol_s);
 
 }  // namespace oxystrat

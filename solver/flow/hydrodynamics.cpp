@@ -51,20 +51,20 @@ ImpellerState impeller_state(const Case& c, const Impeller& imp, double gas_m3_s
   s.gas_flow_m3_s = gas_m3_s;
   s.aeration_number = gas_m3_s / (n * d * d * d);
   s.froude = n * n * d / kG;
-  s.flooding_aeration = flooding_aeration_number(s.froude, 1.0 / t_over_d);
-  s.dispersion_aeration = complete_dispersion_aeration_number(s.froude, 1.0 / t_over_d);
-  s.regime = gas_regime(s.aeration_number, s.flooding_aeration, s.dispersion_aeration);
+  const auto& type = impeller_data(imp.type);
+  s.flooding_aeration = flooding_aeration_number(imp.type, s.froude, 1.0 / t_over_d);
+  s.dispersion_aeration = complete_dispersion_aeration_number(imp.type, s.froude, 1.0 / t_over_d);
+  // Types without a sharp flooding transition are never reported flooded.
+  s.regime = gas_regime(s.aeration_number, type.floods ? s.flooding_aeration : HUGE_VAL, s.dispersion_aeration);
   if (s.aeration_number > 0.0) {
-    if (imp.gassed_power_factor) {
-      s.gassed_ratio = *imp.gassed_power_factor;
-    } else if (imp.type == ImpellerType::rushton) {
-      s.gassed_ratio = cui_gassed_power_ratio(s.aeration_number);
-    } else {
-      s.gassed_ratio = impeller_data(imp.type).gassed_power_factor;
-    }
+    s.gassed_ratio = imp.gassed_power_factor.value_or(
+        gassed_power_ratio(imp.type, s.aeration_number, s.froude, 1.0 / t_over_d));
   }
   s.gassed_ratio = std::min(1.0, s.gassed_ratio * c.model.gassed_power_multiplier);
   s.power_gassed_w = s.gassed_ratio * s.power_ungassed_w;
+  // Gas-filled cavities behind the blades cut the pumping roughly as they cut the power [mem]:
+  // a flooded impeller's loops weaken and its gas rises through as a plume.
+  s.circulation_m3_s *= s.gassed_ratio;
   return s;
 }
 

@@ -77,7 +77,7 @@ std::vector<double> interpolate(const std::vector<ZoneStencil>& stencils, const 
 }
 
 Eigen::VectorXd nested_state(const ZoneNetwork& coarse, const OxygenField& coarse_field, const ZoneNetwork& fine,
-                             const std::vector<double>& fine_inert_mol_s, const Eigen::VectorXd& cold) {
+                             const std::vector<double>& fine_inert_mol_m3, const Eigen::VectorXd& cold) {
   const auto stencils = interpolation_stencils(coarse, fine);
   const auto c_o2 = interpolate(stencils, coarse_field.do_mol_m3);
   const auto c_co2 = interpolate(stencils, coarse_field.co2_mol_m3);
@@ -96,12 +96,12 @@ Eigen::VectorXd nested_state(const ZoneNetwork& coarse, const OxygenField& coars
       y_o2 += s.weight[i] * coarse_field.y_o2[kc];
       y_co2 += s.weight[i] * coarse_field.y_co2[kc];
     }
-    const double inert = fine_inert_mol_s[k];
+    const double inert = fine_inert_mol_m3[k];
     if (!(w > 0.0) || !(inert > 0.0)) continue;  // keep the no-transfer gas of `cold`
     y_o2 /= w, y_co2 /= w;
     const double y_inert = 1.0 - y_o2 - y_co2;
     if (!(y_inert > 0.0)) continue;
-    const double total = inert / y_inert;  // [mol/s]
+    const double total = inert / y_inert;  // [mol/m3]
     x[4 * k + 2] = y_o2 * total;
     x[4 * k + 3] = y_co2 * total;
   }
@@ -109,7 +109,7 @@ Eigen::VectorXd nested_state(const ZoneNetwork& coarse, const OxygenField& coars
 }
 
 bool seed_from_coarse_grid(const OxygenContext& ctx, double biomass_kg_m3, const NewtonOptions& newton,
-                           const std::vector<double>& inert_mol_s, Eigen::VectorXd& x, CoarseWork& work) {
+                           const std::vector<double>& inert_mol_m3, Eigen::VectorXd& x, CoarseWork& work) {
   if (ctx.net.size() < newton.linear.nested_start_from_zones) return false;
   Case coarse_case = ctx.c;
   coarse_case.grid.radial = std::max(1, ctx.c.grid.radial / 2);
@@ -134,7 +134,7 @@ bool seed_from_coarse_grid(const OxygenContext& ctx, double biomass_kg_m3, const
   work.newton_iterations = coarse.newton_iterations + coarse.coarse_newton_iterations;
   work.linear_iterations = coarse.linear_iterations + coarse.coarse_linear_iterations;
   work.outer_iterations = coarse.outer_iterations + coarse.coarse_outer_iterations;
-  x = nested_state(*net, coarse, ctx.net, inert_mol_s, x);
+  x = nested_state(*net, coarse, ctx.net, inert_mol_m3, x);
   return true;
 }
 

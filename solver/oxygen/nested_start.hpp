@@ -32,10 +32,10 @@ std::vector<double> interpolate(const std::vector<ZoneStencil>& stencils, const 
 
 //! Solver state of `fine` (C_O2, C_CO2, n_O2, n_CO2 per zone) from a coarse field: DO, CO2 and
 //! the gas mole fractions are interpolated (intensive), the gas flows are rebuilt from each fine
-//! zone's inert flow. Zones without inert gas (pure O2 or CO2 sparged) keep the gas flows of
+//! zone's inert gas. Zones without inert gas (pure O2 or CO2 sparged) keep the gas of
 //! `cold`, the no-transfer start.
 Eigen::VectorXd nested_state(const ZoneNetwork& coarse, const OxygenField& coarse_field, const ZoneNetwork& fine,
-                             const std::vector<double>& fine_inert_mol_s, const Eigen::VectorXd& cold);
+                             const std::vector<double>& fine_inert_mol_m3, const Eigen::VectorXd& cold);
 
 //! What the coarser solves behind one nested start cost (all levels).
 struct CoarseWork {
@@ -49,6 +49,6 @@ struct CoarseWork {
 //! (the cold start) by its interpolation. Returns false and leaves `x` when the network is below
 //! newton.linear.nested_start_from_zones, the grid cannot be halved, or the coarse solve fails.
 bool seed_from_coarse_grid(const OxygenContext& ctx, double biomass_kg_m3, const NewtonOptions& newton,
-                           const std::vector<double>& inert_mol_s, Eigen::VectorXd& x, CoarseWork& work);
+                           const std::vector<double>& inert_mol_m3, Eigen::VectorXd& x, CoarseWork& work);
 
 }  // namespace oxystrat

@@ -7,6 +7,7 @@
 #include <numbers>
 #include <numeric>
 
+#include "physics/bubbles.hpp"
 #include "physics/mass_transfer.hpp"
 #include "solver/oxygen/nested_start.hpp"
 #include "solver/oxygen/oxygen_problem.hpp"
@@ -33,7 +34,7 @@ std::vector<double> column_pressures(const Case& c, const ZoneNetwork& net, cons
     for (int col = 0; col < net.columns(); ++col) {
       const int k = net.zone_at(col, row);
       if (k < 0) continue;
-      const double liquid = 1.0 - holdup[k];
+      const double liquid = 1.0 - std::min(holdup[k], 0.6);
       p[k] = top[col] + rho_g * liquid * (net.z1[k] - net.z[k]);
       top[col] += rho_g * liquid * (net.z1[k] - std::min(net.z_floor_inner[k], net.z_floor_outer[k]));
     }
@@ -41,9 +42,11 @@ std::vector<double> column_pressures(const Case& c, const ZoneNetwork& net, cons
   return p;
 }
 
-// Holdup and pressure consistent with the zones' gas molar flows (a few fixed-point sweeps;
-// holdup depends weakly on pressure, so this converges fast).
-GasState gas_state(const OxygenContext& ctx, const std::vector<double>& molar_flow) {
+// Holdup and pressure consistent with the gas the zones hold (dry moles per zone volume; a few
+// fixed-point sweeps: holdup depends weakly on pressure, so this converges fast). The relative
+// gas flux, holdup x slip, stands for the zone's superficial gas velocity: in a bubble column
+// without liquid flow they are the same.
+GasState gas_state(const OxygenContext& ctx, const std::vector<double>& dry_mol_m3) {
   const auto& net = ctx.net;
   const double t = ctx.c.vessel.temperature_k;
   const double pw = physics::water_vapour_pressure(t);
@@ -54,39 +57,32 @@ GasState gas_state(const OxygenContext& ctx, const std::vector<double>& molar_fl
     g.pressure = column_pressures(ctx.c, net, g.holdup);
 #pragma omp parallel for schedule(static) if (net.size() >= 50000)
     for (int k = 0; k < net.size(); ++k) {
-      const double q = molar_flow[k] * kR * t / (g.pressure[k] - pw);  // wet gas volume flow
-      g.superficial[k] = q / ctx.routing.area[k];
-      g.holdup[k] = drift_flux_holdup(g.superficial[k], ctx.c.model.slip_velocity_m_s);
+      // Wet gas volume per zone volume. Beyond ~0.3 bubbly flow gives way to churning plumes, which
+      // a caution reports; the hydrostatic head counts at most 60 % gas so the columns stay liquid.
+      g.holdup[k] = dry_mol_m3[k] * kR * t / (g.pressure[k] - pw);
+      g.superficial[k] = g.holdup[k] * ctx.routing.slip_m_s[k];
     }
   }
   return g;
 }
 
-// Inlet gas carried through the routing with no transfer: the starting composition.
-std::vector<double> carry(const GasRouting& routing, const ZoneNetwork& net, double inlet) {
-  std::vector<double> in(net.size(), 0.0), out(net.size(), 0.0);
-  for (int k = 0; k < net.size(); ++k) in[k] = inlet * net.sparger_share[k];
-  for (int k : routing.order) {
-    out[k] = in[k];
-    for (const auto& l : routing.out[k]) {
-      if (l.to >= 0) in[l.to] += l.share * out[k];
-    }
-  }
-  return out;
-}
-
-double local_kla(const Case& c, double eps, double vs, double holdup) {
+double local_kla(const Case& c, double eps, double vs, double holdup, double sauter_m) {
   double kla = 0.0;
   if (c.model.kla_model == KlaModel::local_correlation) {
     kla = vant_riet_kla(vant_riet_constants(c.broth.coalescence, c.model), c.broth.density_kg_m3 * eps, vs);
   } else if (holdup > 0.0) {
     const double t = c.vessel.temperature_k;
     const double nu = c.broth.viscosity_pa_s / c.broth.density_kg_m3;
-    const double sc = nu / o2_diffusivity(t);
-    const double d32 = c.model.bubble_diameter_m > 0.0 ? c.model.bubble_diameter_m : default_bubble_diameter(c.broth.coalescence);
-    kla = eddy_model_kl(eps, nu, sc) * interfacial_area(holdup, d32);
+    const double sc = nu / physics::o2_diffusivity_water(t);
+    kla = eddy_model_kl(eps, nu, sc) * interfacial_area(holdup, sauter_m);
   }
   return kla * kla_temperature_factor(c.vessel.temperature_k) * c.model.kla_factor;
+}
+
+std::vector<double> scaled(const std::vector<double>& v, double f) {
+  std::vector<double> out(v.size());
+  for (size_t k = 0; k < v.size(); ++k) out[k] = f * v[k];
+  return out;
 }
 
 }  // namespace
@@ -108,7 +104,7 @@ OxygenSetup::OxygenSetup(const OxygenContext& context, double biomass_kg_m3) : c
   uptake.k_o2_mol_m3 = c.culture.k_o2_mol_m3;
   uptake.rq = c.culture.rq;
   transport = transport_matrix(net, ctx.hydro.face_flow, ctx.hydro.face_exchange);
-  coeff.inert_flow = carry(ctx.routing, net, in_inert);
+  coeff.inert_mol_m3 = scaled(ctx.routing.unit_inventory, in_inert);
   // Vessel-level correlation: total gassed power per volume and vs at mid-height (ungassed).
   const double p_mid = c.vessel.head_pressure_pa + 0.5 * c.broth.density_kg_m3 * kG * c.vessel.liquid_height_m;
   const double vs_mid = molar * kR * t / (p_mid - water_pressure_pa) / (std::numbers::pi * std::pow(net.shape.radius(), 2));
@@ -121,9 +117,10 @@ OxygenSetup::OxygenSetup(const OxygenContext& context, double biomass_kg_m3) : c
 Eigen::VectorXd OxygenSetup::initial_state() const {
   const Case& c = ctx.c;
   const int n = ctx.net.size();
-  const auto o = carry(ctx.routing, ctx.net, inlet_o2_mol_s), q = carry(ctx.routing, ctx.net, inlet_co2_mol_s);
+  const auto o = scaled(ctx.routing.unit_inventory, inlet_o2_mol_s);
+  const auto q = scaled(ctx.routing.unit_inventory, inlet_co2_mol_s);
   std::vector<double> m(n);
-  for (int k = 0; k < n; ++k) m[k] = o[k] + q[k] + coeff.inert_flow[k];
+  for (int k = 0; k < n; ++k) m[k] = o[k] + q[k] + coeff.inert_mol_m3[k];
   const auto g0 = gas_state(ctx, m);
   Eigen::VectorXd x(4 * n);
   for (int k = 0; k < n; ++k) {
@@ -139,9 +136,9 @@ void OxygenSetup::update(const Eigen::VectorXd& x) {
   const Case& c = ctx.c;
   const auto& net = ctx.net;
   const int n = net.size();
-  std::vector<double> molar_flow(n);
-  for (int k = 0; k < n; ++k) molar_flow[k] = x[4 * k + 2] + x[4 * k + 3] + coeff.inert_flow[k];
-  const GasState gas = gas_state(ctx, molar_flow);
+  std::vector<double> dry(n);
+  for (int k = 0; k < n; ++k) dry[k] = std::max(0.0, x[4 * k + 2] + x[4 * k + 3] + coeff.inert_mol_m3[k]);
+  const GasState gas = gas_state(ctx, dry);
   holdup = gas.holdup;
   pressure_pa = gas.pressure;
   superficial_m_s = gas.superficial;
@@ -152,7 +149,9 @@ void OxygenSetup::update(const Eigen::VectorXd& x) {
   std::vector<double> kla(n);
   // Zone by zone in parallel, summed in zone order (the same total for any thread count).
 #pragma omp parallel for schedule(static) if (n >= 50000)
-  for (int k = 0; k < n; ++k) kla[k] = local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k]);
+  for (int k = 0; k < n; ++k) {
+    kla[k] = local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k], ctx.routing.sauter_m[k]);
+  }
   double kla_volume = 0.0;
   for (int k = 0; k < n; ++k) kla_volume += kla[k] * net.volume[k];
   // The published correlation fixes the vessel's total; the local form only distributes it.
@@ -188,7 +187,7 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   } else {
     x = setup.initial_state();
     CoarseWork coarse;
-    if (seed_from_coarse_grid(ctx, biomass_kg_m3, newton, coeff.inert_flow, x, coarse)) {
+    if (seed_from_coarse_grid(ctx, biomass_kg_m3, newton, coeff.inert_mol_m3, x, coarse)) {
       f.coarse_levels = coarse.levels;
       f.coarse_newton_iterations = coarse.newton_iterations;
       f.coarse_outer_iterations = coarse.outer_iterations;
@@ -261,7 +260,7 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   f.do_min = std::numeric_limits<double>::infinity();
   for (int k = 0; k < n; ++k) {
     const double no = x[4 * k + 2], nc = x[4 * k + 3];
-    const double total = no + nc + coeff.inert_flow[k];
+    const double total = no + nc + coeff.inert_mol_m3[k];
     f.do_mol_m3[k] = x[4 * k];
     f.co2_mol_m3[k] = x[4 * k + 1];
     f.y_o2[k] = total > 0.0 ? no / total : 0.0;
@@ -283,16 +282,11 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   f.kla_mean_1_s = kla_v / total_v;
   f.do_mean = do_v / total_v;
   f.volume_fraction_below_critical = below_v / total_v;
-  // Off-gas: what leaves the top zones.
-  double out_o = 0.0, out_c = 0.0, out_i = 0.0;
-  for (int k = 0; k < n; ++k) {
-    for (const auto& l : ctx.routing.out[k]) {
-      if (l.to >= 0) continue;
-      out_o += l.share * x[4 * k + 2];
-      out_c += l.share * x[4 * k + 3];
-      out_i += l.share * coeff.inert_flow[k];
-    }
-  }
+  // Off-gas: what leaves through the surface.
+  std::vector<double> g_o(n), g_c(n);
+  for (int k = 0; k < n; ++k) g_o[k] = x[4 * k + 2], g_c[k] = x[4 * k + 3];
+  const double out_o = surface_flow(ctx.routing, g_o), out_c = surface_flow(ctx.routing, g_c);
+  const double out_i = surface_flow(ctx.routing, coeff.inert_mol_m3);
   f.o2_in_mol_s = in_o2;
   f.o2_out_mol_s = out_o;
   f.offgas_y_o2 = out_o / (out_o + out_c + out_i);

@@ -1,12 +1,14 @@
 // The steady O2 / CO2 balances of every zone, liquid and gas, as one SteadyProblem.
-// State per zone k (4 unknowns, interleaved): C_O2, C_CO2 [mol/m3] in the liquid; n_O2, n_CO2
-// [mol/s] of gas leaving the zone. The inert gas flow of each zone is fixed by the routing.
+// State per zone k (4 unknowns, interleaved): C_O2, C_CO2 [mol/m3] in the liquid; g_O2, g_CO2
+// [mol/m3] of gas held per zone volume. The inert gas of each zone is fixed by the gas transport
+// (it does not dissolve).
 //   liquid O2:  sum_j L_kj C_j + T_k (K_k y_k - C_k) - OUR(C_k) V_k = 0
 //   liquid CO2: sum_j L_kj D_j + S_k (Q_k x_k - D_k) + RQ OUR(C_k) V_k = 0
-//   gas O2:     n_O2,in,k - n_O2,k - T_k (K_k y_k - C_k) = 0
-//   gas CO2:    n_CO2,in,k - n_CO2,k - S_k (Q_k x_k - D_k) = 0
-// with T = kLa V, K = C* per unit O2 mole fraction (Henry x salting-out x (p - p_water)),
-// y = n_O2 / (n_O2 + n_CO2 + n_inert), and likewise for CO2 (S, Q, x, D).
+//   gas O2:     sum_j G_kj g_O2,j + F_O2 s_k - T_k (K_k y_k - C_k) = 0
+//   gas CO2:    sum_j G_kj g_CO2,j + F_CO2 s_k - S_k (Q_k x_k - D_k) = 0
+// with L the liquid transport, G the gas transport (solver/flow/gas_routing.hpp), F the sparged
+// flows and s_k the sparger's share, T = kLa V, K = C* per unit O2 mole fraction (Henry x
+// salting-out x (p - p_water)), y = g_O2 / (g_O2 + g_CO2 + g_inert), and likewise for CO2.
 #pragma once
 
 #include <algorithm>
@@ -25,7 +27,7 @@ struct TransferCoefficients {
   std::vector<double> transfer_co2;      //!< kLa_CO2 V [m3/s]
   std::vector<double> cstar_per_y_o2;    //!< C*_O2 per unit dry-gas O2 fraction [mol/m3]
   std::vector<double> cstar_per_y_co2;   //!< C*_CO2 per unit dry-gas CO2 fraction [mol/m3]
-  std::vector<double> inert_flow;        //!< inert gas leaving each zone [mol/s]
+  std::vector<double> inert_mol_m3;      //!< inert gas held per zone volume [mol/m3]
 };
 
 struct Uptake {
@@ -63,24 +65,18 @@ class OxygenProblem : public SteadyProblem {
   bool jacobian_zones(const Eigen::VectorXd& x, int zone_begin, int zone_end,
                       std::vector<Eigen::Triplet<double>>& t) const override;
   double residual_scale() const override { return scale_; }
-  //! Liquid O2, CO2 then gas O2, CO2 per zone; gas flows along the routing order.
-  ZoneLayout zone_layout() const override { return {n_, order_}; }
+  //! Liquid O2, CO2 then gas O2, CO2 per zone.
+  ZoneLayout zone_layout() const override { return {n_}; }
 
  private:
-  struct Inflow {
-    int from;
-    double share;
-  };
   const ZoneNetwork& net_;
   const SparseMatrix& transport_;
-  const std::vector<int>* order_;
+  const SparseMatrix& gas_transport_;
   const TransferCoefficients& coeff_;
   Uptake uptake_;
   double inlet_o2_, inlet_co2_;
   int n_;
   double scale_;
-  std::vector<int> inflow_start_;  //!< gas links into zone k: inflows_[inflow_start_[k] .. inflow_start_[k + 1])
-  std::vector<Inflow> inflows_;
 };
 
 }  // namespace oxystrat

@@ -76,13 +76,9 @@ struct Plant {
 
 // Gas of one species (2: O2, 3: CO2) leaving through the head space [mol/s].
 double offgas(const Plant& p, const Eigen::VectorXd& x, int species) {
-  double out = 0.0;
-  for (int k = 0; k < p.net.size(); ++k) {
-    for (const auto& l : p.routing.out[k]) {
-      if (l.to < 0) out += l.share * x[4 * k + species];
-    }
-  }
-  return out;
+  std::vector<double> g(p.net.size());
+  for (int k = 0; k < p.net.size(); ++k) g[k] = x[4 * k + species];
+  return surface_flow(p.routing, g);
 }
 
 // The whole state of the broth: O2/CO2 (solver layout) and, for a growing culture, substrate and
@@ -271,7 +267,7 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
     fr.time_s = t;
     const auto& s = *plant->setup;
     for (int z = 0; z < n; ++z) {
-      const double no = b.x[4 * z + 2], nc = b.x[4 * z + 3], total = no + nc + s.coeff.inert_flow[z];
+      const double no = b.x[4 * z + 2], nc = b.x[4 * z + 3], total = no + nc + s.coeff.inert_mol_m3[z];
       fr.do_mol_m3.push_back(b.x[4 * z]);
       fr.co2_mol_m3.push_back(b.x[4 * z + 1]);
       fr.cstar_mol_m3.push_back(total > 0.0 ? s.coeff.cstar_per_y_o2[z] * no / total : 0.0);

@@ -94,7 +94,7 @@ std::vector<UncertainConstant> uncertain_constants() {
          c.model.exchange_constant = (c.model.exchange_constant > 0.0 ? c.model.exchange_constant : default_exchange_constant) * f;
        }},
       {"slip_velocity", true, 0.10, "bubble slip velocity 0.2-0.3 m/s [mem] as a 95 % range",
-       [](Case& c, double f) { c.model.slip_velocity_m_s *= f; }},
+       [](Case& c, double f) { c.model.slip_multiplier *= f; }},
       {"critical_do", true, 0.20, "critical-DO values published for one organism differ by +-30-50 % [mem]",
        [](Case& c, double f) { c.culture.critical_do_mol_m3 *= f; }},
       {"q_o2_max", true, 0.10, "culture-to-culture spread of measured specific O2 uptake, +-20 % [mem], as a 95 % range",

@@ -99,7 +99,7 @@ TEST(CaseMissingKey, ImpellerDiameterAndElevation) {
 
 TEST(CaseMissingKey, SpargerKeys) {
   EXPECT_THAT(error_of(CaseText().remove_line("type = \"ring\"")),
-              MissingKey("sparger.type (ring | pipe)"));
+              MissingKey("sparger.type (ring | pipe | porous)"));
   EXPECT_THAT(error_of(CaseText().remove_line("elevation = \"0.25 m\"")),
               MissingKey("sparger.elevation"));
   EXPECT_THAT(error_of(CaseText().remove_line("diameter = \"0.28 m\"")),

@@ -14,7 +14,7 @@ TEST(CaseUnit, WrongUnitListsTheAcceptedOnes) {
   const CaseText c = CaseText().replace("diameter = \"1.0 m\"", "diameter = \"1.0 kg\"");
   const auto msg = error_of(c);
   EXPECT_THAT(msg, HasSubstr(c.where("1.0 kg") + ": vessel.diameter = \"1.0 kg\""));
-  EXPECT_THAT(msg, HasSubstr("unknown unit 'kg'; expected one of m, mm, cm, in, ft"));
+  EXPECT_THAT(msg, HasSubstr("unknown unit 'kg'; expected one of m, mm, cm, um, in, ft"));
   EXPECT_THAT(msg, HasSubstr("allowed 0.05 m to 20 m"));
 }
 
@@ -41,7 +41,7 @@ TEST(CaseUnit, PressureWithoutAbsoluteOrGauge) {
 
 TEST(CaseUnit, TableWhereAQuantityIsExpected) {
   const CaseText c = CaseText().replace("diameter = \"1.0 m\"", "diameter = { value = 1 }");
-  EXPECT_THAT(error_of(c), HasSubstr("must be a string with a unit in m, mm, cm, in, ft"));
+  EXPECT_THAT(error_of(c), HasSubstr("must be a string with a unit in m, mm, cm, um, in, ft"));
 }
 
 TEST(CaseUnit, OxygenConcentrationUnit) {

@@ -60,7 +60,7 @@ TEST(UnitsErrors, MissingUnitListsTheAcceptedOnes) {
 TEST(UnitsErrors, UnknownUnitNamesItAndListsTheAcceptedOnes) {
   const auto msg = unit_error(Dimension::length, "3 furlong");
   EXPECT_THAT(msg, HasSubstr("unknown unit 'furlong'"));
-  EXPECT_THAT(msg, HasSubstr("m, mm, cm, in, ft"));
+  EXPECT_THAT(msg, HasSubstr("m, mm, cm, um, in, ft"));
 }
 
 TEST(UnitsErrors, UnitsAreCaseSensitive) {

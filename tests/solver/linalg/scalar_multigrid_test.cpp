@@ -18,10 +18,13 @@ namespace {
 
 using testing::Chain;
 
-// L - diag(T) of a gassed vessel at this grid: the liquid block of the balances, with a transfer
-// diagonal small enough (1e-2 1/s x volume at most 2e-2) that transport dominates.
+// L - diag(T) of the reference vessel's ungassed flow at this grid: a liquid block of the
+// balances, with a transfer diagonal small enough (1e-2 1/s x volume at most 2e-2) that transport
+// dominates. (Ungassed, so that the matrices do not follow the gas model.)
 SparseMatrix liquid_block(int radial, int axial) {
-  const Chain ch(testing::gassed_vessel(radial, axial));
+  Case c = testing::gassed_vessel(radial, axial);
+  c.operation.gas_flow_normal_m3_s = 0.0;
+  const Chain ch(c);
   SparseMatrix a = transport_matrix(ch.net, ch.hydro.face_flow, ch.hydro.face_exchange);
   for (int k = 0; k < a.rows(); ++k) a.coeffRef(k, k) -= 1e-2 * ch.net.volume[k] * (1.0 + std::sin(k));
   a.makeCompressed();

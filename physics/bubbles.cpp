@@ -1,0 +1,54 @@
+#include "physics/bubbles.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <numbers>
+
+namespace oxystrat::physics {
+namespace {
+
+constexpr double kG = 9.80665;  // standard gravity [m/s2]
+
+}  // namespace
+
+double water_surface_tension(double temperature_k) {
+  const double tau = 1.0 - temperature_k / 647.096;
+  return 0.2358 * std::pow(tau, 1.256) * (1.0 - 0.625 * tau);
+}
+
+double o2_diffusivity_water(double temperature_k) {
+  const double t = temperature_k;
+  const double log10_cm2_s = -4.410 + 773.8 / t - (506.4 / t) * (506.4 / t);
+  return std::pow(10.0, log10_cm2_s) * 1e-4;
+}
+
+double hinze_max_diameter(double sigma, double rho, double epsilon) {
+  return 0.725 * std::pow(sigma / rho, 0.6) * std::pow(std::max(epsilon, 1e-12), -0.4);
+}
+
+double orifice_bubble_diameter(double d_o, double q, double sigma, double rho, double mu) {
+  const double pi = std::numbers::pi;
+  const double static_term = std::pow(6.0 * d_o * sigma / (rho * kG), 4.0 / 3.0);
+  const double viscous_term = 81.0 * mu * q / (pi * rho * kG);
+  const double inertial_term = std::pow(135.0 * q * q / (4.0 * pi * pi * kG), 0.8);
+  return std::pow(static_term + viscous_term + inertial_term, 0.25);
+}
+
+double bubble_rise_velocity(double d, double sigma, double rho, double mu) {
+  const double wave = std::sqrt(2.14 * sigma / (rho * d) + 0.505 * kG * d);
+  // Rigid sphere: the velocity where drag balances buoyancy, by bisection on the force balance
+  // (monotone in u): C_D(Re) Re^2 = 4 rho g d^3 / (3 nu^2 rho) with Re = u d / nu.
+  const double nu = mu / rho;
+  const double archimedes = 4.0 * kG * d * d * d / (3.0 * nu * nu);
+  auto excess = [&](double re) { return 24.0 * re * (1.0 + 0.15 * std::pow(re, 0.687)) - archimedes; };
+  double lo = 0.0, hi = 1.0;
+  while (excess(hi) < 0.0 && hi < 1e7) hi *= 2.0;
+  for (int i = 0; i < 100; ++i) {
+    const double mid = 0.5 * (lo + hi);
+    (excess(mid) < 0.0 ? lo : hi) = mid;
+  }
+  const double rigid = 0.5 * (lo + hi) * nu / d;
+  return std::min(wave, rigid);
+}
+
+}  // namespace oxystrat::physics
