@@ -27,6 +27,21 @@ struct Vessel {
   double head_pressure_pa = 101325; //!< Absolute pressure in the head space [Pa]
   double pressure_rating_pa = 0.0;  //!< Absolute design pressure of the vessel [Pa]; 0 = not given
   double temperature_k = 310.15;    //!< Broth temperature [K]
+  //! Height of the top of the cylindrical shell (bottom head plus straight side) above the lowest
+  //! point [m]; 0 = not given.
+  double shell_top_m = 0.0;
+};
+
+//! What "% DO" means: 100 % is the O2 saturation with air at 1 atm (the common default), or the
+//! reading a probe was calibrated to in the vessel itself: with the calibration gas at the
+//! hydrostatic pressure of its height, under the head pressure.
+struct DoPercentBasis {
+  bool in_vessel = false;
+  double probe_height_m = 0.0;        //!< probe height above the lowest point (in vessel) [m]
+  double gas_o2_fraction = 0.20946;   //!< O2 fraction of the calibration gas [-]
+  double reference_mol_m3 = 0.0;      //!< the DO that reads 100 % [mol/m3]
+  //! "% of air saturation at 1 atm" or "% of in-vessel saturation (...)", for every printed %.
+  std::string label;
 };
 
 struct Impeller {
@@ -169,6 +184,7 @@ struct Case {
   Grid grid;
   Output output;
   ModelConstants model;
+  DoPercentBasis do_percent;
   Constraints constraints;
   ControlSettings control;
   std::vector<EventSpec> events;

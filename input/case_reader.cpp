@@ -79,9 +79,7 @@ double read_o2_concentration(TomlSource& src, const std::string& path, const Cas
   }
   double si = 0.0;
   if (q.unit == "% air saturation" || q.unit == "% sat" || q.unit == "%") {
-    const double sat = physics::o2_saturation_air_1atm(c.vessel.temperature_k) *
-                       physics::salting_out_factor(physics::Gas::o2, c.vessel.temperature_k, c.broth.ions_mol_m3);
-    si = q.value * 0.01 * sat;
+    si = q.value * 0.01 * c.do_percent.reference_mol_m3;
   } else {
     try {
       si = units::to_si(Dimension::concentration, q, physics::molar_mass_o2);
@@ -132,6 +130,14 @@ void read_vessel(TomlSource& src, Case& c) {
                                        units::standard_atmosphere_pa);
   v.pressure_rating_pa = src.quantity_or("vessel.pressure_rating", Dimension::pressure, {1e5, 200e5}, 0.0);
   v.temperature_k = src.quantity_or("vessel.temperature", Dimension::temperature, {273.15, 353.15}, 310.15);
+  if (const auto side = src.quantity("vessel.straight_side", Dimension::length, {0.0, 150.0, true})) {
+    v.shell_top_m = shape.head_depth() + *side;
+    if (v.shell_top_m <= v.liquid_height_m) {
+      src.fail("vessel.straight_side", fmt::format("the shell ends at {:.4g} m, at or below the liquid surface at "
+                                                   "{:.4g} m; give the length of the cylindrical shell",
+                                                   v.shell_top_m, v.liquid_height_m));
+    }
+  }
 }
 
 void read_impellers(TomlSource& src, Case& c) {
@@ -201,6 +207,29 @@ void read_operation(TomlSource& src, Case& c) {
   if (o.gas_flow_normal_m3_s > 0.0 && !c.has_sparger) {
     src.fail("operation.gas_flow", "gas is sparged but the case has no [sparger] table");
   }
+}
+
+// What 100 % DO means ([do_calibration]): air at 1 atm, or the probe's in-vessel calibration.
+void read_do_calibration(TomlSource& src, Case& c) {
+  src.allow_table("do_calibration");
+  auto& b = c.do_percent;
+  const double t = c.vessel.temperature_k;
+  const double salt = physics::salting_out_factor(physics::Gas::o2, t, c.broth.ions_mol_m3);
+  b.in_vessel = src.choice("do_calibration.basis", {"air-1atm", "in-vessel"}).value_or("air-1atm") == "in-vessel";
+  if (!b.in_vessel) {
+    b.reference_mol_m3 = physics::o2_saturation_air_1atm(t) * salt;
+    b.label = "% of air saturation at 1 atm";
+    return;
+  }
+  const double h = c.vessel.liquid_height_m;
+  b.probe_height_m = src.quantity("do_calibration.probe_height", Dimension::length, {0.0, h, true}).value_or(0.25 * h);
+  b.gas_o2_fraction = src.choice("do_calibration.gas", {"air", "inlet"}).value_or("air") == "inlet"
+                          ? c.operation.oxygen_fraction
+                          : physics::air_o2_fraction;
+  const double p = c.vessel.head_pressure_pa + c.broth.density_kg_m3 * 9.80665 * (h - b.probe_height_m);
+  b.reference_mol_m3 = physics::henry_o2(t) * salt * b.gas_o2_fraction * (p - physics::water_vapour_pressure(t));
+  b.label = fmt::format("% of in-vessel saturation ({:.3g} % O2 at {:.4g} bar(a), probe at {:.3g} m)",
+                        100.0 * b.gas_o2_fraction, p / 1e5, b.probe_height_m);
 }
 
 void read_broth(TomlSource& src, Case& c) {
@@ -549,6 +578,7 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   read_impellers(src, c);
   read_sparger(src, c);
   read_operation(src, c);
+  read_do_calibration(src, c);
   read_culture(src, c);
   read_feed(src, c);
   read_numerics(src, c);

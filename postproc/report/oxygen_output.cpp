@@ -70,7 +70,18 @@ void write_oxygen_h5(H5Writer& h5, const Case& c, const CaseRun& run) {
   h5.write("/fields/pco2", f.pco2_pa, "Pa");
   h5.write("/fields/pressure", f.pressure_pa, "Pa");
   h5.write("/fields/do_saturation", f.do_saturation, "1");
-  h5.attribute("/fields/do_saturation", "meaning", "DO over saturation with air at 1 atm and broth temperature");
+  h5.attribute("/fields/do_saturation", "meaning", "DO over the DO that reads 100 %: " + c.do_percent.label);
+  h5.write("/fields/bubble_diameter", run.routing.sauter_m, "m");
+  h5.attribute("/fields/bubble_diameter", "meaning", "Sauter mean bubble diameter d32");
+  h5.write("/fields/slip_velocity", run.routing.slip_m_s, "m/s");
+  h5.write("/summary/holdup_mean", f.holdup_mean, "1");
+  h5.write("/summary/holdup_max", f.holdup_max, "1");
+  h5.write("/summary/gas_volume", f.gas_volume_m3, "m3");
+  h5.write("/summary/gassed_level", f.gassed_level_m, "m");
+  h5.attribute("/summary/gassed_level", "meaning", "height of the gassed broth surface above the lowest point");
+  h5.write("/summary/do_percent_reference", c.do_percent.reference_mol_m3, "mol/m3");
+  h5.attribute("/summary/do_percent_reference", "meaning", "the DO that reads 100 %: " + c.do_percent.label);
+  h5.write("/summary/kla_model", std::vector<std::string>{kla_model_description(c)});
   if (!run.single_zone) throw std::logic_error("write_oxygen_h5 needs the single-zone field (run_case with single_zone)");
   const auto& s = *run.single_zone;
   h5.write("/summary/kla_mean", f.kla_mean_1_s, "1/s");
@@ -149,6 +160,26 @@ std::vector<CellArray> oxygen_cell_arrays(const CaseRun& run) {
           {"pressure_gassed", f.pressure_pa, {}}};
 }
 
+std::string kla_model_description(const Case& c) {
+  if (c.model.kla_model == KlaModel::mechanistic) {
+    return "mechanistic: kL from the local dissipation (Linek et al. 2004) x area 6 holdup / d32 per zone";
+  }
+  return c.model.kla_normalise ? "van 't Riet (1979) per zone, scaled so that its volume mean is the vessel-level value"
+                               : "van 't Riet (1979) per zone at the zone's P/V and gas flux";
+}
+
+std::string gas_summary(const CaseRun& run) {
+  const auto& f = *run.field;
+  const auto& g = run.routing;
+  const auto [d_lo, d_hi] = std::minmax_element(g.sauter_m.begin(), g.sauter_m.end());
+  const auto [u_lo, u_hi] = std::minmax_element(g.slip_m_s.begin(), g.slip_m_s.end());
+  std::string s = fmt::format("  gas            holdup {:.1f} % mean, {:.0f} % max; bubbles {:.2g}-{:.2g} mm", 100 * f.holdup_mean,
+                              100 * f.holdup_max, 1e3 * *d_lo, 1e3 * *d_hi);
+  if (g.sparger_bubble_m > 0.0) s += fmt::format(" (sparger forms {:.2g} mm)", 1e3 * g.sparger_bubble_m);
+  s += fmt::format(", rising {:.2g}-{:.2g} m/s; gassed level {:.3g} m\n", *u_lo, *u_hi, f.gassed_level_m);
+  return s;
+}
+
 std::string oxygen_summary(const Case& c, const CaseRun& run) {
   std::string s;
   for (const auto& n : run.notes) s += "Note: " + n + "\n";
@@ -161,9 +192,11 @@ std::string oxygen_summary(const Case& c, const CaseRun& run) {
     s += "Oxygen            zone model                 single zone (one average kLa)\n";
     s += fmt::format("  kLa            {:7.1f} 1/h (volume mean)   {:7.1f} 1/h   [vessel correlation {:.1f} 1/h]\n",
                      3600 * f.kla_mean_1_s, 3600 * one.kla_mean_1_s, 3600 * f.kla_vessel_1_s);
+    s += fmt::format("  kLa model      {}\n", kla_model_description(c));
+    s += gas_summary(run);
     s += fmt::format("  DO min         {:7.4f} mmol/L ({:4.1f} %)   {:7.4f} mmol/L ({:4.1f} %)\n", f.do_min, pct(f.do_min),
                      one.do_min, pct(one.do_min));
-    s += fmt::format("  DO mean        {:7.4f} mmol/L ({:4.1f} %)\n", f.do_mean, pct(f.do_mean));
+    s += fmt::format("  DO mean        {:7.4f} mmol/L ({:4.1f} %)   (% = {})\n", f.do_mean, pct(f.do_mean), c.do_percent.label);
     const int k = f.do_min_zone;
     s += fmt::format("  DO min at      r = {:.2f} m, z = {:.2f} m (zone {})\n", run.net.r[k], run.net.z[k], k);
     s += fmt::format("  below critical {:5.1f} % of the volume (critical DO {:.4f} mmol/L)   {}\n",

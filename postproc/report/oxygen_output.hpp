@@ -17,6 +17,11 @@ void write_profile_csv(const std::string& path, const CaseRun& run);
 std::vector<CellArray> oxygen_cell_arrays(const CaseRun& run);
 //! The zone model beside the single-zone answer, where the minimum is, C* bottom/top, off-gas,
 //! balance residual, supportable biomass, cautions.
+//! Which kLa model a case uses, in words.
+std::string kla_model_description(const Case& c);
+//! One line on the gas: holdup, bubble sizes and rise velocities, gassed level.
+std::string gas_summary(const CaseRun& run);
+
 std::string oxygen_summary(const Case& c, const CaseRun& run);
 
 }  // namespace oxystrat

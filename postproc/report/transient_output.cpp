@@ -225,8 +225,7 @@ void write_transient_outputs(RunFolder& folder, const LoadedCase& loaded, const 
 
   // Report.
   const Case& c = loaded.data;
-  const double air = physics::o2_saturation_air_1atm(c.vessel.temperature_k) *
-                     physics::salting_out_factor(physics::Gas::o2, c.vessel.temperature_k, c.broth.ions_mol_m3);
+  const double air = c.do_percent.reference_mol_m3;
   std::vector<double> t_h = series(r, cols[0].get, 1.0 / 3600.0);
   const auto pct = [&](int col) { return series(r, cols[col].get, 100.0 / air); };
   std::string body = "<h2>Transient</h2>\n";

@@ -44,13 +44,30 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
                                 "al. 1996).",
                                 field->pco2_max_pa / 133.322387415));
     }
+    if (field->volume_fraction_churning > 0.0) {
+      out.push_back(fmt::format("model range: gas holdup reaches {:.0f} % ({:.1f} % of the volume above {:.0f} %), beyond "
+                                "bubbly flow: churning gas plumes there (typically the sparger plume) are not described "
+                                "by the zone model; holdup, kLa and pressure there are rough.",
+                                100.0 * field->holdup_max, 100.0 * field->volume_fraction_churning,
+                                100.0 * bubbly_flow_holdup));
+    }
+    if (c.vessel.shell_top_m > 0.0 && field->gassed_level_m >= c.vessel.shell_top_m) {
+      out.push_back(fmt::format("LEVEL: the gassed broth rises to {:.3g} m, at or above the top of the straight side at "
+                                "{:.3g} m ({:.3g} m3 of gas held): foam and broth may reach the head, the exhaust and "
+                                "its filter; lower the volume or the gas flow, or check the head space with the vessel's "
+                                "documentation.",
+                                field->gassed_level_m, c.vessel.shell_top_m, field->gas_volume_m3));
+    }
     const double v_m3 = c.vessel.working_volume_m3;
     const double pv = h.power_gassed_w / v_m3;
     if (c.model.kla_model == KlaModel::local_correlation && (v_m3 > 4.0 || pv < 500.0 || pv > 10000.0)) {
       out.push_back(fmt::format("model range: the van 't Riet kLa correlation was fitted up to ~4 m3 and 0.5-10 kW/m3 "
                                 "(here {:.3g} m3, {:.2g} kW/m3); expect +-20-40 % scatter, more outside the range. "
-                                "Calibrate with your own kLa data where you can.",
-                                v_m3, pv / 1e3));
+                                "Calibrate with your own kLa data where you can{}.",
+                                v_m3, pv / 1e3,
+                                pv < 500.0 ? ", or set model.kla_model = \"mechanistic\" (kL from the local dissipation, "
+                                             "area from the holdup and the bubble size), which holds at low P/V"
+                                           : ""));
     }
   }
   return out;

@@ -245,7 +245,7 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
 
   // Fields and summary.
   f.state = x;
-  const double air_sat = physics::o2_saturation_air_1atm(t) * salt_o2;
+  const double air_sat = c.do_percent.reference_mol_m3;
   f.air_saturation_mol_m3 = air_sat;
   auto resize = [n](std::vector<double>& v) { v.assign(n, 0.0); };
   for (auto* v : {&f.do_mol_m3, &f.co2_mol_m3, &f.cstar_mol_m3, &f.kla_1_s, &f.otr_mol_m3_s, &f.our_mol_m3_s, &f.y_o2,
@@ -279,6 +279,14 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
     f.our_total_mol_s += f.our_mol_m3_s[k] * net.volume[k];
     f.pco2_max_pa = std::max(f.pco2_max_pa, f.pco2_pa[k]);
   }
+  for (int k = 0; k < n; ++k) {
+    f.gas_volume_m3 += f.holdup[k] * net.volume[k];
+    f.holdup_max = std::max(f.holdup_max, f.holdup[k]);
+    if (f.holdup[k] > bubbly_flow_holdup) f.volume_fraction_churning += net.volume[k] / total_v;
+  }
+  f.holdup_mean = f.gas_volume_m3 / total_v;
+  // The zones are the ungassed liquid's; the gas they hold swells the dispersion above it.
+  f.gassed_level_m = net.shape.height_for_volume(total_v + f.gas_volume_m3);
   f.kla_mean_1_s = kla_v / total_v;
   f.do_mean = do_v / total_v;
   f.volume_fraction_below_critical = below_v / total_v;

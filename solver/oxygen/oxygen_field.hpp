@@ -18,6 +18,10 @@
 
 namespace oxystrat {
 
+//! Holdup beyond which bubbly flow gives way to churning plumes that the zone model does not
+//! describe (typical stirred-tank holdups are 0.05-0.25, [mem]).
+inline constexpr double bubbly_flow_holdup = 0.3;
+
 struct OxygenField {
   // Per zone
   std::vector<double> do_mol_m3;        //!< dissolved O2 [mol/m3]
@@ -31,7 +35,7 @@ struct OxygenField {
   std::vector<double> y_o2, y_co2;      //!< dry gas mole fractions [-]
   std::vector<double> pco2_pa;          //!< CO2 partial pressure in equilibrium with the liquid [Pa]
   std::vector<double> pressure_pa;      //!< absolute pressure with gas holdup [Pa]
-  std::vector<double> do_saturation;    //!< DO / air saturation at 1 atm and broth temperature [-]
+  std::vector<double> do_saturation;    //!< DO over the DO that reads 100 % (case.do_percent) [-]
   // Summary
   double kla_mean_1_s = 0.0;            //!< volume-average kLa [1/s]
   double kla_vessel_1_s = 0.0;          //!< vessel-level correlation at Pg/V and mid-height vs [1/s]
@@ -44,7 +48,12 @@ struct OxygenField {
   double o2_in_mol_s = 0.0, o2_out_mol_s = 0.0;
   double o2_balance_error = 0.0;        //!< (in - out - sum OTR V) / in [-]
   double pco2_max_pa = 0.0;
-  double air_saturation_mol_m3 = 0.0;   //!< C* of air at 1 atm, broth temperature and salts
+  double holdup_mean = 0.0;             //!< volume-mean gas holdup [-]
+  double holdup_max = 0.0;              //!< [-]
+  double volume_fraction_churning = 0.0;  //!< share of the volume with holdup above bubbly_flow_holdup [-]
+  double gas_volume_m3 = 0.0;           //!< gas held in the broth [m3]
+  double gassed_level_m = 0.0;          //!< height of the gassed liquid surface above the lowest point [m]
+  double air_saturation_mol_m3 = 0.0;   //!< the DO that reads 100 % (case.do_percent) [mol/m3]
   int newton_iterations = 0;
   int outer_iterations = 0;
   int linear_iterations = 0;            //!< Krylov iterations of the structured Newton steps

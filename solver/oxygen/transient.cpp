@@ -204,8 +204,7 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
   res.grows = c0.culture.grows();
   res.working_volume_m3 = plant->net.total_volume();
   if (c0.feed.enabled) res.feed_zone = std::max(0, plant->net.zone_containing(c0.feed.r_m, c0.feed.z_m));
-  const double air_sat = physics::o2_saturation_air_1atm(c0.vessel.temperature_k) *
-                         physics::salting_out_factor(physics::Gas::o2, c0.vessel.temperature_k, c0.broth.ions_mol_m3);
+  const double air_sat = c0.do_percent.reference_mol_m3;
   const double biomass_ref = std::max(c0.culture.biomass_kg_m3, 1e-9);
 
   BrothState b;

@@ -1,0 +1,114 @@
+// Gas transport by drift flux: the inert gas balance is exact, gas reaches the zones below the
+// sparger at complete dispersion and hardly when the impeller floods, bubbles are smaller where
+// the dissipation is higher, and the holdup of a single-impeller vessel lies near a published
+// correlation.
+#include <gtest/gtest.h>
+
+#include <algorithm>
+#include <cmath>
+
+#include "case_fixtures.hpp"
+#include "input/case_reader.hpp"
+#include "solver/flow/gas_routing.hpp"
+#include "solver/oxygen/oxygen_field.hpp"
+
+namespace oxystrat {
+namespace {
+
+using testing::Chain;
+
+Case single_rushton(double speed_rpm, double vvm) {
+  return read_case_text(fmt::format(R"toml(
+[vessel]
+diameter = "1.0 m"
+liquid_height = "1.0 m"
+bottom = "flat"
+temperature = "20 degC"
+[[impeller]]
+type = "rushton"
+diameter = "0.333 m"
+elevation = "0.333 m"
+[sparger]
+type = "ring"
+elevation = "0.15 m"
+diameter = "0.25 m"
+[operation]
+speed = "{} rpm"
+gas_flow = "{} vvm"
+[grid]
+radial = 10
+axial = 30
+)toml",
+                                    speed_rpm, vvm),
+                        "single-rushton")
+      .data;
+}
+
+TEST(GasRouting, EverythingSpargedLeavesThroughTheSurface) {
+  // Inert gas: sparged = off-gas exactly (the transport's column sums vanish but at the surface),
+  // to round-off of the sparse solve.
+  for (const auto& c : {testing::gassed_vessel(6, 16), single_rushton(300, 1.0)}) {
+    const Chain ch(c);
+    EXPECT_NEAR(surface_flow(ch.routing, ch.routing.unit_inventory), 1.0, 1e-10);
+    for (double g : ch.routing.unit_inventory) EXPECT_GT(g, 0.0);  // dispersion reaches every zone
+  }
+}
+
+double share_below_sparger(const Case& c) {
+  const Chain ch(c);
+  const auto& g = ch.routing.unit_inventory;
+  double below = 0.0, v_below = 0.0, above = 0.0, v_above = 0.0;
+  for (int k = 0; k < ch.net.size(); ++k) {
+    (ch.net.z[k] < c.sparger.elevation_m ? below : above) += g[k] * ch.net.volume[k];
+    (ch.net.z[k] < c.sparger.elevation_m ? v_below : v_above) += ch.net.volume[k];
+  }
+  return (below / v_below) / (above / v_above);
+}
+
+TEST(GasRouting, CompletelyDispersingImpellerCarriesGasBelowTheSparger) {
+  // 300 rpm, 0.5 vvm: completely dispersed (Nienow et al. 1985); 100 rpm, 2 vvm: flooded. The
+  // lower loop of the dispersing impeller carries bubbles down past the sparger (measured 0.27 of
+  // the holdup above it); the flooded impeller's weak loops leave gas there to turbulent
+  // dispersion alone (0.06).
+  const Case dispersed = single_rushton(300, 0.5), flooded = single_rushton(100, 2.0);
+  const Chain a(dispersed), b(flooded);
+  ASSERT_EQ(a.hydro.impellers[0].regime, GasRegime::dispersed);
+  ASSERT_EQ(b.hydro.impellers[0].regime, GasRegime::flooded);
+  EXPECT_GT(share_below_sparger(dispersed), 0.15);
+  EXPECT_GT(share_below_sparger(dispersed), 3.0 * share_below_sparger(flooded));
+}
+
+TEST(GasRouting, BubblesAreSmallerWhereTheDissipationIsHigher) {
+  const Case c = single_rushton(300, 1.0);
+  const Chain ch(c);
+  for (int i = 0; i < ch.net.size(); ++i) {
+    for (int j = 0; j < ch.net.size(); ++j) {
+      if (ch.hydro.epsilon[i] > ch.hydro.epsilon[j]) EXPECT_LE(ch.routing.sauter_m[i], ch.routing.sauter_m[j]);
+    }
+  }
+  const auto [lo, hi] = std::minmax_element(ch.routing.sauter_m.begin(), ch.routing.sauter_m.end());
+  EXPECT_LT(*lo, 0.5 * *hi);  // the impeller stream breaks bubbles well below the bulk's
+  EXPECT_LE(*hi, coalesced_bubble_cap_m);
+}
+
+TEST(GasRouting, HoldupOfASingleRushtonNearThePublishedCorrelation) {
+  // Volume-mean holdup against eps_G = 0.13 (P/V)^0.33 vs^0.67 (P/V in W/m3, vs in m/s), the form
+  // for coalescing air-water in stirred tanks usually attributed to Smith, van 't Riet & Middleton
+  // (1977) [mem: constants not confirmed]. Tolerance 35 %: the correlation's own scatter (~25 %,
+  // [mem]) and the model's; measured -32 % to 0 % over these six points (the model's holdup rises
+  // less with power than the correlation's).
+  for (double rpm : {200.0, 300.0, 400.0}) {
+    for (double vvm : {0.5, 1.0}) {
+      const Case c = single_rushton(rpm, vvm);
+      const Chain ch(c);
+      const auto f = solve_oxygen_field({c, ch.net, ch.hydro, ch.routing});
+      const double pv = ch.hydro.power_gassed_w / c.vessel.working_volume_m3;
+      const double vs = vvm * c.vessel.working_volume_m3 / 60.0 * (293.15 / 273.15) / (M_PI * 0.25);
+      const double published = 0.13 * std::pow(pv, 0.33) * std::pow(vs, 0.67);
+      EXPECT_NEAR(f.holdup_mean / published, 1.0, 0.35) << rpm << " rpm, " << vvm << " vvm";
+    }
+  }
+}
+
+}  // namespace
+}  // namespace oxystrat
