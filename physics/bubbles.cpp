@@ -34,6 +34,8 @@ double orifice_bubble_diameter(double d_o, double q, double sigma, double rho, d
   return std::pow(static_term + viscous_term + inertial_term, 0.25);
 }
 
+double largest_stable_bubble(double sigma, double rho) { return 4.0 * std::sqrt(sigma / (rho * kG)); }
+
 double bubble_rise_velocity(double d, double sigma, double rho, double mu) {
   const double wave = std::sqrt(2.14 * sigma / (rho * d) + 0.505 * kG * d);
   // Rigid sphere: the velocity where drag balances buoyancy, by bisection on the force balance

@@ -29,6 +29,11 @@ inline constexpr double sauter_to_max_ratio = 0.62;
 double orifice_bubble_diameter(double orifice_m, double flow_per_orifice_m3_s, double surface_tension_n_m,
                                double density_kg_m3, double viscosity_pa_s);
 
+//! Largest bubble that holds together rising through still liquid [m]: 4 sqrt(sigma / (rho g)),
+//! the Rayleigh-Taylor limit of the bubble's cap (~11 mm in water) [mem]. Larger gas pockets (a
+//! jetting orifice) break up at once.
+double largest_stable_bubble(double surface_tension_n_m, double density_kg_m3);
+
 //! Terminal rise velocity of a bubble of diameter `d` in a process liquid [m/s]: the smaller of
 //! the wave-analogy form for larger bubbles, sqrt(2.14 sigma / (rho d) + 0.505 g d) (Mendelson
 //! 1967 as modified by Clift, Grace & Weber 1978 [mem]), and the rise of a rigid sphere (surfactant-

@@ -78,7 +78,8 @@ double sparger_bubble_diameter(const Case& c, double gas_molar_flow_mol_s) {
     const double q = gas_molar_flow_mol_s * kR * t / (p - physics::water_vapour_pressure(t));
     per_orifice = q / std::max(1, s.holes);
   }
-  return physics::orifice_bubble_diameter(orifice, per_orifice, sigma, c.broth.density_kg_m3, c.broth.viscosity_pa_s);
+  return std::min(physics::orifice_bubble_diameter(orifice, per_orifice, sigma, c.broth.density_kg_m3, c.broth.viscosity_pa_s),
+                  physics::largest_stable_bubble(sigma, c.broth.density_kg_m3));
 }
 
 GasRouting route_gas(const Case& c, const ZoneNetwork& net, const Hydrodynamics& h, const SolverOptions& options) {
