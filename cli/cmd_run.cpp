@@ -49,7 +49,10 @@ void add_run_command(CLI::App& app) {
     const double theta = tracer_mixing_time(net, hydro, {}).theta_s;
     fmt::print("{}", geometry_summary(loaded, net));
     fmt::print("{}", power_table(c, hydro));
-    fmt::print("Mixing  theta95 = {:.4g} s (whole vessel; `oxystrat mixing` for the tracer history)\n", theta);
+    fmt::print("Mixing  theta95 = {:.4g} s (whole vessel{}; `oxystrat mixing` for the tracer history)\n", theta,
+               hydro.stagnant_volume_fraction > 0.0
+                   ? fmt::format(", with {:.1f} % of it stagnant outside the caverns", 100.0 * hydro.stagnant_volume_fraction)
+                   : "");
     fmt::print("{}", oxygen_summary(c, run));
     std::optional<UncertaintyResult> unc;
     if (opts->uncertainty > 0) {

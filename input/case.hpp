@@ -9,6 +9,7 @@
 
 #include "physics/impeller_types.hpp"
 #include "physics/mass_transfer.hpp"
+#include "physics/rheology.hpp"
 #include "physics/vessel_shape.hpp"
 
 namespace oxystrat {
@@ -75,7 +76,8 @@ struct Operation {
 
 struct Broth {
   double density_kg_m3 = 1000.0;
-  double viscosity_pa_s = 1e-3;
+  double viscosity_pa_s = 1e-3;       //!< Newtonian viscosity (Casson: plastic viscosity) [Pa s]
+  Rheology rheology;                  //!< the flow curve; newtonian: viscosity_pa_s
   Coalescence coalescence = Coalescence::coalescing;
   std::map<std::string, double> ions_mol_m3;  //!< Ion concentrations for salting-out [mol/m3]
 };

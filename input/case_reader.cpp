@@ -232,11 +232,51 @@ void read_do_calibration(TomlSource& src, Case& c) {
                         100.0 * b.gas_o2_fraction, p / 1e5, b.probe_height_m);
 }
 
+// The flow curve: newtonian (broth.viscosity), power-law (consistency, flow_index),
+// herschel-bulkley (yield_stress, consistency, flow_index) or casson (yield_stress, viscosity).
+void read_rheology(TomlSource& src, Broth& b) {
+  auto& r = b.rheology;
+  const auto kind = src.choice("broth.rheology", {"newtonian", "power-law", "herschel-bulkley", "casson"}).value_or("newtonian");
+  r.kind = kind == "power-law"          ? RheologyKind::power_law
+           : kind == "herschel-bulkley" ? RheologyKind::herschel_bulkley
+           : kind == "casson"           ? RheologyKind::casson
+                                        : RheologyKind::newtonian;
+  r.viscosity_pa_s = b.viscosity_pa_s;
+  const bool power = r.kind == RheologyKind::power_law || r.kind == RheologyKind::herschel_bulkley;
+  const bool yield = r.kind == RheologyKind::herschel_bulkley || r.kind == RheologyKind::casson;
+  // Every key is read and checked; those of another flow curve are then ignored with a note.
+  const auto k = src.quantity("broth.consistency", Dimension::consistency, {1e-4, 1000.0});
+  const auto n = src.number("broth.flow_index", {0.05, 1.5});
+  const auto tau = src.quantity("broth.yield_stress", Dimension::stress, {0.0, 1000.0});
+  if (power) {
+    if (!k) src.missing("broth.consistency", "the consistency K, e.g. consistency = \"2 Pa s^n\"");
+    if (!n) src.missing("broth.flow_index", "the power-law index n, e.g. flow_index = 0.4");
+    r.consistency = *k;
+    r.flow_index = *n;
+  }
+  if (yield) {
+    if (!tau) src.missing("broth.yield_stress", "the yield stress, e.g. yield_stress = \"5 Pa\"");
+    r.yield_stress_pa = *tau;
+  }
+}
+
+// Keys of another flow curve (left over when --set switches broth.rheology) are ignored, with a note.
+void note_unused_rheology_keys(const TomlSource& src, const Case& c, std::vector<std::string>& notes) {
+  const auto kind = c.broth.rheology.kind;
+  const bool power = kind == RheologyKind::power_law || kind == RheologyKind::herschel_bulkley;
+  const bool yield = kind == RheologyKind::herschel_bulkley || kind == RheologyKind::casson;
+  for (const auto& [key, used] : {std::pair{"broth.consistency", power}, std::pair{"broth.flow_index", power},
+                                  std::pair{"broth.yield_stress", yield}}) {
+    if (!used && src.has(key)) notes.push_back(fmt::format("{} is ignored: it does not apply to a {} broth", key, to_string(kind)));
+  }
+}
+
 void read_broth(TomlSource& src, Case& c) {
   src.allow_table("broth");
   auto& b = c.broth;
   b.density_kg_m3 = src.quantity_or("broth.density", Dimension::density, {500.0, 2000.0}, 1000.0);
   b.viscosity_pa_s = src.quantity_or("broth.viscosity", Dimension::viscosity, {2e-4, 10.0}, 1e-3);
+  read_rheology(src, b);
   const auto coal = src.choice("broth.coalescence", {"coalescing", "non-coalescing"}).value_or("coalescing");
   b.coalescence = coal == "coalescing" ? Coalescence::coalescing : Coalescence::non_coalescing;
   src.allow_table("broth.ions");
@@ -586,6 +626,7 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   read_control(src, c);
   src.check_no_unknown_keys();
   check_geometry(src, c, out.notes);
+  note_unused_rheology_keys(src, c, out.notes);
   out.file_name = file_name;
   out.source_text = text;
   std::ostringstream os;

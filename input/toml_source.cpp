@@ -346,7 +346,7 @@ void TomlSource::walk_unknown(const toml::table& t, const std::string& prefix) c
     std::string suggestion;
     for (const auto& p : known_parts) suggestion += (suggestion.empty() ? "" : ".") + p;
     std::string hint = best.empty() ? "" : fmt::format("; did you mean {}?", suggestion);
-    fail(path, "unknown key" + hint + " (README.md, 'Case-file reference', lists every key)");
+    fail(path, "unknown key" + hint + " (docs/case-reference.md lists every key)");
   }
 }
 

@@ -51,6 +51,8 @@ const std::vector<UnitDef>& table(Dimension dim) {
       {"g/g/h", 1.0 / kHour}, {"g/(g h)", 1.0 / kHour}, {"kg/kg/s", 1.0}, {"g/g/d", 1.0 / 86400.0}};
   static const std::vector<UnitDef> volume_flow{{"L/h", 1e-3 / kHour}, {"m3/h", 1.0 / kHour}, {"L/min", 1e-3 / kMinute},
                                                 {"mL/min", 1e-6 / kMinute}, {"m3/s", 1.0}, {"L/s", 1e-3}};
+  static const std::vector<UnitDef> stress{{"Pa", 1.0}, {"mPa", 1e-3}, {"kPa", 1e3}};
+  static const std::vector<UnitDef> consistency{{"Pa s^n", 1.0}, {"mPa s^n", 1e-3}, {"Pa.s^n", 1.0}};
   // Concentrations in molar units; mass units are handled with the molar mass.
   static const std::vector<UnitDef> concentration{
       {"mmol/L", 1.0}, {"mol/m3", 1.0}, {"mM", 1.0}, {"mol/L", 1e3}, {"M", 1e3}, {"umol/L", 1e-3}};
@@ -74,6 +76,8 @@ const std::vector<UnitDef>& table(Dimension dim) {
     case Dimension::mass_yield: return mass_yield;
     case Dimension::mass_specific_rate: return mass_specific_rate;
     case Dimension::volume_flow: return volume_flow;
+    case Dimension::stress: return stress;
+    case Dimension::consistency: return consistency;
   }
   throw UnitError("unknown dimension");
 }

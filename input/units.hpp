@@ -33,6 +33,8 @@ enum class Dimension {
   mass_yield,     // kg/kg (g biomass per g substrate or O2)
   mass_specific_rate,  // kg/(kg s) (maintenance: g substrate per g biomass per hour)
   volume_flow,    // m3/s (liquid feed)
+  stress,         // Pa (a yield stress: no absolute or gauge)
+  consistency,    // Pa s^n (power-law consistency index)
 };
 
 //! Number and unit text of a quantity string, e.g. "120 rpm" -> {120, "rpm"}.

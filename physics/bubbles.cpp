@@ -26,6 +26,10 @@ double hinze_max_diameter(double sigma, double rho, double epsilon) {
   return 0.725 * std::pow(sigma / rho, 0.6) * std::pow(std::max(epsilon, 1e-12), -0.4);
 }
 
+double viscous_max_diameter(double sigma, double tau) { return 2.0 * 0.5 * sigma / std::max(tau, 1e-12); }
+
+double kolmogorov_length(double nu, double eps) { return std::pow(nu * nu * nu / std::max(eps, 1e-12), 0.25); }
+
 double orifice_bubble_diameter(double d_o, double q, double sigma, double rho, double mu) {
   const double pi = std::numbers::pi;
   const double static_term = std::pow(6.0 * d_o * sigma / (rho * kG), 4.0 / 3.0);
@@ -38,6 +42,8 @@ double largest_stable_bubble(double sigma, double rho) { return 4.0 * std::sqrt(
 
 double bubble_rise_velocity(double d, double sigma, double rho, double mu) {
   const double wave = std::sqrt(2.14 * sigma / (rho * d) + 0.505 * kG * d);
+  // A deformed bubble (Eotvos number rho g d^2 / sigma above ~4) no longer rises like a sphere.
+  if (rho * kG * d * d / sigma > 4.0) return wave;
   // Rigid sphere: the velocity where drag balances buoyancy, by bisection on the force balance
   // (monotone in u): C_D(Re) Re^2 = 4 rho g d^3 / (3 nu^2 rho) with Re = u d / nu.
   const double nu = mu / rho;

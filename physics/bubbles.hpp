@@ -18,6 +18,15 @@ double o2_diffusivity_water(double temperature_k);
 //! Hinze (1955), AIChE J. 1:289, d_max = 0.725 (sigma / rho)^0.6 eps^-0.4 [mem].
 double hinze_max_diameter(double surface_tension_n_m, double density_kg_m3, double epsilon_w_kg);
 
+//! Largest bubble that viscous shear of stress `shear_stress_pa` leaves whole [m]: 2 Ca sigma / tau
+//! with the critical capillary number Ca = 0.5 (order of the simple-shear values of Grace 1982
+//! for low viscosity ratios, [mem]). It replaces Hinze's limit where that falls below the
+//! Kolmogorov length, where turbulence breaks bubbles by viscous shear, not by inertia.
+double viscous_max_diameter(double surface_tension_n_m, double shear_stress_pa);
+
+//! Kolmogorov length (nu^3 / eps)^(1/4) [m].
+double kolmogorov_length(double kinematic_viscosity_m2_s, double epsilon_w_kg);
+
 //! Sauter diameter of a breakage-limited population [m]: d32 = 0.62 d_max (ratio reported for
 //! stirred dispersions, e.g. Parthasarathy & Ahmed 1994 [mem]).
 inline constexpr double sauter_to_max_ratio = 0.62;
@@ -38,7 +47,9 @@ double largest_stable_bubble(double surface_tension_n_m, double density_kg_m3);
 //! the wave-analogy form for larger bubbles, sqrt(2.14 sigma / (rho d) + 0.505 g d) (Mendelson
 //! 1967 as modified by Clift, Grace & Weber 1978 [mem]), and the rise of a rigid sphere (surfactant-
 //! covered small bubbles) with the Schiller & Naumann (1933) drag, C_D = 24/Re (1 + 0.15 Re^0.687),
-//! valid to Re ~ 800 [mem]. In water: ~0.1 m/s at 1 mm, ~0.24 m/s at 4 mm.
+//! valid to Re ~ 800 [mem]. A bubble deformed by its own rise (Eotvos number rho g d^2 / sigma
+//! above ~4, Clift et al. 1978 regime map [mem]) rises at the wave-analogy velocity whatever the
+//! viscosity. In water: ~0.1 m/s at 1 mm, ~0.24 m/s at 4 mm.
 double bubble_rise_velocity(double d_m, double surface_tension_n_m, double density_kg_m3, double viscosity_pa_s);
 
 }  // namespace oxystrat::physics

@@ -15,15 +15,17 @@ namespace {
 // docs/method.md]: down-pumping pitched blades and hydrofoils lose power to Pg/P0 ~0.6 / ~0.55
 // and flood at markedly lower Fl_G than a Rushton (taken as half); a hollow-blade disc turbine
 // keeps Pg/P0 ~0.75 and handles 2-3 times the gas (taken as 2.5); up-pumping axial types keep
-// Pg/P0 ~0.85 and show no sharp flooding.
+// Pg/P0 ~0.85 and show no sharp flooding. Metzner-Otto constants k_s [mem]: Rushton 11.5
+// (Metzner, Feehs, Ramos, Otto & Tuthill 1961), pitched blade ~13, narrow hydrofoils ~10.5,
+// hollow blade taken as a Rushton.
 constexpr double kPitchedBand = 0.2 * std::numbers::sqrt2 / 2.0;
 constexpr std::array<ImpellerTypeData, 6> kTypes{{
-    {ImpellerType::rushton, "rushton", 0, 5.0, 70.0, 0.72, 6, 0.2, 0.45, 1.0, true},
-    {ImpellerType::pitched_blade_down, "pitched-blade-down", -1, 1.27, 45.0, 0.79, 4, kPitchedBand, 0.6, 0.5, true},
-    {ImpellerType::pitched_blade_up, "pitched-blade-up", +1, 1.27, 45.0, 0.79, 4, kPitchedBand, 0.85, 3.0, false},
-    {ImpellerType::hydrofoil_down, "hydrofoil-down", -1, 0.30, 40.0, 0.50, 3, 0.12, 0.55, 0.5, true},
-    {ImpellerType::hydrofoil_up, "hydrofoil-up", +1, 0.30, 40.0, 0.50, 3, 0.12, 0.85, 3.0, false},
-    {ImpellerType::hollow_blade, "hollow-blade", 0, 3.0, 70.0, 0.6, 6, 0.2, 0.75, 2.5, true},
+    {ImpellerType::rushton, "rushton", 0, 5.0, 70.0, 0.72, 6, 0.2, 0.45, 1.0, true, 11.5},
+    {ImpellerType::pitched_blade_down, "pitched-blade-down", -1, 1.27, 45.0, 0.79, 4, kPitchedBand, 0.6, 0.5, true, 13.0},
+    {ImpellerType::pitched_blade_up, "pitched-blade-up", +1, 1.27, 45.0, 0.79, 4, kPitchedBand, 0.85, 3.0, false, 13.0},
+    {ImpellerType::hydrofoil_down, "hydrofoil-down", -1, 0.30, 40.0, 0.50, 3, 0.12, 0.55, 0.5, true, 10.5},
+    {ImpellerType::hydrofoil_up, "hydrofoil-up", +1, 0.30, 40.0, 0.50, 3, 0.12, 0.85, 3.0, false, 10.5},
+    {ImpellerType::hollow_blade, "hollow-blade", 0, 3.0, 70.0, 0.6, 6, 0.2, 0.75, 2.5, true, 11.5},
 }};
 static_assert([] {
   for (std::size_t i = 0; i < kTypes.size(); ++i)

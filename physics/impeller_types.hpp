@@ -29,6 +29,7 @@ struct ImpellerTypeData {
   double gassed_ratio_at_flooding;  //!< Pg/P0 reached at the flooding point (types without a Pg/P0 correlation) [-]
   double flooding_capacity;      //!< Fl_G at flooding relative to a Rushton turbine's at equal Fr and D/T [-]
   bool floods;                   //!< false: no sharp flooding transition (up-pumping axial types)
+  double metzner_otto_constant;  //!< k_s: effective shear rate k_s N of a non-Newtonian broth [-]
 };
 
 //! Every known type, in enum order.

@@ -32,6 +32,13 @@ double interfacial_area(double holdup, double sauter_diameter_m);
 //! aeration testing, e.g. ASCE/EWRI 2-06).
 double kla_temperature_factor(double temperature_k);
 
+//! Viscosity correction of a water-based kLa correlation [-]: 1 up to 5 mPa s (the viscosity range
+//! of the van 't Riet 1979 data, [mem]), (5 mPa s / mu_a)^0.4 above: the net viscosity exponent of
+//! Yagi & Yoshida's (1975) correlation for viscous and non-Newtonian liquids, Ind. Eng. Chem.
+//! Process Des. Dev. 14:488 [mem]; García-Ochoa & Gómez (2009) list -0.4 to -0.7 [mem].
+double viscous_kla_factor(double apparent_viscosity_pa_s);
+inline constexpr double water_like_viscosity_pa_s = 5e-3;
+
 //! kLa_CO2 / kLa_O2 = (D_CO2 / D_O2)^(1/2) ~ 0.9 [common practice].
 inline constexpr double co2_kla_ratio = 0.9;
 

@@ -1,8 +1,10 @@
 #include "postproc/report/hydro_output.hpp"
+#include "solver/flow/viscous_flow.hpp"
 #include "input/errors.hpp"
 
 #include <fmt/format.h>
 
+#include <cmath>
 #include <fstream>
 #include <stdexcept>
 
@@ -42,6 +44,22 @@ void write_hydrodynamics_h5(H5Writer& h5, const Case& c, const Hydrodynamics& h)
   h5.write("/impellers/reynolds", re, "1");
   h5.write("/impellers/circulation", circ, "m3/s");
   h5.write("/impellers/regime", regime);
+  std::vector<std::string> flow_regime;
+  for (size_t m = 0; m < h.impellers.size(); ++m) flow_regime.push_back(impeller_flow_regime(h.impellers[m]));
+  h5.write("/impellers/flow_regime", flow_regime);
+  h5.attribute("/impellers/flow_regime", "meaning", "laminar (Re < 10), transitional or turbulent (Re Np^(1/3) > 6370)");
+  if (c.broth.rheology.yield_stress_pa > 0.0) {
+    std::vector<double> dc, hc;
+    for (const auto& s : h.impellers) dc.push_back(s.cavern_diameter_m), hc.push_back(s.cavern_height_m);
+    h5.write("/impellers/cavern_diameter", dc, "m");
+    h5.write("/impellers/cavern_height", hc, "m");
+    h5.attribute("/impellers/cavern_diameter", "meaning", "cylindrical cavern of Elson et al. (1986), centred on the impeller plane");
+  }
+  h5.write("/summary/stagnant_volume_fraction", h.stagnant_volume_fraction, "1");
+  h5.attribute("/summary/stagnant_volume_fraction", "meaning", "share of the volume outside every cavern (0 without a yield stress)");
+  h5.write("/fields/shear_rate", h.shear_rate, "1/s");
+  h5.attribute("/fields/shear_rate", "meaning", "shear rate whose viscous dissipation equals the zone's dissipation");
+  h5.write("/fields/apparent_viscosity", h.apparent_viscosity, "Pa s");
   h5.write("/faces/flow", h.face_flow, "m3/s");
   h5.attribute("/faces/flow", "meaning", "convective flow from zone_a to zone_b (negative: b to a)");
   h5.write("/faces/exchange", h.face_exchange, "m3/s");
@@ -57,8 +75,16 @@ void write_hydrodynamics_h5(H5Writer& h5, const Case& c, const Hydrodynamics& h)
   h5.write("/summary/exchange_constant", h.exchange_constant, "1");
 }
 
+std::string impeller_flow_regime(const ImpellerState& s) {
+  if (s.reynolds < 10.0) return "laminar";
+  return s.reynolds * std::cbrt(s.power_number) > turbulent_mixing_reynolds ? "turbulent" : "transitional";
+}
+
 std::vector<CellArray> hydrodynamics_cell_arrays(const Hydrodynamics& h) {
-  return {{"epsilon", h.epsilon, {}}, {"velocity", h.velocity_r, h.velocity_z}};
+  return {{"epsilon", h.epsilon, {}},
+          {"velocity", h.velocity_r, h.velocity_z},
+          {"apparent_viscosity_Pa_s", h.apparent_viscosity, {}},
+          {"shear_rate", h.shear_rate, {}}};
 }
 
 std::string power_table(const Case& c, const Hydrodynamics& h) {

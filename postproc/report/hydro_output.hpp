@@ -14,6 +14,9 @@
 namespace oxystrat {
 
 void write_hydrodynamics_h5(H5Writer& h5, const Case& c, const Hydrodynamics& h);
+//! "laminar", "transitional" or "turbulent" by the impeller's effective Reynolds number.
+std::string impeller_flow_regime(const ImpellerState& s);
+
 std::vector<CellArray> hydrodynamics_cell_arrays(const Hydrodynamics& h);
 //! Per impeller: type, D/T, Np, P ungassed/gassed, regime, tip speed; then totals and P/V.
 std::string power_table(const Case& c, const Hydrodynamics& h);

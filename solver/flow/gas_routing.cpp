@@ -17,12 +17,21 @@ namespace {
 constexpr double kR = 8.314462618;  // molar gas constant [J/(mol K)], CODATA 2018
 constexpr double kG = 9.80665;
 
-// Bubble size in zone k from the sparger's size and the zone's dissipation.
-double zone_bubble_size(const Case& c, double formed_m, double epsilon, double sigma) {
+// Bubble size in zone k from the sparger's size and the zone's dissipation: Hinze's inertial
+// limit, or in a broth so viscous that it falls below the Kolmogorov length, the viscous one.
+// A coalescing viscous broth carries its gas in large bubbles: small ones, trapped and slow, hold
+// little of the flow (a single size per zone cannot hold both classes; we keep the one that
+// carries the gas, the largest stable bubble, [mem] for the observation).
+double zone_bubble_size(const Case& c, double formed_m, double epsilon, double sigma, double mu, double shear) {
   if (c.model.bubble_diameter_m > 0.0) return c.model.bubble_diameter_m;
-  const double broken = physics::sauter_to_max_ratio *
-                        physics::hinze_max_diameter(sigma, c.broth.density_kg_m3, epsilon);
-  if (c.broth.coalescence == Coalescence::coalescing) return std::min(broken, coalesced_bubble_cap_m);
+  const double rho = c.broth.density_kg_m3;
+  double limit = physics::hinze_max_diameter(sigma, rho, epsilon);
+  const bool viscous = limit < physics::kolmogorov_length(mu / rho, epsilon);
+  if (viscous) limit = std::max(limit, physics::viscous_max_diameter(sigma, mu * shear));
+  const double broken = physics::sauter_to_max_ratio * limit;
+  if (c.broth.coalescence == Coalescence::coalescing) {
+    return viscous ? physics::largest_stable_bubble(sigma, rho) : std::min(broken, coalesced_bubble_cap_m);
+  }
   const double formed = formed_m > 0.0 ? formed_m : coalesced_bubble_cap_m;
   return std::min(formed, broken);
 }
@@ -78,7 +87,9 @@ double sparger_bubble_diameter(const Case& c, double gas_molar_flow_mol_s) {
     const double q = gas_molar_flow_mol_s * kR * t / (p - physics::water_vapour_pressure(t));
     per_orifice = q / std::max(1, s.holes);
   }
-  return std::min(physics::orifice_bubble_diameter(orifice, per_orifice, sigma, c.broth.density_kg_m3, c.broth.viscosity_pa_s),
+  // The broth at the sparger is barely sheared: its viscosity at 10 1/s (our choice).
+  const double mu = apparent_viscosity(c.broth.rheology, 10.0);
+  return std::min(physics::orifice_bubble_diameter(orifice, per_orifice, sigma, c.broth.density_kg_m3, mu),
                   physics::largest_stable_bubble(sigma, c.broth.density_kg_m3));
 }
 
@@ -93,10 +104,11 @@ GasRouting route_gas(const Case& c, const ZoneNetwork& net, const Hydrodynamics&
   g.slip_m_s.resize(nz);
   for (int k = 0; k < nz; ++k) {
     g.area[k] = pi * (net.r1[k] * net.r1[k] - net.r0[k] * net.r0[k]);
-    g.sauter_m[k] = zone_bubble_size(c, g.sparger_bubble_m, h.epsilon[k], sigma);
+    const double mu = h.apparent_viscosity[k];
+    g.sauter_m[k] = zone_bubble_size(c, g.sparger_bubble_m, h.epsilon[k], sigma, mu, h.shear_rate[k]);
     const double rise = c.model.slip_velocity_m_s > 0.0
                             ? c.model.slip_velocity_m_s
-                            : physics::bubble_rise_velocity(g.sauter_m[k], sigma, c.broth.density_kg_m3, c.broth.viscosity_pa_s);
+                            : physics::bubble_rise_velocity(g.sauter_m[k], sigma, c.broth.density_kg_m3, mu);
     g.slip_m_s[k] = rise * c.model.slip_multiplier;
   }
   // The liquid's flows plus the slip through horizontal faces (zone_a below zone_b), upwinded;

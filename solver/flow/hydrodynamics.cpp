@@ -5,6 +5,7 @@
 #include <numbers>
 
 #include "physics/solubility.hpp"
+#include "solver/flow/viscous_flow.hpp"
 
 namespace oxystrat {
 namespace {
@@ -37,7 +38,7 @@ ImpellerState impeller_state(const Case& c, const Impeller& imp, double gas_m3_s
   const double n = c.operation.speed_rps;
   const double d = imp.diameter_m;
   const double rho = c.broth.density_kg_m3;
-  s.reynolds = rho * n * d * d / c.broth.viscosity_pa_s;
+  s.reynolds = metzner_otto_reynolds(c.broth.rheology, rho, n, d, impeller_data(imp.type).metzner_otto_constant);
   const double np_t = imp.power_number.value_or(impeller_data(imp.type).power_number);
   s.power_number = power_number(s.reynolds, np_t, impeller_data(imp.type).laminar_constant);
   s.flow_number = imp.flow_number.value_or(impeller_data(imp.type).flow_number);
@@ -124,10 +125,18 @@ Hydrodynamics compute_hydrodynamics(const Case& c, const ZoneNetwork& net) {
     circulation.push_back(h.impellers.back().circulation_m3_s);
   }
   h.loops = circulation_loops(c, circulation);
+  std::vector<double> np;
+  for (const auto& s : h.impellers) np.push_back(s.power_number);
+  const Caverns caverns = impeller_caverns(c, np);
+  for (size_t m = 0; m < caverns.diameter_m.size(); ++m) {
+    h.impellers[m].cavern_diameter_m = caverns.diameter_m[m];
+    h.impellers[m].cavern_height_m = caverns.height_m[m];
+  }
 
-  // Face flows from the stream function at the face ends (exactly 0 on the vessel wall).
+  // Face flows from the stream function at the face ends (exactly 0 on the vessel wall, and
+  // outside every cavern of a yield-stress broth: any field of psi gives balanced zones).
   const auto psi_at = [&](double r, double z, bool on_wall) {
-    return on_wall ? 0.0 : stream_function(h.loops, net.shape, r, z);
+    return on_wall || !caverns.contains(r, z) ? 0.0 : stream_function(h.loops, net.shape, r, z);
   };
   const double two_pi = 2.0 * std::numbers::pi;
   h.face_flow.resize(net.faces.size());
@@ -140,12 +149,22 @@ Hydrodynamics compute_hydrodynamics(const Case& c, const ZoneNetwork& net) {
   }
 
   h.epsilon = dissipation(c, net, h.impellers);
+  zone_viscosity(c, h.epsilon, h.shear_rate, h.apparent_viscosity);
+  const auto share = turbulence_share(c, net, np, h.apparent_viscosity, caverns);
+  h.stagnant_volume_fraction = 0.0;
+  for (int k = 0; k < net.size(); ++k) {
+    if (share[k] == 0.0) h.stagnant_volume_fraction += net.volume[k] / net.total_volume();
+  }
 
-  // Turbulent exchange: D_t = c_t eps^(1/3) T^(4/3) per zone, in series across the face.
+  // Turbulent exchange: D_t = c_t eps^(1/3) T^(4/3) per zone, damped below the turbulent regime,
+  // molecular in stagnant broth; in series across the face.
   h.exchange_constant = c.model.exchange_constant > 0.0 ? c.model.exchange_constant : default_exchange_constant;
   const double l43 = std::pow(c.vessel.diameter_m, 4.0 / 3.0);
   std::vector<double> diffusivity(net.size());
-  for (int k = 0; k < net.size(); ++k) diffusivity[k] = h.exchange_constant * std::cbrt(h.epsilon[k]) * l43;
+  for (int k = 0; k < net.size(); ++k) {
+    diffusivity[k] = share[k] == 0.0 ? stagnant_diffusivity_m2_s
+                                     : h.exchange_constant * std::cbrt(h.epsilon[k]) * l43 * share[k];
+  }
   h.face_exchange.resize(net.faces.size());
   for (size_t f = 0; f < net.faces.size(); ++f) {
     const auto& face = net.faces[f];

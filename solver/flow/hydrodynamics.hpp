@@ -18,7 +18,7 @@ namespace oxystrat {
 inline constexpr double default_exchange_constant = 0.0124;
 
 struct ImpellerState {
-  double reynolds = 0.0;             //!< rho N D^2 / mu [-]
+  double reynolds = 0.0;             //!< rho N D^2 / mu, mu at the Metzner-Otto shear rate k_s N [-]
   double power_number = 0.0;         //!< ungassed Np at this Re [-]
   double flow_number = 0.0;          //!< Nq [-]
   double power_ungassed_w = 0.0;     //!< [W]
@@ -33,6 +33,8 @@ struct ImpellerState {
   double tip_speed_m_s = 0.0;        //!< pi N D [m/s]
   double pumping_m3_s = 0.0;         //!< Nq N D^3 [m3/s]
   double circulation_m3_s = 0.0;     //!< flow carried by the impeller's loops [m3/s]
+  double cavern_diameter_m = 0.0;    //!< cavern in a yield-stress broth [m]; 0: no yield stress
+  double cavern_height_m = 0.0;      //!< [m]
 };
 
 struct Hydrodynamics {
@@ -45,6 +47,9 @@ struct Hydrodynamics {
   std::vector<double> face_flow;      //!< convective flow zone_a -> zone_b, signed [m3/s]
   std::vector<double> face_exchange;  //!< turbulent exchange flow, both ways [m3/s]
   std::vector<double> epsilon;        //!< specific energy dissipation per zone [W/kg]
+  std::vector<double> shear_rate;     //!< shear rate sustained by that dissipation per zone [1/s]
+  std::vector<double> apparent_viscosity;  //!< broth viscosity at that shear rate per zone [Pa s]
+  double stagnant_volume_fraction = 0.0;   //!< share of the volume outside every cavern [-]
   std::vector<double> velocity_r, velocity_z;  //!< zone-mean liquid velocity [m/s]
 };
 

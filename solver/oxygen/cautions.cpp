@@ -2,7 +2,11 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
+#include <cmath>
+
 #include "physics/solubility.hpp"
+#include "solver/flow/viscous_flow.hpp"
 
 namespace oxystrat {
 
@@ -38,7 +42,32 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
                                 m, h.impellers[m].aeration_number, h.impellers[m].flooding_aeration));
     }
   }
+  for (size_t m = 0; m < h.impellers.size(); ++m) {
+    const auto& s = h.impellers[m];
+    const double x = s.reynolds * std::cbrt(s.power_number);
+    if (s.reynolds < 10.0 || x < turbulent_mixing_reynolds) {
+      out.push_back(fmt::format("impeller {} runs {} (Re = {:.3g}{}): its power number follows the {} branch of the power "
+                                "curve and turbulent exchange is damped (Grenville 1992); kLa and mixing correlations of "
+                                "turbulent vessels do not hold there.",
+                                m, s.reynolds < 10.0 ? "LAMINAR" : "transitional", s.reynolds,
+                                c.broth.rheology.newtonian() ? "" : ", Metzner-Otto", s.reynolds < 10.0 ? "laminar" : "transitional"));
+    }
+    if (s.cavern_diameter_m > 0.0 && s.cavern_diameter_m < c.vessel.diameter_m) {
+      out.push_back(fmt::format("impeller {} clears a cavern of {:.2g} m x {:.2g} m only (Elson et al. 1986) in a {:.2g} m "
+                                "vessel: the yield-stress broth outside it stands still, fed with O2 by molecular "
+                                "diffusion only ({:.0f} % of the volume stagnant). Raise the speed or use a larger impeller.",
+                                m, s.cavern_diameter_m, s.cavern_height_m, c.vessel.diameter_m, 100.0 * h.stagnant_volume_fraction));
+    }
+  }
   if (field != nullptr) {
+    double mu_max = 0.0;
+    for (double mu : h.apparent_viscosity) mu_max = std::max(mu_max, mu);
+    if (mu_max > water_like_viscosity_pa_s && c.model.kla_model == KlaModel::local_correlation) {
+      out.push_back(fmt::format("model range: the broth's apparent viscosity reaches {:.3g} Pa s; kLa is the water-based "
+                                "correlation times (5 mPa s / mu_a)^0.4 (Yagi & Yoshida 1975), whose data reach a few "
+                                "Pa s [mem]; measure kLa in the broth where you can.",
+                                mu_max));
+    }
     if (field->pco2_max_pa > pco2_inhibition_pa) {
       out.push_back(fmt::format("pCO2 reaches {:.0f} mmHg, above the ~150 mmHg known to inhibit cell cultures (Gray et "
                                 "al. 1996).",

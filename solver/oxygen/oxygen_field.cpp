@@ -66,13 +66,13 @@ GasState gas_state(const OxygenContext& ctx, const std::vector<double>& dry_mol_
   return g;
 }
 
-double local_kla(const Case& c, double eps, double vs, double holdup, double sauter_m) {
+double local_kla(const Case& c, double eps, double vs, double holdup, double sauter_m, double viscosity_pa_s) {
   double kla = 0.0;
   if (c.model.kla_model == KlaModel::local_correlation) {
     kla = vant_riet_kla(vant_riet_constants(c.broth.coalescence, c.model), c.broth.density_kg_m3 * eps, vs);
   } else if (holdup > 0.0) {
     const double t = c.vessel.temperature_k;
-    const double nu = c.broth.viscosity_pa_s / c.broth.density_kg_m3;
+    const double nu = viscosity_pa_s / c.broth.density_kg_m3;
     const double sc = nu / physics::o2_diffusivity_water(t);
     kla = eddy_model_kl(eps, nu, sc) * interfacial_area(holdup, sauter_m);
   }
@@ -150,7 +150,8 @@ void OxygenSetup::update(const Eigen::VectorXd& x) {
   // Zone by zone in parallel, summed in zone order (the same total for any thread count).
 #pragma omp parallel for schedule(static) if (n >= 50000)
   for (int k = 0; k < n; ++k) {
-    kla[k] = local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k], ctx.routing.sauter_m[k]);
+    kla[k] = local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k], ctx.routing.sauter_m[k],
+                       ctx.hydro.apparent_viscosity[k]);
   }
   double kla_volume = 0.0;
   for (int k = 0; k < n; ++k) kla_volume += kla[k] * net.volume[k];
@@ -158,7 +159,12 @@ void OxygenSetup::update(const Eigen::VectorXd& x) {
   const bool normalise = c.model.kla_normalise && c.model.kla_model == KlaModel::local_correlation;
   const double scale = normalise && kla_volume > 0.0 ? kla_vessel_1_s * net.total_volume() / kla_volume : 1.0;
   for (int k = 0; k < n; ++k) {
-    coeff.transfer_o2[k] = scale * kla[k] * net.volume[k];
+    // The correlation holds for water-like broths; where the broth is thicker, the liquid film
+    // thickens (the mechanistic model has the viscosity in kL already).
+    const double thick = c.model.kla_model == KlaModel::local_correlation
+                             ? viscous_kla_factor(ctx.hydro.apparent_viscosity[k])
+                             : 1.0;
+    coeff.transfer_o2[k] = scale * kla[k] * thick * net.volume[k];
     coeff.transfer_co2[k] = co2_kla_ratio * coeff.transfer_o2[k];
     coeff.cstar_per_y_o2[k] = henry_o2 * (gas.pressure[k] - water_pressure_pa);
     coeff.cstar_per_y_co2[k] = henry_co2 * (gas.pressure[k] - water_pressure_pa);
@@ -259,10 +265,13 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   double kla_v = 0.0, do_v = 0.0, below_v = 0.0;
   f.do_min = std::numeric_limits<double>::infinity();
   for (int k = 0; k < n; ++k) {
-    const double no = x[4 * k + 2], nc = x[4 * k + 3];
+    // The solve stops at a scaled residual of 1e-12: a zone that is truly anoxic can end a hair
+    // below zero. Such round-off is reported as 0; anything larger stays visible.
+    const auto round_off = [](double v, double scale) { return v < 0.0 && v > -1e-9 * scale ? 0.0 : v; };
+    const double no = round_off(x[4 * k + 2], coeff.inert_mol_m3[k] + 1e-300), nc = round_off(x[4 * k + 3], coeff.inert_mol_m3[k] + 1e-300);
     const double total = no + nc + coeff.inert_mol_m3[k];
-    f.do_mol_m3[k] = x[4 * k];
-    f.co2_mol_m3[k] = x[4 * k + 1];
+    f.do_mol_m3[k] = round_off(x[4 * k], air_sat);
+    f.co2_mol_m3[k] = round_off(x[4 * k + 1], air_sat);
     f.y_o2[k] = total > 0.0 ? no / total : 0.0;
     f.y_co2[k] = total > 0.0 ? nc / total : 0.0;
     f.cstar_mol_m3[k] = coeff.cstar_per_y_o2[k] * f.y_o2[k];
