@@ -38,5 +38,7 @@ void add_validate_command(CLI::App& app);
 void add_lifelines_command(CLI::App& app);
 void add_transient_command(CLI::App& app);
 void add_calibrate_command(CLI::App& app);
+void add_levers_command(CLI::App& app);
+void add_scale_up_command(CLI::App& app);
 
 }  // namespace oxystrat::cli

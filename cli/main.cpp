@@ -28,6 +28,8 @@ int run(int argc, char** argv) {
   oxystrat::cli::add_lifelines_command(app);
   oxystrat::cli::add_transient_command(app);
   oxystrat::cli::add_calibrate_command(app);
+  oxystrat::cli::add_levers_command(app);
+  oxystrat::cli::add_scale_up_command(app);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

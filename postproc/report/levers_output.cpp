@@ -1,0 +1,157 @@
+#include "postproc/report/levers_output.hpp"
+
+#include <fmt/format.h>
+
+#include <fstream>
+
+#include "input/errors.hpp"
+#include "postproc/report/svg_plot.hpp"
+
+namespace oxystrat {
+namespace {
+
+constexpr double kMmHg = 133.322387415;
+
+std::string status(const LeverResult& r) {
+  if (r.already) return "meets already";
+  return r.found ? "meets" : "does not meet";
+}
+
+std::string value_text(const LeverResult& r) {
+  if (r.unit.empty()) return r.found ? "swap" : "-";
+  return fmt::format("{:.4g} -> {:.4g} {}", r.current, r.value, r.unit);
+}
+
+std::string change_text(const LeverResult& r) {
+  if (r.unit.empty() || r.current == 0.0) return "";
+  return fmt::format("{:+.0f} %", 100.0 * (r.value / r.current - 1.0));
+}
+
+std::string safety(const LeverResult& r, const LeverEffects& base) {
+  std::string s;
+  const auto& e = r.effects;
+  if (e.oxygen_fraction > 0.2146) s += fmt::format("O2-enriched gas ({:.0f} % O2): oxygen service; ", 100.0 * e.oxygen_fraction);
+  if (e.flooded_impellers > base.flooded_impellers) s += fmt::format("{} impeller(s) flooded; ", e.flooded_impellers);
+  if (e.pco2_max_pa > 150.0 * kMmHg) s += fmt::format("pCO2 {:.0f} mmHg; ", e.pco2_max_pa / kMmHg);
+  if (e.head_pressure_pa > base.head_pressure_pa) s += fmt::format("vessel at {:.2f} bar(a); ", e.head_pressure_pa / 1e5);
+  return s;
+}
+
+}  // namespace
+
+std::string levers_text(const Case& c, const LeversStudy& s) {
+  std::string t = fmt::format("Levers for {} (each moved alone towards its limit; smallest change that meets [constraints])\n",
+                              c.title);
+  t += fmt::format("  now: DO min {:.4f} mmol/L, {:.1f} % of the volume below the floor, Pg {:.3g} kW, {}\n",
+                   s.base.do_min_mol_m3, 100.0 * s.base.volume_fraction_below_critical, s.base.power_gassed_w / 1e3,
+                   s.base.feasible ? "meets its constraints" : "does NOT meet its constraints");
+  t += fmt::format("  {:<14} {:<14} {:<28} {:>7} {:>9} {:>8} {:>9} {:>8} {:>9}\n", "lever", "result", "value", "change",
+                   "Pg [kW]", "P/V", "tip [m/s]", "eps max", "pCO2");
+  t += fmt::format("  {:<14} {:<14} {:<28} {:>7} {:>9} {:>8} {:>9} {:>8} {:>9}\n", "", "", "", "", "", "[kW/m3]", "",
+                   "[W/kg]", "[mmHg]");
+  for (const auto& r : s.levers) {
+    const auto& e = r.effects;
+    t += fmt::format("  {:<14} {:<14} {:<28} {:>7} {:>9.4g} {:>8.3g} {:>9.3g} {:>8.3g} {:>9.0f}\n", r.name, status(r),
+                     value_text(r), change_text(r), e.power_gassed_w / 1e3, e.power_per_volume_w_m3 / 1e3,
+                     e.tip_speed_m_s, e.epsilon_max_w_kg, e.pco2_max_pa / kMmHg);
+    const auto warn = safety(r, s.base);
+    if (!warn.empty()) t += "      watch: " + warn + "\n";
+    if (!r.note.empty()) t += "      " + r.note + "\n";
+    if (!r.found && !r.limit_reason.empty()) t += "      limit: " + r.limit_reason + "\n";
+  }
+  return t;
+}
+
+void write_levers_csv(const std::string& path, const LeversStudy& s) {
+  std::ofstream out(path, std::ios::binary);
+  out << "lever,key,result,unit,current,limit,value,power_gassed [kW],power_per_volume [kW/m3],tip_speed [m/s],"
+         "flooded_impellers,epsilon_max [W/kg],pco2_max [mmHg],head_pressure [bar(a)],oxygen_fraction [%],"
+         "do_min [mmol/L],volume_below_critical [%],kla_mean [1/h],note\n";
+  for (const auto& r : s.levers) {
+    const auto& e = r.effects;
+    std::string note = r.note;
+    for (auto& ch : note) {
+      if (ch == ',' || ch == '\n') ch = ';';
+    }
+    out << fmt::format("{},{},{},{},{:.10g},{:.10g},{:.10g},{:.6g},{:.6g},{:.6g},{},{:.6g},{:.6g},{:.6g},{:.6g},{:.6g},{:.6g},{:.6g},{}\n",
+                       r.name, r.key, status(r), r.unit, r.current, r.limit, r.value, e.power_gassed_w / 1e3,
+                       e.power_per_volume_w_m3 / 1e3, e.tip_speed_m_s, e.flooded_impellers, e.epsilon_max_w_kg,
+                       e.pco2_max_pa / kMmHg, e.head_pressure_pa / 1e5, 100.0 * e.oxygen_fraction, e.do_min_mol_m3,
+                       100.0 * e.volume_fraction_below_critical, 3600.0 * e.kla_mean_1_s, note);
+  }
+  if (!out) throw IoError("cannot write " + path);
+}
+
+void write_levers_h5(H5Writer& h5, const LeversStudy& s) {
+  std::vector<std::string> names, keys, notes, units;
+  std::vector<int> found, already, flooded;
+  std::vector<double> current, limit, value, pg, pv, tip, eps, pco2, head, o2, gas, dmin, below, kla;
+  for (const auto& r : s.levers) {
+    const auto& e = r.effects;
+    names.push_back(r.name), keys.push_back(r.key), notes.push_back(r.note), units.push_back(r.unit);
+    found.push_back(r.found), already.push_back(r.already), flooded.push_back(e.flooded_impellers);
+    current.push_back(r.current), limit.push_back(r.limit), value.push_back(r.value);
+    pg.push_back(e.power_gassed_w), pv.push_back(e.power_per_volume_w_m3), tip.push_back(e.tip_speed_m_s);
+    eps.push_back(e.epsilon_max_w_kg), pco2.push_back(e.pco2_max_pa), head.push_back(e.head_pressure_pa);
+    o2.push_back(e.oxygen_fraction), gas.push_back(e.gas_flow_normal_m3_s), dmin.push_back(e.do_min_mol_m3);
+    below.push_back(e.volume_fraction_below_critical), kla.push_back(e.kla_mean_1_s);
+  }
+  h5.write("/levers/name", names);
+  h5.write("/levers/key", keys);
+  h5.write("/levers/note", notes);
+  h5.write("/levers/value_unit", units);
+  h5.attribute("/levers/value_unit", "meaning", "unit of current, limit and value (as written in the case file)");
+  h5.write("/levers/meets", found, "1");
+  h5.write("/levers/meets_already", already, "1");
+  h5.write("/levers/current", current, "see value_unit");
+  h5.write("/levers/limit", limit, "see value_unit");
+  h5.write("/levers/value", value, "see value_unit");
+  h5.write("/levers/power_gassed", pg, "W");
+  h5.write("/levers/power_per_volume", pv, "W/m3");
+  h5.write("/levers/tip_speed", tip, "m/s");
+  h5.write("/levers/flooded_impellers", flooded, "1");
+  h5.write("/levers/epsilon_max", eps, "W/kg");
+  h5.write("/levers/pco2_max", pco2, "Pa");
+  h5.write("/levers/head_pressure", head, "Pa");
+  h5.write("/levers/oxygen_fraction", o2, "1");
+  h5.write("/levers/gas_flow_normal", gas, "m3/s");
+  h5.write("/levers/do_min", dmin, "mol/m3");
+  h5.write("/levers/volume_fraction_below_critical", below, "1");
+  h5.write("/levers/kla_mean", kla, "1/s");
+  h5.write("/levers/base_do_min", s.base.do_min_mol_m3, "mol/m3");
+  h5.write("/levers/base_power_gassed", s.base.power_gassed_w, "W");
+}
+
+std::string levers_report_body(const Case& c, const LeversStudy& s) {
+  using svg::escape;
+  std::string b = "<h2>Levers: what fixes the oxygen supply, and what it costs</h2>\n<p>" +
+                  escape(s.base.feasible ? "The case meets its constraints as it is; the table shows each lever at the "
+                                           "case's own value."
+                                         : "The case does not meet its constraints. Each lever was moved alone, from the "
+                                           "case's value towards its limit, to the smallest value that meets them.") +
+                  "</p>\n<table><tr><th>lever</th><th>result</th><th>value</th><th>change</th><th>Pg [kW]</th>"
+                  "<th>P/V [kW/m3]</th><th>tip speed [m/s]</th><th>&epsilon; max [W/kg]</th><th>pCO2 max [mmHg]</th>"
+                  "<th>DO min [mmol/L]</th><th>watch</th></tr>\n";
+  std::vector<std::string> cats;
+  std::vector<double> pg, dmin;
+  for (const auto& r : s.levers) {
+    const auto& e = r.effects;
+    b += fmt::format("<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{:.4g}</td>"
+                     "<td class=\"num\">{:.3g}</td><td class=\"num\">{:.3g}</td><td class=\"num\">{:.3g}</td>"
+                     "<td class=\"num\">{:.0f}</td><td class=\"num\">{:.4f}</td><td>{}</td></tr>\n",
+                     escape(r.name), escape(status(r)), escape(value_text(r)), escape(change_text(r)),
+                     e.power_gassed_w / 1e3, e.power_per_volume_w_m3 / 1e3, e.tip_speed_m_s, e.epsilon_max_w_kg,
+                     e.pco2_max_pa / kMmHg, e.do_min_mol_m3, escape(safety(r, s.base) + r.note));
+    cats.push_back(r.name);
+    pg.push_back(e.power_gassed_w / 1e3);
+    dmin.push_back(e.do_min_mol_m3);
+  }
+  b += "</table>\n<div class=\"row\">";
+  b += svg::bar_chart("Gassed power at each lever's value", "Pg [kW]", cats, {"gassed power"}, {pg});
+  b += svg::bar_chart("DO min at each lever's value", "DO min [mmol/L]", cats, {"DO min"}, {dmin});
+  b += "</div>\n<p>Floor: " + escape(fmt::format("{:.4f} mmol/L", c.constraints.min_do_mol_m3.value_or(c.culture.critical_do_mol_m3))) +
+       ". Defer to local codes, the vessel's certification and licensed practice for pressure and oxygen service.</p>\n";
+  return b;
+}
+
+}  // namespace oxystrat

@@ -1,0 +1,143 @@
+#include "postproc/report/scale_up_output.hpp"
+
+#include <fmt/format.h>
+
+#include <fstream>
+
+#include "input/errors.hpp"
+#include "postproc/report/svg_plot.hpp"
+
+namespace oxystrat {
+namespace {
+
+constexpr double kMmHg = 133.322387415;
+
+struct Column {
+  const char* head;
+  const char* unit;
+  double (*get)(const ScaleMetrics&);
+};
+
+const Column kColumns[] = {
+    {"speed", "rpm", [](const ScaleMetrics& m) { return 60.0 * m.speed_rps; }},
+    {"gas", "vvm", [](const ScaleMetrics& m) { return m.vvm; }},
+    {"P/V", "kW/m3", [](const ScaleMetrics& m) { return m.power_per_volume_w_m3 / 1e3; }},
+    {"tip", "m/s", [](const ScaleMetrics& m) { return m.tip_speed_m_s; }},
+    {"kLa", "1/h", [](const ScaleMetrics& m) { return 3600.0 * m.kla_1_s; }},
+    {"vs", "mm/s", [](const ScaleMetrics& m) { return 1e3 * m.superficial_gas_m_s; }},
+    {"theta95", "s", [](const ScaleMetrics& m) { return m.theta95_s; }},
+    {"DO min", "mmol/L", [](const ScaleMetrics& m) { return m.do_min_mol_m3; }},
+    {"max X", "g/L", [](const ScaleMetrics& m) { return m.max_biomass_kg_m3; }},
+    {"pCO2", "mmHg", [](const ScaleMetrics& m) { return m.effects.pco2_max_pa / kMmHg; }},
+};
+
+std::string verdict(const ScaleMetrics& m) { return m.effects.feasible ? "meets" : "fails"; }
+
+std::string broken(const ScaleMetrics& m) {
+  std::string s;
+  for (const auto& c : m.effects.checks) {
+    if (!c.satisfied) s += (s.empty() ? "" : "; ") + c.detail;
+  }
+  return s;
+}
+
+}  // namespace
+
+std::string scale_up_text(const Case& pilot, const Case& production, const ScaleUpStudy& s) {
+  std::string t = fmt::format("Scale-up from {} ({:.3g} m3) to {} ({:.3g} m3)\n", pilot.title, pilot.vessel.working_volume_m3,
+                              production.title, production.vessel.working_volume_m3);
+  std::string head = fmt::format("  {:<52}", "criterion"), units = fmt::format("  {:<52}", "");
+  for (const auto& c : kColumns) head += fmt::format(" {:>8}", c.head), units += fmt::format(" {:>8}", std::string("[") + c.unit + "]");
+  t += head + "  result\n" + units + "\n";
+  const auto line = [&](const std::string& name, const ScaleMetrics& m, const std::string& result) {
+    std::string l = fmt::format("  {:<52}", name);
+    for (const auto& c : kColumns) l += fmt::format(" {:>8.4g}", c.get(m));
+    return l + "  " + result + "\n";
+  };
+  t += line("pilot", s.pilot, "");
+  for (const auto& r : s.rows) {
+    t += line(r.criterion, r.production, r.reached ? verdict(r.production) : "not reached");
+    if (!r.note.empty()) t += "      " + r.note + "\n";
+    if (r.reached && !r.production.effects.feasible) t += "      breaks: " + broken(r.production) + "\n";
+  }
+  return t;
+}
+
+void write_scale_up_csv(const std::string& path, const ScaleUpStudy& s) {
+  std::ofstream out(path, std::ios::binary);
+  out << "criterion";
+  for (const auto& c : kColumns) out << "," << c.head << " [" << c.unit << "]";
+  out << ",reached,meets constraints,breaks\n";
+  const auto row = [&](const std::string& name, const ScaleMetrics& m, bool reached, bool production) {
+    out << name;
+    for (const auto& c : kColumns) out << fmt::format(",{:.8g}", c.get(m));
+    std::string b = broken(m);
+    for (auto& ch : b) ch = ch == ',' ? ';' : ch;
+    out << "," << (reached ? "yes" : "no") << "," << (production ? (m.effects.feasible ? "yes" : "no") : "") << "," << b << "\n";
+  };
+  row("pilot", s.pilot, true, false);
+  for (const auto& r : s.rows) row(r.criterion, r.production, r.reached, true);
+  if (!out) throw IoError("cannot write " + path);
+}
+
+void write_scale_up_h5(H5Writer& h5, const ScaleUpStudy& s) {
+  std::vector<std::string> names{"pilot"};
+  std::vector<const ScaleMetrics*> rows{&s.pilot};
+  std::vector<int> reached{1}, meets{s.pilot.effects.feasible};
+  for (const auto& r : s.rows) {
+    names.push_back(r.criterion), rows.push_back(&r.production);
+    reached.push_back(r.reached), meets.push_back(r.production.effects.feasible);
+  }
+  const auto field = [&](const char* name, const char* unit, double (*get)(const ScaleMetrics&)) {
+    std::vector<double> v;
+    for (const auto* m : rows) v.push_back(get(*m));
+    h5.write(std::string("/scale_up/") + name, v, unit);
+  };
+  h5.write("/scale_up/criterion", names);
+  h5.attribute("/scale_up/criterion", "meaning", "row 0 is the pilot, row 1 the production case as written");
+  h5.write("/scale_up/reached", reached, "1");
+  h5.write("/scale_up/meets_constraints", meets, "1");
+  field("speed", "1/s", [](const ScaleMetrics& m) { return m.speed_rps; });
+  field("gas_flow_normal", "m3/s", [](const ScaleMetrics& m) { return m.gas_normal_m3_s; });
+  field("power_per_volume", "W/m3", [](const ScaleMetrics& m) { return m.power_per_volume_w_m3; });
+  field("tip_speed", "m/s", [](const ScaleMetrics& m) { return m.tip_speed_m_s; });
+  field("kla", "1/s", [](const ScaleMetrics& m) { return m.kla_1_s; });
+  field("superficial_gas_velocity", "m/s", [](const ScaleMetrics& m) { return m.superficial_gas_m_s; });
+  field("theta95", "s", [](const ScaleMetrics& m) { return m.theta95_s; });
+  field("do_min", "mol/m3", [](const ScaleMetrics& m) { return m.do_min_mol_m3; });
+  field("max_biomass", "kg/m3", [](const ScaleMetrics& m) { return m.max_biomass_kg_m3; });
+  field("pco2_max", "Pa", [](const ScaleMetrics& m) { return m.effects.pco2_max_pa; });
+  field("power_gassed", "W", [](const ScaleMetrics& m) { return m.effects.power_gassed_w; });
+}
+
+std::string scale_up_report_body(const Case& pilot, const Case& production, const ScaleUpStudy& s) {
+  using svg::escape;
+  std::string b = "<h2>Scale-up: " + escape(pilot.title) + " &rarr; " + escape(production.title) + "</h2>\n";
+  b += "<p>Each row keeps one quantity of the pilot's operating point and finds the production speed (and gas flow) "
+       "that does so; every row is then run through the zone model of the production vessel and checked against its "
+       "constraints.</p>\n<table><tr><th>criterion</th>";
+  for (const auto& c : kColumns) b += fmt::format("<th>{} [{}]</th>", escape(c.head), escape(c.unit));
+  b += "<th>result</th></tr>\n";
+  const auto line = [&](const std::string& name, const ScaleMetrics& m, const std::string& result, const std::string& note) {
+    std::string l = "<tr><td>" + escape(name) + "</td>";
+    for (const auto& c : kColumns) l += fmt::format("<td class=\"num\">{:.4g}</td>", c.get(m));
+    return l + "<td>" + escape(result) + (note.empty() ? "" : ": " + escape(note)) + "</td></tr>\n";
+  };
+  b += line("pilot", s.pilot, "", "");
+  std::vector<std::string> cats;
+  std::vector<double> dmin, pv;
+  for (const auto& r : s.rows) {
+    b += line(r.criterion, r.production, r.reached ? verdict(r.production) : "not reached",
+              r.reached ? broken(r.production) : r.note);
+    cats.push_back(r.criterion.substr(0, r.criterion.find(',')));
+    dmin.push_back(r.production.do_min_mol_m3);
+    pv.push_back(r.production.power_per_volume_w_m3 / 1e3);
+  }
+  b += "</table>\n<div class=\"row\">";
+  b += svg::bar_chart("DO min at scale, by criterion", "DO min [mmol/L]", cats, {"DO min"}, {dmin}, 640, 320);
+  b += svg::bar_chart("Gassed P/V at scale, by criterion", "P/V [kW/m3]", cats, {"P/V"}, {pv}, 640, 320);
+  b += "</div>\n";
+  return b;
+}
+
+}  // namespace oxystrat

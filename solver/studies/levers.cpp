@@ -1,0 +1,205 @@
+#include "solver/studies/levers.hpp"
+
+#include <fmt/format.h>
+#include <omp.h>
+
+#include <algorithm>
+#include <cmath>
+
+#include "physics/solubility.hpp"
+
+namespace oxystrat {
+namespace {
+
+constexpr double kG = 9.80665;
+
+// A lever: the case key it writes, the unit it is written in, and the values it may take.
+struct LeverSpec {
+  std::string name, key, unit;
+  double current = 0.0, limit = 0.0;
+  std::string reason;
+  double to_case_unit = 1.0;  // printed value x this = the number written with `unit`
+};
+
+std::vector<LeverSpec> lever_specs(const Case& c) {
+  std::vector<LeverSpec> out;
+  const double rpm = c.operation.speed_rps * 60.0;
+  double d_max = 0.0;
+  for (const auto& i : c.impellers) d_max = std::max(d_max, i.diameter_m);
+  if (c.constraints.max_tip_speed_m_s) {
+    out.push_back({"speed", "operation.speed", "rpm", rpm, *c.constraints.max_tip_speed_m_s / (M_PI * d_max) * 60.0,
+                   "the tip-speed limit of [constraints]"});
+  } else {
+    out.push_back({"speed", "operation.speed", "rpm", rpm, 2.0 * rpm, "twice the case's speed (no tip-speed limit given)"});
+  }
+  const double vvm = c.operation.gas_flow_normal_m3_s * 60.0 / c.vessel.working_volume_m3;
+  out.push_back({"gas flow", "operation.gas_flow", "vvm", vvm, std::max(vvm, 1.5),
+                 "1.5 vvm, the top of full-scale practice (Benz 2003)"});
+  const double bar = 1e5;
+  const double head = c.vessel.head_pressure_pa / bar;
+  if (c.vessel.pressure_rating_pa > 0.0) {
+    out.push_back({"head pressure", "vessel.head_pressure", "bar(a)", head, std::max(head, 0.9 * c.vessel.pressure_rating_pa / bar),
+                   "90 % of the vessel's pressure rating"});
+  } else {
+    out.push_back({"head pressure", "vessel.head_pressure", "bar(a)", head, std::max(head, 2.0),
+                   "2 bar(a) (no pressure rating given: check the vessel's certificate)"});
+  }
+  out.push_back({"O2 fraction", "operation.oxygen_fraction", "%", 100.0 * c.operation.oxygen_fraction, 100.0,
+                 "pure O2 (oxygen service of every wetted part required)"});
+  return out;
+}
+
+struct Evaluation {
+  bool ok = false;
+  std::string error;
+  LeverEffects effects;
+};
+
+Evaluation evaluate(const LoadedCase& base, const std::vector<Override>& overrides, const LeverSpec& s, double value) {
+  Evaluation e;
+  try {
+    auto o = overrides;
+    o.push_back(parse_override(fmt::format("{}=\"{:.10g} {}\"", s.key, value, s.unit)));
+    const auto loaded = read_case_text(base.source_text, base.file_name, o);
+    const auto run = run_case(loaded.data, {false, false});
+    e.effects = lever_effects(loaded.data, run);
+    e.ok = true;
+  } catch (const Error& err) {
+    e.error = err.what();
+  }
+  return e;
+}
+
+// The smallest value between the case's and the limit at which the case is feasible: a scan,
+// then bisection between the last failing and the first passing value.
+LeverResult move_lever(const LoadedCase& base, const std::vector<Override>& overrides, const LeverSpec& s,
+                       const LeverOptions& o) {
+  LeverResult r{s.name, s.key, s.unit, s.current, s.limit, s.reason};
+  if (!(s.limit > s.current)) {
+    r.value = s.current;
+    r.note = fmt::format("no room: the case is already at the limit ({})", s.reason);
+    const auto e = evaluate(base, overrides, s, s.current);
+    if (e.ok) r.effects = e.effects;
+    return r;
+  }
+  double lo = s.current, hi = s.limit;
+  Evaluation passing;
+  bool found = false;
+  for (int i = 1; i <= o.scan_points && !found; ++i) {
+    const double v = s.current + (s.limit - s.current) * i / o.scan_points;
+    const auto e = evaluate(base, overrides, s, v);
+    if (e.ok && e.effects.feasible) {
+      hi = v, passing = e, found = true;
+    } else {
+      lo = v;
+      if (!e.ok) r.note = e.error;
+      if (e.ok) passing = e;  // the last evaluated state, for the report when nothing passes
+    }
+  }
+  if (!found) {
+    r.value = s.limit;
+    r.effects = passing.effects;
+    std::string broken;
+    for (const auto& k : passing.effects.checks) {
+      if (!k.satisfied) broken += (broken.empty() ? "" : "; ") + k.detail;
+    }
+    if (r.note.empty()) r.note = "not met up to the limit: " + broken;
+    return r;
+  }
+  for (int i = 0; i < o.refine_steps; ++i) {
+    const double mid = 0.5 * (lo + hi);
+    const auto e = evaluate(base, overrides, s, mid);
+    if (e.ok && e.effects.feasible) {
+      hi = mid, passing = e;
+    } else {
+      lo = mid;
+    }
+  }
+  r.found = true;
+  r.value = hi;
+  r.effects = passing.effects;
+  return r;
+}
+
+LeverResult swap_impellers(const LoadedCase& base, const std::vector<Override>& overrides, const std::string& other) {
+  LeverResult r{"impellers", other, "", 0.0, 0.0, "the impellers of " + other};
+  try {
+    const auto o = read_case_file(other);
+    auto c = read_case_text(base.source_text, base.file_name, overrides).data;
+    if (std::abs(o.data.vessel.diameter_m - c.vessel.diameter_m) > 1e-6 * c.vessel.diameter_m) {
+      r.note = fmt::format("{} describes a vessel of {:.3g} m, not {:.3g} m: its impellers do not fit", other,
+                           o.data.vessel.diameter_m, c.vessel.diameter_m);
+      return r;
+    }
+    c.impellers = o.data.impellers;
+    const auto run = run_case(c, {false, false});
+    r.effects = lever_effects(c, run);
+    r.found = r.effects.feasible;
+    if (!r.found) r.note = "the other impellers alone do not meet the constraints";
+  } catch (const Error& e) {
+    r.note = e.what();
+  }
+  return r;
+}
+
+}  // namespace
+
+LeverEffects lever_effects(const Case& c, const CaseRun& run) {
+  LeverEffects e;
+  const auto& h = run.hydro;
+  e.power_gassed_w = h.power_gassed_w;
+  e.power_per_volume_w_m3 = h.power_gassed_w / c.vessel.working_volume_m3;
+  for (const auto& i : h.impellers) {
+    e.tip_speed_m_s = std::max(e.tip_speed_m_s, i.tip_speed_m_s);
+    e.flooded_impellers += i.regime == GasRegime::flooded ? 1 : 0;
+  }
+  for (double eps : h.epsilon) e.epsilon_max_w_kg = std::max(e.epsilon_max_w_kg, eps);
+  e.head_pressure_pa = c.vessel.head_pressure_pa;
+  e.bottom_pressure_pa = c.vessel.head_pressure_pa + c.broth.density_kg_m3 * kG * c.vessel.liquid_height_m;
+  e.oxygen_fraction = c.operation.oxygen_fraction;
+  e.gas_flow_normal_m3_s = c.operation.gas_flow_normal_m3_s;
+  if (run.field) {
+    e.pco2_max_pa = run.field->pco2_max_pa;
+    e.do_min_mol_m3 = run.field->do_min;
+    e.volume_fraction_below_critical = run.field->volume_fraction_below_critical;
+    e.kla_mean_1_s = run.field->kla_mean_1_s;
+  }
+  e.checks = check_constraints(c, run);
+  e.feasible = feasible(e.checks);
+  e.cautions = run.cautions;
+  return e;
+}
+
+LeversStudy study_levers(const LoadedCase& loaded, const std::vector<Override>& overrides, const LeverOptions& o) {
+  LeversStudy s;
+  const Case& c = loaded.data;
+  s.base = lever_effects(c, run_case(c, {false, false}));
+  const auto specs = lever_specs(c);
+  const int count = static_cast<int>(specs.size()) + (o.impeller_case.empty() ? 0 : 1);
+  s.levers.resize(count);
+  const int threads = o.threads > 0 ? o.threads : omp_get_max_threads();
+#pragma omp parallel for schedule(dynamic, 1) num_threads(threads)
+  for (int i = 0; i < count; ++i) {
+    if (i < static_cast<int>(specs.size())) {
+      if (s.base.feasible) {
+        LeverResult r{specs[i].name, specs[i].key, specs[i].unit, specs[i].current, specs[i].limit, specs[i].reason};
+        r.already = r.found = true;
+        r.value = specs[i].current;
+        r.effects = s.base;
+        s.levers[i] = r;
+      } else {
+        s.levers[i] = move_lever(loaded, overrides, specs[i], o);
+      }
+    } else {
+      s.levers[i] = swap_impellers(loaded, overrides, o.impeller_case);
+    }
+  }
+  // Ranked: the levers that work first, the cheapest in added gassed power first.
+  std::stable_sort(s.levers.begin(), s.levers.end(), [](const LeverResult& a, const LeverResult& b) {
+    if (a.found != b.found) return a.found;
+    return a.effects.power_gassed_w < b.effects.power_gassed_w;
+  });
+  return s;
+}
+
+}  // namespace oxystrat
