@@ -16,6 +16,9 @@
 #include "postproc/io/network_output.hpp"
 #include "postproc/io/run_folder.hpp"
 #include "postproc/report/text_summary.hpp"
+#include "postproc/report/verdict_output.hpp"
+#include "solver/studies/levers.hpp"
+#include "solver/studies/verdict.hpp"
 #include "postproc/io/vtk_writer.hpp"
 #include "mesh/zone_network.hpp"
 
@@ -27,6 +30,7 @@ struct RunOptions {
   int uncertainty = 0;
   std::uint64_t seed = 1;
   bool grid_check = false;
+  bool no_levers = false;
 };
 
 void add_run_command(CLI::App& app) {
@@ -39,6 +43,7 @@ void add_run_command(CLI::App& app) {
       ->check(CLI::Range(0, 100000));
   cmd->add_option("--seed", opts->seed, "Seed of the uncertainty samples");
   cmd->add_flag("--grid-check", opts->grid_check, "Also run two coarser grids: observed order and GCI");
+  cmd->add_flag("--no-levers", opts->no_levers, "When the case fails, do not search the levers that would fix it");
   cmd->callback([opts] {
     const auto loaded = load_case(opts->case_opts);
     const Case& c = loaded.data;
@@ -47,6 +52,13 @@ void add_run_command(CLI::App& app) {
     const auto& net = run.net;
     const auto& hydro = run.hydro;
     const double theta = tracer_mixing_time(net, hydro, {}).theta_s;
+    auto verdict = make_verdict(c, run);
+    if (!verdict.meets && run.field && !opts->no_levers) {
+      std::vector<Override> overrides;
+      for (const auto& s : opts->case_opts.sets) overrides.push_back(parse_override(s));
+      verdict.advice = lever_advice(study_levers(loaded, overrides, {}));
+    }
+    fmt::print("{}", verdict_text(c, verdict));
     fmt::print("{}", geometry_summary(loaded, net));
     fmt::print("{}", power_table(c, hydro));
     fmt::print("Mixing  theta95 = {:.4g} s (whole vessel{}; `oxystrat mixing` for the tracer history)\n", theta,
@@ -82,7 +94,7 @@ void add_run_command(CLI::App& app) {
     for (auto& a : hydrodynamics_cell_arrays(hydro)) arrays.push_back(std::move(a));
     for (auto& a : oxygen_cell_arrays(run)) arrays.push_back(std::move(a));
     write_profile_csv(folder.file("profile.csv").string(), run);
-    std::string body = run_report_body(c, run, theta);
+    std::string body = run_report_body(c, run, theta, &verdict);
     if (unc) {
       write_uncertainty_csv(folder.file("uncertainty.csv").string(), *unc);
       body += uncertainty_html(*unc, c.culture.critical_do_mol_m3);

@@ -7,6 +7,8 @@
 #include <stdexcept>
 
 #include "postproc/report/svg_plot.hpp"
+#include "postproc/report/verdict_output.hpp"
+#include "solver/studies/verdict.hpp"
 #include "input/errors.hpp"
 
 namespace oxystrat {
@@ -55,8 +57,9 @@ void write_text_file(const std::string& path, const std::string& text) {
   if (!out) throw IoError("cannot write " + path);
 }
 
-std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s) {
-  std::string s = "<h2>" + escape(c.title) + "</h2>\n<div class=\"row\"><div>\n<h3>Summary</h3>\n";
+std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s, const Verdict* verdict) {
+  std::string s = "<h2>" + escape(c.title) + "</h2>\n" + verdict_html(c, verdict ? *verdict : make_verdict(c, run)) +
+                  "<div class=\"row\"><div>\n<h3>Summary</h3>\n";
   s += values_table(summary_values(c, run, theta95_s));
   s += "</div><div>\n<h3>Cautions</h3>\n" + list(run.cautions, "None apply.");
   s += "<h3>Notes</h3>\n" + list(run.notes, "None.") + "</div></div>\n";

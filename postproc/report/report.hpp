@@ -9,12 +9,15 @@
 #include "input/case_reader.hpp"
 #include "solver/oxygen/case_run.hpp"
 #include "solver/studies/sweep.hpp"
+#include "solver/studies/verdict.hpp"
 
 namespace oxystrat {
 
 //! One case's figures and tables: summary, DO profile with critical DO, zone map, C* and kLa
 //! profiles, cautions.
-std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s);
+//! `verdict` (optional) is shown first; without it the report makes its own.
+std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s,
+                            const Verdict* verdict = nullptr);
 
 //! A complete page: title, the body, then (for zone-model reports) the method and references.
 std::string report_page(const std::string& title, const std::string& body, bool zone_model_method = true);

@@ -1,0 +1,68 @@
+#include "postproc/report/verdict_output.hpp"
+
+#include <fmt/format.h>
+
+#include "physics/solubility.hpp"
+#include "postproc/report/svg_plot.hpp"
+#include "solver/flow/hydrodynamics.hpp"
+
+namespace oxystrat {
+namespace {
+
+constexpr double kG = 9.80665;
+constexpr double kR = 8.314462618;
+
+// Actual volume flow of the wet gas at the sparger's pressure and the broth temperature [m3/s].
+double sparger_actual_flow(const Case& c) {
+  const double t = c.vessel.temperature_k;
+  const double p = c.vessel.head_pressure_pa + c.broth.density_kg_m3 * kG * (c.vessel.liquid_height_m - c.sparger.elevation_m);
+  return c.operation.gas_flow_normal_m3_s / normal_molar_volume * kR * t / (p - physics::water_vapour_pressure(t));
+}
+
+std::string impellers_text(const Case& c) {
+  std::string s;
+  for (const auto& i : c.impellers) {
+    s += fmt::format("{}{} D {:.3g} m at {:.3g} m", s.empty() ? "" : ", ", to_string(i.type), i.diameter_m, i.elevation_m);
+  }
+  return s;
+}
+
+}  // namespace
+
+std::string operating_point_text(const Case& c) {
+  const auto& o = c.operation;
+  const double vvm = 60.0 * o.gas_flow_normal_m3_s / c.vessel.working_volume_m3;
+  std::string s = fmt::format("  speed {:.4g} rpm; gas {:.3g} vvm = {:.4g} Nm3/h", 60.0 * o.speed_rps, vvm, 3600.0 * o.gas_flow_normal_m3_s);
+  if (c.has_sparger) s += fmt::format(" = {:.4g} m3/h actual at the sparger", 3600.0 * sparger_actual_flow(c));
+  s += fmt::format("; O2 {:.3g} %; head pressure {:.4g} bar(a)\n", 100.0 * o.oxygen_fraction, c.vessel.head_pressure_pa / 1e5);
+  s += fmt::format("  {:.3g} m3 in a {:.3g} m vessel, H/T {:.3g}; impellers (bottom up): {}\n", c.vessel.working_volume_m3,
+                   c.vessel.diameter_m, c.vessel.liquid_height_m / c.vessel.diameter_m, impellers_text(c));
+  s += fmt::format("  biomass {:.3g} g/L at q_O2,max {:.3g} mmol/(g h): uptake up to {:.3g} mmol/(L h)\n", c.culture.biomass_kg_m3,
+                   3600.0 * c.culture.q_o2_max_mol_kg_s, 3600.0 * c.culture.biomass_kg_m3 * c.culture.q_o2_max_mol_kg_s);
+  return s;
+}
+
+std::string verdict_text(const Case& c, const Verdict& v) {
+  std::string s = "Verdict  " + v.headline + "\n";
+  s += "  " + v.advice + "\n";
+  s += "Operating point\n" + operating_point_text(c);
+  s += "Constraints\n";
+  for (const auto& k : v.checks) s += fmt::format("  [{}] {}: {}\n", k.satisfied ? "ok  " : "FAIL", k.name, k.detail);
+  return s;
+}
+
+std::string verdict_html(const Case& c, const Verdict& v) {
+  using svg::escape;
+  std::string s = fmt::format("<div style=\"border-left:6px solid {};padding:4px 12px;margin:8px 0;background:#f7f7f7\">"
+                              "<p style=\"font-size:17px;margin:6px 0\"><b>{}</b></p><p>{}</p></div>\n",
+                              v.meets ? "#2ca02c" : "#d62728", escape(v.headline), escape(v.advice));
+  s += "<h3>Operating point</h3>\n<pre>" + escape(operating_point_text(c)) + "</pre>\n";
+  s += "<h3>Constraints</h3>\n<table><tr><th>constraint</th><th>status</th><th>detail</th></tr>\n";
+  for (const auto& k : v.checks) {
+    s += fmt::format("<tr><td>{}</td><td>{}</td><td>{}</td></tr>\n", escape(k.name), k.satisfied ? "met" : "<b>FAILS</b>",
+                     escape(k.detail));
+  }
+  return s + "</table>\n";
+}
+
+}  // namespace oxystrat

@@ -1,0 +1,18 @@
+// The verdict and the operating point, first in the terminal and in the report.
+#pragma once
+
+#include <string>
+
+#include "input/case.hpp"
+#include "solver/oxygen/case_run.hpp"
+#include "solver/studies/verdict.hpp"
+
+namespace oxystrat {
+
+//! The operating point as an engineer states it: speed, gas in vvm, Nm3/h and actual m3/h at the
+//! sparger, O2 fraction, head pressure, impellers, biomass.
+std::string operating_point_text(const Case& c);
+std::string verdict_text(const Case& c, const Verdict& v);
+std::string verdict_html(const Case& c, const Verdict& v);
+
+}  // namespace oxystrat
