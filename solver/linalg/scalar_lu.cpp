@@ -9,6 +9,30 @@
 namespace oxystrat {
 
 
+bool ScalarLu::has_pattern(const Eigen::SparseMatrix<double>& a) const {
+  const auto n = static_cast<int>(a.rows());
+  return n == n_ && pattern_outer_.size() == n + 1 && pattern_inner_.size() == a.nonZeros() &&
+         std::equal(a.outerIndexPtr(), a.outerIndexPtr() + n + 1, pattern_outer_.data()) &&
+         std::equal(a.innerIndexPtr(), a.innerIndexPtr() + a.nonZeros(), pattern_inner_.data());
+}
+
+void ScalarLu::adopt_symbolic(const ScalarLu& other) {
+  if (other.supernodal_ || !other.symbolic_) return;
+  supernodal_ = false;
+  n_ = other.n_;
+  perm_ = other.perm_;
+  pattern_outer_ = other.pattern_outer_;
+  pattern_inner_ = other.pattern_inner_;
+  l_start_ = other.l_start_, l_row_ = other.l_row_, u_start_ = other.u_start_, u_row_ = other.u_row_;
+  l_val_.resize(other.l_val_.size()), u_val_.resize(other.u_val_.size()), diag_.resize(other.diag_.size());
+  work_.assign(n_, 0.0);
+  mark_.assign(n_, -1);
+  next_.assign(n_, 0);
+  stack_.resize(n_);
+  reach_.resize(n_);
+  symbolic_ = true;
+}
+
 bool ScalarLu::factorize(const Eigen::SparseMatrix<double>& a, int supernodal_from) {
   const int n = static_cast<int>(a.rows());
   supernodal_ = n >= supernodal_from;

@@ -25,6 +25,11 @@ class ScalarLu {
   //! Eigen's supernodal SparseLU (SolverOptions::supernodal_lu_from).
   bool factorize(const Eigen::SparseMatrix<double>& a, int supernodal_from = SolverOptions{}.supernodal_lu_from);
   void solve(Eigen::VectorXd& x) const;                   //!< in place
+  //! The last factorisation was of a matrix with a's pattern (its ordering applies to a).
+  bool has_pattern(const Eigen::SparseMatrix<double>& a) const;
+  //! Takes over the ordering and symbolic factors of `other` (plain columns), so that the next
+  //! factorize() of a matrix with its pattern is numeric only.
+  void adopt_symbolic(const ScalarLu& other);
   long nonzeros() const {
     return supernodal_ ? static_cast<long>(big_.nnzL() + big_.nnzU())
                        : static_cast<long>(l_val_.size() + u_val_.size() + diag_.size());

@@ -208,6 +208,10 @@ bool ZoneBlockSolver::refresh_preconditioner() {
       p_[l] = m_[l];
       p_[g] = m_[g];
       for (int k = 0; k < n_; ++k) p_[g].coeffRef(k, k) -= shift[k];
+      // The CO2 blocks have the O2 blocks' patterns: their orderings and symbolic factors are
+      // taken over rather than found again.
+      if (pair == 1 && !lu_[l].has_pattern(p_[l]) && lu_[0].has_pattern(p_[l])) lu_[l].adopt_symbolic(lu_[0]);
+      if (pair == 1 && !lu_[g].has_pattern(p_[g]) && lu_[2].has_pattern(p_[g])) lu_[g].adopt_symbolic(lu_[2]);
       if (!lu_[l].factorize(p_[l], options_.supernodal_lu_from) || !lu_[g].factorize(p_[g], options_.supernodal_lu_from)) {
         return false;
       }
@@ -226,26 +230,32 @@ void ZoneBlockSolver::block_solve(int s, Eigen::VectorXd& x) const {
   }
 }
 
+// out = J x, straight on the interleaved vectors: each species' block by columns, then the
+// zone-local couplings.
 void ZoneBlockSolver::multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) const {
-  out.resize(kS * n_);
-  Eigen::VectorXd in(n_), prod;
+  out.setZero(kS * n_);
   for (int s = 0; s < kS; ++s) {
-    for (int k = 0; k < n_; ++k) in[k] = x[kS * k + s];
-    prod.noalias() = m_[s] * in;
-    for (int k = 0; k < n_; ++k) out[kS * k + s] = prod[k];
+    const auto& m = m_[s];
+    const int* outer = m.outerIndexPtr();
+    const int* inner = m.innerIndexPtr();
+    const double* val = m.valuePtr();
+    for (int col = 0; col < n_; ++col) {
+      const double xc = x[kS * col + s];
+      for (int e = outer[col]; e < outer[col + 1]; ++e) out[kS * inner[e] + s] += val[e] * xc;
+    }
   }
 #pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
   for (int k = 0; k < n_; ++k) {
     const Local& c = local_[k];
+    const double* xk = x.data() + kS * k;
     for (int si = 0; si < kS; ++si) {
-      double sum = 0.0;
-      for (int sj = 0; sj < kS; ++sj) sum += c[kS * si + sj] * x[kS * k + sj];  // diagonal entries are 0 here
-      out[kS * k + si] += sum;
+      const double* row = c.data() + kS * si;  // its diagonal entry is 0: the blocks hold it
+      out[kS * k + si] += ((row[0] * xk[0] + row[1] * xk[1]) + (row[2] * xk[2] + row[3] * xk[3]));
     }
   }
 }
 
-// Block Gauss-Seidel over the two species pairs, block LU within a pair (see the header).
+// Block Gauss-Seidel over the two species pairs, block lower-triangular within a pair (header).
 void ZoneBlockSolver::precondition(const Eigen::VectorXf& v, Eigen::VectorXf& out) {
   const int n = n_;
   std::array<Eigen::VectorXd, kS>& x = s_;
@@ -264,13 +274,11 @@ void ZoneBlockSolver::precondition(const Eigen::VectorXf& v, Eigen::VectorXf& ou
         bg[k] -= c[kS * g + 0] * x[0][k] + c[kS * g + 2] * x[2][k];
       }
     }
-    y = bl;
-    block_solve(l, y);
-    for (int k = 0; k < n; ++k) t[k] = bg[k] - p_local_[k][kS * g + l] * y[k];
+    x[l] = bl;
+    block_solve(l, x[l]);
+    for (int k = 0; k < n; ++k) t[k] = bg[k] - p_local_[k][kS * g + l] * x[l][k];
     block_solve(g, t);
     x[g] = t;
-    for (int k = 0; k < n; ++k) x[l][k] = bl[k] - p_local_[k][kS * l + g] * t[k];
-    block_solve(l, x[l]);
   }
   out.resize(kS * n);
   for (int k = 0; k < n; ++k) {

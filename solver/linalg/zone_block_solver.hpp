@@ -9,9 +9,10 @@
 // The whole system is solved by flexible GMRES (solver/linalg/fgmres.hpp), right-preconditioned
 // by a block factorisation per species pair (liquid O2 with gas O2, then liquid CO2 with gas CO2,
 // block Gauss-Seidel between the pairs): with A the liquid block, G the gas block and B, C the
-// zone-local couplings, P = [A B; C G] is inverted as y = A^-1 b_l, x_g = S^-1 (b_g - C y),
-// x_l = A^-1 (b_l - B x_g), where S = G - C diag(A)^-1 B is the gas block's zone-local Schur
-// complement. A and S are scalar transport-like blocks: one exact sparse LU each (ScalarLu) on
+// zone-local couplings of J = [A B; C G], the preconditioner is P = [A 0; C S] with
+// S = G - C diag(A)^-1 B, the gas block's zone-local Schur complement: x_l = A^-1 b_l,
+// x_g = S^-1 (b_g - C x_l). (The full block LU, with a second A^-1 solve, took more time and no
+// fewer Krylov iterations on the bundled cases.) A and S are scalar transport-like blocks: one exact sparse LU each (ScalarLu) on
 // small and mid-sized networks, aggregation multigrid (ScalarMultigrid) on large ones. The
 // factorisations are kept from one Newton step to the next and refreshed when the Krylov count
 // shows they have drifted.
