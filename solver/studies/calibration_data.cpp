@@ -11,6 +11,7 @@
 #include "input/csv_table.hpp"
 #include "input/numbers.hpp"
 #include "input/units.hpp"
+#include "solver/fit/do_trace.hpp"
 #include "solver/fit/kla_fit.hpp"
 
 namespace oxystrat {
