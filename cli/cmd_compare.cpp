@@ -7,20 +7,18 @@
 #include "cli/common.hpp"
 #include "postproc/io/h5_writer.hpp"
 #include "postproc/report/hydro_output.hpp"
-#include "solver/flow/mixing_time.hpp"
 #include "postproc/io/network_output.hpp"
 #include "postproc/report/oxygen_output.hpp"
 #include "postproc/io/progress.hpp"
 #include "postproc/report/report.hpp"
 #include "postproc/io/run_folder.hpp"
-#include "solver/oxygen/summary_values.hpp"
-#include "solver/studies/sweep.hpp"
+#include "solver/studies/compare.hpp"
 #include "postproc/report/table_output.hpp"
 
 namespace oxystrat::cli {
 namespace {
 
-struct CompareOptions {
+struct CompareCommandOptions {
   std::vector<std::string> cases;
   std::vector<std::string> sets;
   OutputOptions out;
@@ -46,7 +44,7 @@ std::vector<std::string> case_names(const std::vector<std::string>& paths) {
 
 void add_compare_command(CLI::App& app) {
   auto* cmd = app.add_subcommand("compare", "Run several cases and put them side by side (table, CSV, HDF5, report)");
-  auto o = std::make_shared<CompareOptions>();
+  auto o = std::make_shared<CompareCommandOptions>();
   cmd->add_option("CASES", o->cases, "Case files (TOML), two or more")->required()->expected(1, -1)->check(CLI::ExistingFile);
   cmd->add_option("--set", o->sets, "Override a key in every case, KEY=VALUE (repeatable)")->take_all()->allow_extra_args(false);
   add_output_options(*cmd, o->out);
@@ -59,30 +57,24 @@ void add_compare_command(CLI::App& app) {
     for (const auto& path : o->cases) loaded.push_back(load_case({path, o->sets}));
     RunFolder folder(o->out.out_dir, o->out.force);
     const auto names = case_names(o->cases);
-    std::vector<CaseRun> runs(loaded.size());
-    std::vector<double> theta(loaded.size(), 0.0);
     Progress progress(loaded.size(), "cases");
-    // Cases are independent: run them in parallel; results land by index.
-#pragma omp parallel for schedule(dynamic, 1)
-    for (long i = 0; i < static_cast<long>(loaded.size()); ++i) {
-      runs[i] = run_case(loaded[i].data);
-      if (!o->no_mixing) theta[i] = tracer_mixing_time(runs[i].net, runs[i].hydro, {}).theta_s;
-#pragma omp critical(oxystrat_progress)
-      progress.step();
-    }
+    CaseComparisonOptions co;
+    co.with_mixing = !o->no_mixing;
+    co.uncertainty_samples = o->uncertainty;
+    co.seed = o->seed;
+    co.on_case_done = [&progress] { progress.step(); };
+    const auto runs = compare_cases(loaded, co);
     std::vector<std::vector<SummaryValue>> values;
     std::vector<ComparedCase> compared;
     std::vector<bool> feasible_flags;
     for (size_t i = 0; i < loaded.size(); ++i) {
-      values.push_back(summary_values(loaded[i].data, runs[i], o->no_mixing ? std::nullopt : std::optional<double>(theta[i])));
-      if (o->uncertainty > 0) append_uncertainty_values(loaded[i].data, o->uncertainty, o->seed, !o->no_mixing, values.back());
-      const auto checks = check_constraints(loaded[i].data, runs[i]);
-      feasible_flags.push_back(feasible(checks));
-      compared.push_back({names[i], &loaded[i].data, &runs[i], values.back(), checks});
+      values.push_back(runs[i].values);
+      feasible_flags.push_back(runs[i].feasible);
+      compared.push_back({names[i], &loaded[i].data, &runs[i].run, runs[i].values, runs[i].checks});
     }
     fmt::print("{}", compare_text(names, values, feasible_flags));
     for (size_t i = 0; i < loaded.size(); ++i) {
-      for (const auto& w : runs[i].cautions) fmt::print("caution ({}): {}\n", names[i], w);
+      for (const auto& w : runs[i].run.cautions) fmt::print("caution ({}): {}\n", names[i], w);
     }
     {
       H5Writer h5(folder.file("result.h5").string());
@@ -90,9 +82,9 @@ void add_compare_command(CLI::App& app) {
       for (size_t i = 0; i < loaded.size(); ++i) {
         h5.set_prefix("/cases/" + names[i]);
         write_case_h5(h5, loaded[i]);
-        write_network_h5(h5, runs[i].net);
-        write_hydrodynamics_h5(h5, loaded[i].data, runs[i].hydro);
-        write_oxygen_h5(h5, loaded[i].data, runs[i]);
+        write_network_h5(h5, runs[i].run.net);
+        write_hydrodynamics_h5(h5, loaded[i].data, runs[i].run.hydro);
+        write_oxygen_h5(h5, loaded[i].data, runs[i].run);
       }
       h5.set_prefix("");
       h5.close();
@@ -100,7 +92,7 @@ void add_compare_command(CLI::App& app) {
     write_compare_csv(folder.file("compare.csv").string(), names, values);
     std::string body = compare_report_body(compared);
     for (size_t i = 0; i < loaded.size(); ++i) {
-      body += run_report_body(loaded[i].data, runs[i], o->no_mixing ? std::nullopt : std::optional<double>(theta[i]));
+      body += run_report_body(loaded[i].data, runs[i].run, runs[i].theta95_s);
     }
     write_text_file(folder.file("report.html").string(), report_page("oxystrat: comparison", body));
     folder.commit();

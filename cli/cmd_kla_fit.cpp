@@ -8,6 +8,7 @@
 #include "input/units.hpp"
 #include "cli/common.hpp"
 #include "postproc/io/h5_writer.hpp"
+#include "solver/fit/do_trace.hpp"
 #include "solver/fit/kla_fit.hpp"
 #include "postproc/report/kla_fit_output.hpp"
 #include "postproc/report/report.hpp"

@@ -6,6 +6,7 @@
 #include <string>
 
 #include "postproc/io/h5_writer.hpp"
+#include "solver/fit/do_trace.hpp"
 #include "solver/fit/kla_fit.hpp"
 
 namespace oxystrat {

@@ -151,6 +151,25 @@ std::string lifeline_text(const LifelineResult& r, double critical) {
   return s + regime_text(r.regimes);
 }
 
+std::string lifeline_study_text(const Case& c, const LifelineStudy& s) {
+  std::string out;
+  if (s.frozen_at_s) {
+    out += fmt::format("Frozen at t = {:.4g} h of the transient: speed {:.4g} rpm, gas {:.4g} Nm3/h, O2 {:.1f} %\n",
+                       *s.frozen_at_s / 3600.0, 60 * s.at.operation.speed_rps, 3600 * s.at.operation.gas_flow_normal_m3_s,
+                       100 * s.at.operation.oxygen_fraction);
+    if (s.result.field("substrate") == nullptr) {
+      out += "Note: the culture does not grow (no culture.growth_rate_max): no substrate field\n";
+    }
+  } else if (!s.run.field) {
+    out += "Note: no gas, no DO field: residence statistics only\n";
+  }
+  out += fmt::format("{}\n{}", c.title, lifeline_text(s.result, c.culture.critical_do_mol_m3));
+  if (!s.frozen_at_s && c.feed.enabled) {
+    out += "  substrate along the paths: add --after T to follow the cells through a fed transient\n";
+  }
+  return out;
+}
+
 void write_lifelines_h5(H5Writer& h5, const LifelineResult& r, const LifelineOptions& o,
                         const LifelineRegimes& regimes) {
   h5.write("/lifelines/cells", std::vector<int>{o.cells}, "1");

@@ -5,6 +5,7 @@
 
 #include "postproc/io/h5_writer.hpp"
 #include "solver/studies/lifelines.hpp"
+#include "solver/studies/lifelines_study.hpp"
 #include "mesh/zone_network.hpp"
 
 namespace oxystrat {
@@ -12,6 +13,10 @@ namespace oxystrat {
 //! Terminal text: the DO lines as before (critical DO in mol/m3 = mmol/L), then every other field,
 //! the long excursions and the regime passages.
 std::string lifeline_text(const LifelineResult& r, double critical_do_mol_m3);
+//! Terminal text of `oxystrat lifelines`: where the fields came from (the frozen transient's
+//! operating point, or what is missing), the case title, lifeline_text, and for a fed case
+//! followed through the steady field how to follow the substrate.
+std::string lifeline_study_text(const Case& c, const LifelineStudy& s);
 //! /lifelines/...: the former datasets (DO from the field "do"; zeros and empty without it), then
 //! /lifelines/fields/NAME/... for every field and /lifelines/regimes/... (docs/outputs.md, "lifelines").
 void write_lifelines_h5(H5Writer& h5, const LifelineResult& r, const LifelineOptions& o,

@@ -7,197 +7,19 @@
 #include <memory>
 
 #include "solver/oxygen/culture_growth.hpp"
-#include "solver/flow/gas_routing.hpp"
-#include "solver/flow/hydrodynamics.hpp"
+#include "solver/oxygen/do_control.hpp"
 #include "solver/oxygen/oxygen_field.hpp"
-#include "physics/solubility.hpp"
+#include "solver/oxygen/transient_step.hpp"
 
 namespace oxystrat {
-namespace {
 
-// One implicit Euler step: the liquid rows gain -V (x - x_old) / h, the gas rows stay algebraic.
-class EulerStep : public SteadyProblem {
- public:
-  EulerStep(const OxygenProblem& p, const ZoneNetwork& net, const Eigen::VectorXd& old, double h)
-      : p_(p), net_(net), old_(old), h_(h) {
-    // Zero for a residual is also small against the storage term V C / h: with short steps that
-    // term dwarfs the O2 fed, and its round-off alone would stay above 1e-12 of the feed.
-    double storage = 0.0;
-    for (int k = 0; k < net.size(); ++k) storage += net.volume[k] * (std::abs(old[4 * k]) + std::abs(old[4 * k + 1])) / h;
-    scale_ = std::max(p.residual_scale(), 1e-3 * storage);
-  }
-  int size() const override { return p_.size(); }
-  void residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const override {
-    p_.residual(x, r);
-    for (int k = 0; k < net_.size(); ++k) {
-      r[4 * k] -= net_.volume[k] * (x[4 * k] - old_[4 * k]) / h_;
-      r[4 * k + 1] -= net_.volume[k] * (x[4 * k + 1] - old_[4 * k + 1]) / h_;
-    }
-  }
-  void jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const override {
-    jacobian_zones(x, 0, net_.size(), t);
-  }
-  bool jacobian_zones(const Eigen::VectorXd& x, int zone_begin, int zone_end,
-                      std::vector<Eigen::Triplet<double>>& t) const override {
-    for (int k = zone_begin; k < zone_end; ++k) {  // zone by zone, so that any split lists the same
-      p_.jacobian_zones(x, k, k + 1, t);
-      t.emplace_back(4 * k, 4 * k, -net_.volume[k] / h_);
-      t.emplace_back(4 * k + 1, 4 * k + 1, -net_.volume[k] / h_);
-    }
-    return true;
-  }
-  double residual_scale() const override { return scale_; }
-  //! Same unknowns and gas routing as the steady problem: the structured solve applies.
-  ZoneLayout zone_layout() const override { return p_.zone_layout(); }
-
- private:
-  const OxygenProblem& p_;
-  const ZoneNetwork& net_;
-  const Eigen::VectorXd& old_;
-  double h_, scale_ = 0.0;
-};
-
-// The vessel at one operating point; rebuilt when speed, gas or an event changes it. The grid
-// depends on geometry only, so states carry over zone by zone.
-struct Plant {
-  Case c;
-  ZoneNetwork net;
-  Hydrodynamics hydro;
-  GasRouting routing;
-  std::unique_ptr<OxygenContext> ctx;
-  std::unique_ptr<OxygenSetup> setup;
-  NewtonWorkspace o2_workspace, culture_workspace;
-  explicit Plant(const Case& cs)
-      : c(cs), net(build_zone_geometry(c)), hydro(compute_hydrodynamics(c, net)), routing(route_gas(c, net, hydro)) {
-    ctx = std::make_unique<OxygenContext>(OxygenContext{c, net, hydro, routing});
-    setup = std::make_unique<OxygenSetup>(*ctx, -1.0);
-  }
-};
-
-// Gas of one species (2: O2, 3: CO2) leaving through the head space [mol/s].
-double offgas(const Plant& p, const Eigen::VectorXd& x, int species) {
-  std::vector<double> g(p.net.size());
-  for (int k = 0; k < p.net.size(); ++k) g[k] = x[4 * k + species];
-  return surface_flow(p.routing, g);
-}
-
-// The whole state of the broth: O2/CO2 (solver layout) and, for a growing culture, substrate and
-// biomass per zone.
-struct BrothState {
-  Eigen::VectorXd x;
-  std::vector<double> substrate, biomass;
-};
-
-// O2 uptake of a growing culture: per-zone multipliers of a reference rate.
-Uptake culture_uptake(const Uptake& base, const GrowthKinetics& g, const BrothState& b, double biomass_ref) {
-  Uptake u = base;
-  if (b.biomass.empty()) return u;
-  const double q_ref = std::max(g.o2_uptake_capacity(1e300), 1e-300);
-  u.rate_mol_m3_s = q_ref * biomass_ref;
-  u.zone_scale.resize(b.biomass.size());
-  for (size_t k = 0; k < b.biomass.size(); ++k) {
-    u.zone_scale[k] = b.biomass[k] * g.o2_uptake_capacity(b.substrate[k]) / (q_ref * biomass_ref);
-  }
-  return u;
-}
-
-// What one step did, for the balances.
-struct StepFlows {
-  bool converged = false;
-  int newton = 0;
-  double o2_in = 0.0, o2_out = 0.0, o2_uptake = 0.0, co2_in = 0.0, co2_out = 0.0;  // [mol/s]
-  double substrate_fed = 0.0, substrate_consumed = 0.0, biomass_grown = 0.0;       // [kg] over the step
-  Uptake uptake;
-};
-
-// Advances `b` by h (operator splitting: O2/CO2 at the old culture, then substrate and biomass at the new DO).
-StepFlows advance(Plant& p, const Case& c, BrothState& b, double h, double feed_volume_m3, int feed_zone,
-                  double biomass_ref) {
-  StepFlows f;
-  auto& s = *p.setup;
-  s.update(b.x);
-  const GrowthKinetics g(c.culture);
-  f.uptake = culture_uptake(s.uptake, g, b, biomass_ref);
-  const OxygenProblem problem(p.net, p.routing, s.transport, s.coeff, f.uptake, s.inlet_o2_mol_s, s.inlet_co2_mol_s);
-  const Eigen::VectorXd old = b.x;
-  const EulerStep step(problem, p.net, old, h);
-  const auto rep = solve_newton(step, b.x, {}, &p.o2_workspace);
-  f.newton += rep.iterations;
-  if (!rep.converged) return f;
-  const int n = p.net.size();
-  f.o2_in = s.inlet_o2_mol_s;
-  f.co2_in = s.inlet_co2_mol_s;
-  f.o2_out = offgas(p, b.x, 2);
-  f.co2_out = offgas(p, b.x, 3);
-  for (int k = 0; k < n; ++k) f.o2_uptake += f.uptake.our(b.x[4 * k]) * f.uptake.scale(k) * p.net.volume[k];
-  if (b.biomass.empty()) {
-    f.converged = true;
-    return f;
-  }
-  // Substrate and biomass together, at the DO of the new level.
-  std::vector<double> feed(n, 0.0), c_new(n);
-  if (feed_zone >= 0) feed[feed_zone] = c.feed.concentration_kg_m3 * feed_volume_m3 / h;
-  for (int k = 0; k < n; ++k) c_new[k] = b.x[4 * k];
-  Eigen::VectorXd sx_old(2 * n);
-  for (int k = 0; k < n; ++k) sx_old[2 * k] = b.substrate[k], sx_old[2 * k + 1] = b.biomass[k];
-  const CultureStep culture(p.net, s.transport, g, c_new, sx_old, feed, h);
-  Eigen::VectorXd sx = sx_old;
-  const auto rc = solve_newton(culture, sx, {}, &p.culture_workspace);
-  f.newton += rc.iterations;
-  if (!rc.converged) return f;
-  f.substrate_fed = feed_zone >= 0 ? c.feed.concentration_kg_m3 * feed_volume_m3 : 0.0;
-  for (int k = 0; k < n; ++k) {
-    const double v = p.net.volume[k], sk = sx[2 * k], xk = sx[2 * k + 1];
-    b.substrate[k] = sk;
-    b.biomass[k] = xk;
-    f.substrate_consumed += v * xk * g.substrate_uptake(sk, c_new[k]) * h;
-    f.biomass_grown += v * g.growth_rate(sk, c_new[k]) * xk * h;
-  }
-  f.converged = true;
-  return f;
-}
-
-// Local error of the implicit Euler step, (h/2)|x'_new - x'_old|, against tol (|x| + reference).
-struct ErrorEstimator {
-  std::vector<double> reference;  // per watched value: DO of every zone, then S, then X
-  std::vector<double> last_slope;
-  bool have_slope = false;
-  static std::vector<double> watched(const BrothState& b) {
-    std::vector<double> w;
-    const auto n = b.x.size() / 4;
-    w.reserve(3 * n);
-    for (Eigen::Index k = 0; k < static_cast<Eigen::Index>(n); ++k) w.push_back(b.x[4 * k]);
-    w.insert(w.end(), b.substrate.begin(), b.substrate.end());
-    w.insert(w.end(), b.biomass.begin(), b.biomass.end());
-    return w;
-  }
-  std::vector<double> slope(const BrothState& from, const BrothState& to, double h) const {
-    auto a = watched(from), s = watched(to);
-    for (size_t i = 0; i < s.size(); ++i) s[i] = (s[i] - a[i]) / h;
-    return s;
-  }
-  double error(const std::vector<double>& new_slope, const BrothState& to, double h, double tol) const {
-    if (!have_slope) return 0.0;
-    const auto v = watched(to);
-    double worst = 0.0;
-    for (size_t i = 0; i < v.size(); ++i) {
-      worst = std::max(worst, 0.5 * h * std::abs(new_slope[i] - last_slope[i]) / (tol * (std::abs(v[i]) + reference[i])));
-    }
-    return worst;
-  }
-};
-
-}  // namespace
+using namespace transient_detail;
 
 TransientResult run_transient(const LoadedCase& base, const std::vector<Override>& base_overrides,
                               const TransientOptions& opts) {
   TransientResult res;
   const Case& c0 = base.data;
   const auto& k = c0.control;
-  const double gas_lo = k.gas_min_m3_s >= 0.0 ? k.gas_min_m3_s : c0.operation.gas_flow_normal_m3_s;
-  const double gas_hi = k.gas_max_m3_s >= 0.0 ? k.gas_max_m3_s : gas_lo;
-  const double o2_lo = c0.operation.oxygen_fraction;
-  const double o2_hi = k.oxygen_max >= 0.0 ? k.oxygen_max : o2_lo;
   auto plant = std::make_unique<Plant>(c0);
   const int n = plant->net.size();
   res.probe_zone = std::max(0, plant->net.zone_containing(k.probe_r_m, k.probe_z_m));
@@ -245,17 +67,8 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
     est.reference.insert(est.reference.end(), n, 1e-2 * biomass_ref);
   }
 
-  // Cascade position u in [0, 3]: speed over [0, 1], then gas over [1, 2], then O2 over [2, 3].
-  const auto actuators = [&](double u, Case& c) {
-    const auto lerp = [](double a, double b, double f) { return a + (b - a) * std::clamp(f, 0.0, 1.0); };
-    c.operation.speed_rps = lerp(k.speed_min_rps, k.speed_max_rps, u);
-    c.operation.gas_flow_normal_m3_s = lerp(gas_lo, gas_hi, u - 1.0);
-    c.operation.oxygen_fraction = lerp(o2_lo, o2_hi, u - 2.0);
-  };
-  // The cascade ends at its last stage that can act (a stage with no range would let the integral wind up).
-  const double u_max = o2_hi > o2_lo ? 3.0 : gas_hi > gas_lo ? 2.0 : 1.0;
-  double integral = 0.0, u = 0.0, last_measured = 0.0;
-  bool have_measured = false;
+  DoController controller(c0, air_sat);
+  double u = 0.0;  // cascade position [-]
   double t = 0.0, next_control = 0.0, next_output = 0.0;
   double h_next = opts.adaptive ? std::min(opts.step_s, 1.0) : opts.step_s;
   size_t next_event = 0;
@@ -304,21 +117,10 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
       changed = true;
     }
     if (k.enabled && t >= next_control - 1e-9) {
-      const double measured = b.x[4 * res.probe_zone] / air_sat;
-      const double error = k.setpoint_mol_m3 / air_sat - measured;
-      // Derivative on the measurement, not the error: a set-point step gives no kick.
-      const double slope = have_measured ? (measured - last_measured) / k.interval_s : 0.0;
-      last_measured = measured;
-      have_measured = true;
-      integral += error * k.interval_s;
-      u = k.gain * (error + integral / k.integral_time_s - k.derivative_time_s * slope);
-      if (u < 0.0 || u > u_max) {  // anti-windup: hold the integral while the output is saturated
-        integral -= error * k.interval_s;
-        u = std::clamp(u, 0.0, u_max);
-      }
+      u = controller.update(b.x[4 * res.probe_zone]);
       const double speed = current.operation.speed_rps, gas = current.operation.gas_flow_normal_m3_s,
                    o2 = current.operation.oxygen_fraction;
-      actuators(u, current);
+      controller.actuate(u, current);
       changed = changed || current.operation.speed_rps != speed || current.operation.gas_flow_normal_m3_s != gas ||
                 current.operation.oxygen_fraction != o2;
       next_control += k.interval_s;

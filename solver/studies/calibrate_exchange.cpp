@@ -16,7 +16,6 @@
 
 #include "input/units.hpp"
 #include "solver/flow/gas_routing.hpp"
-#include "solver/fit/kla_fit.hpp"
 #include "solver/fit/student_t.hpp"
 #include "solver/oxygen/oxygen_field.hpp"
 #include "physics/solubility.hpp"

@@ -11,6 +11,7 @@
 #include "input/csv_table.hpp"
 #include "input/numbers.hpp"
 #include "input/units.hpp"
+#include "solver/fit/do_trace.hpp"
 #include "solver/fit/kla_fit.hpp"
 
 namespace oxystrat {
@@ -70,7 +71,7 @@ const char* example_header(CalibrationQuantity q) {
                                        : "'speed [rpm],gas flow [Nm3/h],mixing time [s]'";
 }
 
-// The case reader's gas-flow units (solver/case/case_reader.cpp): normal and actual volumes.
+// The case reader's gas-flow units (input/case_quantities.cpp): normal and actual volumes.
 constexpr std::array<const char*, 9> kGasUnits{"vvm", "Nm3/h", "Nm3/min", "Nm3/s", "NL/min", "m3/h", "m3/min", "m3/s", "L/min"};
 constexpr const char* kGasUnitList = "vvm, Nm3/h, Nm3/min, Nm3/s, NL/min (normal: 0 degC, 1 atm), or m3/h, m3/min, m3/s, L/min (actual)";
 

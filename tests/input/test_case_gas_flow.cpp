@@ -1,4 +1,4 @@
-// Gas flow: the unit decides the basis (case_reader.cpp). vvm and N-units are normal volumes at
+// Gas flow: the unit decides the basis (input/case_quantities.cpp). vvm and N-units are normal volumes at
 // 0 degC and 101325 Pa (the normal state of DIN 1343, common practice); plain volume units are
 // actual volumes at the head-space pressure and broth temperature, converted with the ideal-gas
 // law V_n = V p / p_n * T_n / T.
@@ -74,7 +74,7 @@ TEST(CaseGasFlow, UnknownUnitListsBothBases) {
   EXPECT_THAT(msg, HasSubstr("actual, at head pressure and broth temperature"));
 }
 
-// Regression test for a fixed bug (case_reader.cpp:80, read_gas_flow): the unknown-unit check runs only for values >= 0, so
+// Regression test for a fixed bug (input/case_quantities.cpp, read_gas_flow): the unknown-unit check runs only for values >= 0, so
 // "-1 furlong" falls through to the range check with the sentinel normal_m3_s = -1 and reports
 // "out of range: -53.93 vvm (normal)", a number computed from nothing the user wrote. Expected:
 // the unknown-unit message, as for "1 furlong".

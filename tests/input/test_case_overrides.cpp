@@ -40,7 +40,7 @@ TEST(CaseOverride, ImpellerTypeByZeroBasedIndex) {
   const auto c = load(CaseText(), {"impeller.1.type=hydrofoil-up"}).data;
   EXPECT_EQ(c.impellers[0].type, ImpellerType::rushton);
   EXPECT_EQ(c.impellers[1].type, ImpellerType::hydrofoil_up);
-  // The type's defaults follow the new type (case_reader.cpp: 3 blades, band 0.12 D).
+  // The type's defaults follow the new type (input/case_vessel.cpp: 3 blades, band 0.12 D).
   EXPECT_EQ(c.impellers[1].blades, 3);
   EXPECT_NEAR(c.impellers[1].blade_height_m, 0.12 * 0.30, kTol);
 }

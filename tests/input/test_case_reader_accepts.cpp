@@ -67,7 +67,7 @@ TEST(CaseReader, WorkingVolumeGivesTheLiquidHeight) {
 }
 
 TEST(CaseReader, ImpellerDefaultsByType) {
-  // Blade counts and band heights are the reader's documented defaults (case_reader.cpp):
+  // Blade counts and band heights are the reader's documented defaults (input/case_vessel.cpp):
   // Rushton 6 blades, band D/5; 45 degree pitched blade 4 blades, band D/5 sin 45 degrees.
   const auto c = load(CaseText()).data;
   EXPECT_EQ(c.impellers[0].blades, 6);

@@ -1,7 +1,6 @@
-// kLa from gassing-out traces: the lagged step response against a numerical integration of its
-// two ODEs, the Student-t quantiles, recovery of kLa and tau_p from synthetic traces with seeded
-// noise (the intervals must contain the true values), the fixed-lag, no-lag and uptake modes,
-// and the trace reader's errors.
+// kLa from gassing-out traces: recovery of kLa and tau_p from synthetic traces with seeded noise
+// (the intervals must contain the true values), the fixed-lag, no-lag and uptake modes, and the
+// traces the fit refuses.
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
@@ -11,43 +10,16 @@
 #include <string>
 #include <vector>
 
-#include "input/case_reader.hpp"
+#include "fit/probe_ode.hpp"
+#include "input/errors.hpp"
+#include "solver/fit/do_trace.hpp"
 #include "solver/fit/kla_fit.hpp"
-#include "solver/fit/student_t.hpp"
-#include "solver/oxygen/oxygen_field.hpp"
 
 namespace oxystrat {
 namespace {
 
 using ::testing::HasSubstr;
-
-// Liquid C and probe Cp: dC/dt = kLa (C* - C) - OUR, tau_p dCp/dt = C - Cp (docs/method.md, section 14),
-// integrated by classical RK4 with step h from C = Cp = c0 at t = 0. Returns Cp at multiples of
-// `every` up to `duration`. Independent of the closed form under test.
-std::vector<double> rk4_probe(double kla, double tau, double cstar, double c0, double our, double h, double every,
-                              double duration) {
-  auto f = [&](double c, double cp, double& dc, double& dcp) {
-    dc = kla * (cstar - c) - our;
-    dcp = tau > 0.0 ? (c - cp) / tau : 0.0;
-  };
-  std::vector<double> out{c0};
-  double c = c0, cp = c0;
-  const int per_sample = static_cast<int>(std::lround(every / h));
-  const int samples = static_cast<int>(std::lround(duration / every));
-  for (int k = 0; k < samples; ++k) {
-    for (int j = 0; j < per_sample; ++j) {
-      double k1c, k1p, k2c, k2p, k3c, k3p, k4c, k4p;
-      f(c, cp, k1c, k1p);
-      f(c + 0.5 * h * k1c, cp + 0.5 * h * k1p, k2c, k2p);
-      f(c + 0.5 * h * k2c, cp + 0.5 * h * k2p, k3c, k3p);
-      f(c + h * k3c, cp + h * k3p, k4c, k4p);
-      c += h / 6.0 * (k1c + 2.0 * k2c + 2.0 * k3c + k4c);
-      cp += h / 6.0 * (k1p + 2.0 * k2p + 2.0 * k3p + k4p);
-    }
-    out.push_back(tau > 0.0 ? cp : c);
-  }
-  return out;
-}
+using test::rk4_probe;
 
 // Gaussian noise from a seeded 64-bit Mersenne twister through Box-Muller, so the traces are the
 // same with any standard library (std::normal_distribution is implementation-defined).
@@ -100,104 +72,6 @@ DoTrace make_trace(const Synthetic& s) {
 }
 
 bool contains(double lo, double hi, double v) { return lo <= v && v <= hi; }
-
-// ---------------------------------------------------------------------------------------------
-// The closed form
-
-std::string fmt_name(double kla, double tau) {
-  return "worst_kla_" + std::to_string(kla) + "_tau_" + std::to_string(tau);
-}
-
-// Tolerance 1e-9 (of a unit step): RK4 with h max(kLa, 1/tau_p) <= 0.01 has a global error of
-// order (h lambda)^4 / 120 * lambda T ~ 1e-11 here; the closed form is exact to round-off. A
-// wrong sign or factor in the closed form shows at the 1e-2 level.
-TEST(KlaFitStepResponse, MatchesRk4OfTheTwoOdes) {
-  struct P {
-    double kla, tau;
-  };
-  // kLa tau_p = 0.24, exactly 1 (the limit form), within 1e-7 of 1 (the series branch), 0.05,
-  // 2 (a probe slower than the transfer) and 0 (no lag).
-  for (const auto& p : {P{0.03, 8.0}, P{0.03, 1.0 / 0.03}, P{0.03, (1.0 + 1e-7) / 0.03}, P{0.05, 1.0},
-                        P{0.05, 40.0}, P{0.03, 0.0}}) {
-    SCOPED_TRACE(::testing::Message() << "kLa " << p.kla << ", tau_p " << p.tau);
-    const double rate = std::max(p.kla, p.tau > 0.0 ? 1.0 / p.tau : 0.0);
-    const double h = 0.01 / rate;
-    const double every = 100 * h;
-    const double duration = 10.0 / std::min(p.kla, p.tau > 0.0 ? 1.0 / p.tau : p.kla);
-    // Unit step: C* = 1, C0 = 0, so g = 1 - Cp.
-    const auto cp = rk4_probe(p.kla, p.tau, 1.0, 0.0, 0.0, h, every, duration);
-    double worst = 0.0;
-    for (size_t k = 0; k < cp.size(); ++k) {
-      const double g = probe_step_response(static_cast<double>(k) * every, p.kla, p.tau);
-      worst = std::max(worst, std::abs((1.0 - g) - cp[k]));
-    }
-    RecordProperty(fmt_name(p.kla, p.tau), ::testing::PrintToString(worst));
-    EXPECT_LT(worst, 1e-9);
-  }
-}
-
-TEST(KlaFitStepResponse, StartsFlatAndIsSymmetricInKlaAndInverseLag) {
-  EXPECT_EQ(probe_step_response(0.0, 0.03, 8.0), 1.0);
-  EXPECT_EQ(probe_step_response(-5.0, 0.03, 8.0), 1.0);
-  // Two first-order processes in series: swapping kLa and 1/tau_p leaves the response unchanged
-  // (to round-off, 1e-14), which is why a fitted lag cannot be told from kLa by the shape alone.
-  for (double s : {1.0, 10.0, 50.0, 200.0}) {
-    EXPECT_NEAR(probe_step_response(s, 0.03, 8.0), probe_step_response(s, 0.125, 1.0 / 0.03), 1e-14);
-  }
-}
-
-// The two evaluation branches (a series near kLa tau_p = 1, the textbook form elsewhere) against
-// the textbook form in long double (64-bit mantissa: its cancellation error eps b/|b - a| stays
-// below 1e-15 at |b - a| >= 1e-3 a). Tolerance 1e-13: the double branches are good to ~1e-15.
-TEST(KlaFitStepResponse, BranchesAgreeWithExtendedPrecision) {
-  const double a = 0.03;
-  auto reference = [a](double s, double tau) {
-    const long double b = 1.0L / tau, la = a, ls = s;
-    return static_cast<double>((b * std::exp(-la * ls) - la * std::exp(-b * ls)) / (b - la));
-  };
-  // 1/tau_p on both sides of the branch switch |1/tau_p - kLa| = 0.1 max, and close to kLa.
-  for (double b : {a / 0.9 * (1 - 1e-9), a / 0.9 * (1 + 1e-9), 0.9 * a * (1 - 1e-9), 0.9 * a * (1 + 1e-9),
-                   a * (1 + 1e-3), a * (1 - 1e-3)}) {
-    for (double s : {2.0, 20.0, 100.0, 400.0}) {
-      EXPECT_NEAR(probe_step_response(s, a, 1.0 / b), reference(s, 1.0 / b), 1e-13) << "s " << s << " b " << b;
-    }
-  }
-}
-
-// Analytic partial derivatives against central differences; relative step 1e-6 gives truncation
-// ~1e-12 and round-off ~1e-10 relative, so 1e-6 (relative to the largest derivative) is safe.
-TEST(KlaFitStepResponse, DerivativesMatchFiniteDifferences) {
-  struct P {
-    double s, kla, tau;
-  };
-  for (const auto& p : {P{5.0, 0.03, 8.0}, P{40.0, 0.03, 8.0}, P{30.0, 0.03, 1.0 / 0.03}, P{30.0, 0.03, 31.0},
-                        P{3.0, 0.05, 0.2}, P{60.0, 0.02, 80.0}, P{12.0, 0.04, 0.0}}) {
-    SCOPED_TRACE(::testing::Message() << "s " << p.s << ", kLa " << p.kla << ", tau_p " << p.tau);
-    const auto d = probe_step_response_derivatives(p.s, p.kla, p.tau);
-    EXPECT_DOUBLE_EQ(d.g, probe_step_response(p.s, p.kla, p.tau));
-    auto central = [](auto f, double x) {
-      const double h = 1e-6 * std::max(std::abs(x), 1e-3);
-      return (f(x + h) - f(x - h)) / (2.0 * h);
-    };
-    const double ds = central([&](double s) { return probe_step_response(s, p.kla, p.tau); }, p.s);
-    const double dk = central([&](double k) { return probe_step_response(p.s, k, p.tau); }, p.kla);
-    const double scale = std::max({std::abs(ds), std::abs(dk), 1e-3});
-    EXPECT_NEAR(d.d_s, ds, 1e-6 * scale);
-    EXPECT_NEAR(d.d_kla, dk, 1e-6 * std::max(std::abs(dk), 1e-3));
-    if (p.tau > 0.0) {
-      const double dt = central([&](double t) { return probe_step_response(p.s, p.kla, t); }, p.tau);
-      EXPECT_NEAR(d.d_tau, dt, 1e-6 * std::max(std::abs(dt), 1e-6));
-    } else {
-      // One-sided at tau_p = 0: forward difference, truncation O(h) -> looser 1e-4.
-      const double h = 1e-7;
-      const double fwd = (probe_step_response(p.s, p.kla, h) - probe_step_response(p.s, p.kla, 0.0)) / h;
-      EXPECT_NEAR(d.d_tau, fwd, 1e-4 * std::abs(fwd));
-    }
-  }
-}
-
-// ---------------------------------------------------------------------------------------------
-// Student t
 
 // ---------------------------------------------------------------------------------------------
 // Recovery from synthetic traces
@@ -423,66 +297,6 @@ TEST(KlaFitModes, RefusesAFallingTrace) {
   }
 }
 
-// ---------------------------------------------------------------------------------------------
-// Reading traces
-
-std::string rows(int n, const std::string& sep = ",") {
-  std::string s;
-  for (int i = 0; i < n; ++i) s += std::to_string(i) + sep + std::to_string(10 + 8 * i) + "\n";
-  return s;
-}
-
-TEST(KlaFitTrace, ReadsUnitsCommentsAndSeparators) {
-  const auto a = parse_do_trace("# exported trace\n\n\"time [min]\";\"DO [mg/L]\"\n" + [] {
-    std::string s;
-    for (int i = 0; i < 10; ++i) s += std::to_string(i) + ",5;6,4\n";
-    return s;
-  }(), "a.csv");
-  ASSERT_EQ(a.time_s.size(), 10u);
-  EXPECT_EQ(a.scale, DoScale::concentration);
-  EXPECT_DOUBLE_EQ(a.time_s[1], 90.0);  // 1.5 min
-  // 6.4 mg/L / 31.9988 g/mol = 0.2000075 mol/m3
-  EXPECT_NEAR(a.value[0], 6.4e-3 / 31.9988e-3, 1e-15);
-  EXPECT_EQ(a.line[0], 4);
-
-  const auto b = parse_do_trace("t h,DO mmol/L\n" + rows(10), "b.csv");
-  EXPECT_DOUBLE_EQ(b.time_s[2], 7200.0);
-  EXPECT_DOUBLE_EQ(b.value[1], 18.0);
-
-  const auto c = parse_do_trace("\xEF\xBB\xBFtime (s),DO [% air saturation]\n" + rows(12), "c.csv");
-  EXPECT_EQ(c.scale, DoScale::saturation);
-  EXPECT_DOUBLE_EQ(c.value[0], 0.10);
-  EXPECT_EQ(c.do_unit, "% air saturation");
-
-  const auto d = parse_do_trace("time [s],DO [mol/m3]\n" + rows(10), "d.csv");
-  EXPECT_DOUBLE_EQ(d.value[0], 10.0);
-}
-
-void expect_trace_error(const std::string& text, const std::vector<std::string>& parts) {
-  try {
-    parse_do_trace(text, "trace.csv");
-    FAIL() << "accepted:\n" << text;
-  } catch (const CaseError& e) {
-    for (const auto& p : parts) EXPECT_THAT(e.what(), HasSubstr(p));
-  }
-}
-
-TEST(KlaFitTrace, ErrorsNameFileLineColumnAndExpectation) {
-  expect_trace_error("# c\ntime,DO [%]\n" + rows(10), {"trace.csv:2:", "column 1 'time'", "missing unit", "s, min or h"});
-  expect_trace_error("time [s],DO\n" + rows(10), {"trace.csv:1:", "column 2 'DO'", "missing unit", "mg/L"});
-  expect_trace_error("time [s],DO [ppm]\n" + rows(10), {"trace.csv:1:", "unknown DO unit 'ppm'", "% air saturation"});
-  expect_trace_error("time [d],DO [%]\n" + rows(10), {"unknown time unit 'd'", "s, min or h"});
-  expect_trace_error("time [s],DO [%]\n" + rows(4) + "4,abc\n" + rows(6),
-                     {"trace.csv:6:", "column 2 'DO [%]'", "'abc' is not a number", "DO in %"});
-  expect_trace_error("time [s],DO [%]\n1,2\nx1,3\n", {"trace.csv:3:", "column 1 'time [s]'", "'x1' is not a number"});
-  expect_trace_error("time [s],DO [%]\n" + rows(5), {"trace.csv:", "too few points: 5 rows", "at least 10"});
-  expect_trace_error("time [s],DO [%]\n0,1\n1,2\n1,3\n", {"trace.csv:4:", "not after the previous row's (line 3)"});
-  expect_trace_error("time [s],DO [%]\n0,1,2\n", {"trace.csv:2:", "3 cells; the header has 2 columns"});
-  expect_trace_error("time [s],DO [%],T [degC]\n", {"trace.csv:1:", "header has 3 columns"});
-  expect_trace_error("0,1\n1,2\n", {"trace.csv:1:", "expected a header row"});
-  expect_trace_error("# only comments\n", {"trace.csv: no header row"});
-}
-
 TEST(KlaFitTrace, ShortRiseIsRejected) {
   // 12 rows, but the rise happens between two samples: no point between 10 % and 90 %.
   std::string text = "time [s],DO [%]\n";
@@ -493,29 +307,6 @@ TEST(KlaFitTrace, ShortRiseIsRejected) {
   } catch (const CaseError& e) {
     EXPECT_THAT(e.what(), HasSubstr("step.csv: too few points in the rise"));
   }
-}
-
-TEST(KlaFitTrace, UptakeAndSaturationUnits) {
-  EXPECT_NEAR(parse_uptake_rate("36 mmol/L/h", DoScale::concentration, "--our"), 0.01, 1e-15);
-  EXPECT_NEAR(parse_uptake_rate("0.01 mol/(m3 s)", DoScale::concentration, "--our"), 0.01, 1e-15);
-  EXPECT_NEAR(parse_uptake_rate("360 %/h", DoScale::saturation, "--our"), 1e-3, 1e-15);
-  EXPECT_NEAR(parse_do_value("100 %", DoScale::saturation, "--saturation"), 1.0, 1e-15);
-  EXPECT_NEAR(parse_do_value("0.21 mmol/L", DoScale::concentration, "--saturation"), 0.21, 1e-15);
-  auto message = [](auto f) {
-    try {
-      f();
-    } catch (const CaseError& e) {
-      return std::string(e.what());
-    }
-    return std::string("no error");
-  };
-  EXPECT_THAT(message([] { parse_uptake_rate("20", DoScale::concentration, "--our"); }), HasSubstr("--our '20': missing unit"));
-  EXPECT_THAT(message([] { parse_uptake_rate("20 mmol/L/h", DoScale::saturation, "--our"); }), HasSubstr("%/h"));
-  EXPECT_THAT(message([] { parse_uptake_rate("-2 mmol/L/h", DoScale::concentration, "--our"); }), HasSubstr("negative"));
-  EXPECT_THAT(message([] { parse_do_value("100 %", DoScale::concentration, "--saturation"); }),
-              HasSubstr("the trace is a concentration"));
-  EXPECT_THAT(message([] { parse_do_value("7 mg/L", DoScale::saturation, "--saturation"); }),
-              HasSubstr("the trace is in % air saturation"));
 }
 
 }  // namespace

@@ -17,6 +17,7 @@
 #include "solver/studies/calibrate_kla.hpp"
 #include "input/case_reader.hpp"
 #include "solver/flow/gas_routing.hpp"
+#include "solver/fit/do_trace.hpp"
 #include "solver/fit/kla_fit.hpp"
 #include "solver/oxygen/oxygen_field.hpp"
 

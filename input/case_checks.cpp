@@ -1,0 +1,97 @@
+#include "input/case_sections.hpp"
+
+#include <fmt/format.h>
+
+#include <utility>
+
+#include "physics/vessel_shape.hpp"
+
+namespace oxystrat::detail {
+
+void check_geometry(const TomlSource& src, const Case& c, std::vector<std::string>& notes) {
+  const VesselShape shape(c.vessel.diameter_m, c.vessel.bottom);
+  const double t = c.vessel.diameter_m;
+  const double h = c.vessel.liquid_height_m;
+  const double free_width = t - 2.0 * (c.vessel.baffles > 0 ? c.vessel.baffle_width_m : 0.0);
+  for (size_t i = 0; i < c.impellers.size(); ++i) {
+    const auto& imp = c.impellers[i];
+    const std::string p = fmt::format("impeller.{}.", i);
+    if (imp.diameter_m >= free_width) {
+      src.fail(p + "diameter", fmt::format("impeller diameter {:.4g} m does not fit inside the baffles: it must be "
+                                           "less than T - 2 x baffle width = {:.4g} m",
+                                           imp.diameter_m, free_width));
+    }
+    const double dt = imp.diameter_m / t;
+    if (dt < 0.15 || dt > 0.7) {
+      notes.push_back(fmt::format("{}: D/T = {:.3g} is outside 0.15-0.7, where the power and flow numbers were "
+                                  "measured",
+                                  src.where(p + "diameter"), dt));
+    }
+    const double band_lo = imp.elevation_m - 0.5 * imp.blade_height_m;
+    const double band_hi = imp.elevation_m + 0.5 * imp.blade_height_m;
+    if (band_hi >= h) {
+      src.fail(p + "elevation", fmt::format("the impeller blades reach {:.4g} m, above the liquid surface at {:.4g} m",
+                                            band_hi, h));
+    }
+    const double floor = shape.bottom_height(0.5 * imp.diameter_m);
+    if (band_lo <= floor) {
+      src.fail(p + "elevation", fmt::format("the impeller blades reach down to {:.4g} m, into the vessel bottom "
+                                            "(the head surface is {:.4g} m high at the blade-tip radius); raise it",
+                                            band_lo, floor));
+    }
+    if (i > 0) {
+      const auto& below = c.impellers[i - 1];
+      if (imp.elevation_m <= below.elevation_m) {
+        src.fail(p + "elevation", fmt::format("impellers must be listed bottom to top: {:.4g} m is not above the "
+                                              "previous impeller at {:.4g} m",
+                                              imp.elevation_m, below.elevation_m));
+      }
+      if (band_lo < below.elevation_m + 0.5 * below.blade_height_m) {
+        src.fail(p + "elevation", fmt::format("overlaps impeller {}: its blades span {:.4g}-{:.4g} m and the one "
+                                              "below reaches {:.4g} m",
+                                              i - 1, band_lo, band_hi, below.elevation_m + 0.5 * below.blade_height_m));
+      }
+      const double spacing = imp.elevation_m - below.elevation_m;
+      if (spacing < below.diameter_m && c.model.multiple_impeller_factor == 1.0) {
+        notes.push_back(fmt::format("{}: spacing {:.3g} m is less than the lower impeller's diameter; powers add "
+                                    "less than fully (set model.multiple_impeller_factor)",
+                                    src.where(p + "elevation"), spacing));
+      }
+    }
+  }
+  if (c.has_sparger) {
+    const double rs = 0.5 * c.sparger.diameter_m;
+    if (c.sparger.elevation_m >= c.vessel.liquid_height_m) {
+      src.fail("sparger.elevation", fmt::format("the sparger at {:.4g} m is not below the liquid surface at {:.4g} m",
+                                                c.sparger.elevation_m, c.vessel.liquid_height_m));
+    }
+    if (c.sparger.elevation_m <= shape.bottom_height(rs)) {
+      src.fail("sparger.elevation", fmt::format("the sparger at {:.4g} m lies in the vessel bottom (the head surface "
+                                                "is at {:.4g} m at its radius {:.4g} m)",
+                                                c.sparger.elevation_m, shape.bottom_height(rs), rs));
+    }
+    if (c.sparger.diameter_m >= free_width) {
+      src.fail("sparger.diameter", fmt::format("sparger diameter must be less than {:.4g} m (inside the baffles)", free_width));
+    }
+    if (c.sparger.elevation_m > c.impellers.front().elevation_m) {
+      notes.push_back(fmt::format("{}: the sparger is above the lowest impeller; gas will bypass it",
+                                  src.where("sparger.elevation")));
+    }
+  }
+  if (c.vessel.baffles == 0) {
+    notes.push_back("unbaffled vessel: the power and flow numbers assume a baffled vessel; give power_number "
+                    "and flow_number from your own data");
+  }
+}
+
+void note_unused_rheology_keys(const TomlSource& src, const Case& c, std::vector<std::string>& notes) {
+  const auto kind = c.broth.rheology.kind;
+  const bool power = kind == RheologyKind::power_law || kind == RheologyKind::herschel_bulkley;
+  const bool yield = kind == RheologyKind::herschel_bulkley || kind == RheologyKind::casson;
+  for (const auto& [key, used] : {std::pair{"broth.consistency", power}, std::pair{"broth.flow_index", power},
+                                  std::pair{"broth.yield_stress", yield}}) {
+    if (!used && src.has(key)) notes.push_back(fmt::format("{} is ignored: it does not apply to a {} broth", key, to_string(kind)));
+  }
+}
+
+}  // namespace oxystrat::detail
