@@ -1,4 +1,5 @@
 #include "postproc/report/calibrate_output.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -29,9 +30,7 @@ std::string held_or_interval(bool fitted, double lo, double hi) {
   return fitted ? interval(lo, hi, "{:.3g}") : "held (not identifiable)";
 }
 
-void check_stream(const std::ofstream& out, const std::string& path) {
-  if (!out) throw IoError("cannot write " + path);
-}
+void check_stream(std::ofstream& out, const std::string& path) { finish_file(out, path); }
 
 }  // namespace
 

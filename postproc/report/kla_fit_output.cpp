@@ -1,4 +1,5 @@
 #include "postproc/report/kla_fit_output.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -56,7 +57,7 @@ void write_kla_fit_csv(const std::string& path, const DoTrace& tr, const KlaFitR
     out << fmt::format("{:.10g},{:.8g},{:.8g},{:.6g}\n", tr.time_s[i], in_unit(tr, tr.value[i]),
                        in_unit(tr, fit.fitted[i]), in_unit(tr, fit.residual[i]));
   }
-  if (!out) throw IoError("cannot write " + path);
+  finish_file(out, path);
 }
 
 void write_kla_fit_h5(H5Writer& h5, const DoTrace& tr, const KlaFitOptions& o, const KlaFitResult& fit) {

@@ -7,6 +7,8 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 #include <signal.h>
+#include <sys/mount.h>
+#include <sys/resource.h>
 #include <sys/stat.h>
 #include <sys/types.h>
 #include <sys/wait.h>
@@ -114,7 +116,8 @@ std::map<std::string, std::string> snapshot(const fs::path& dir) {
   return files;
 }
 
-//! Starts oxystrat with `args` in `cwd` (output to /dev/null) and returns its pid.
+//! Starts oxystrat with `args` in `cwd` (output to /dev/null) and returns its pid. The signals the
+//! tests send have their default action in it, whatever the test runner set.
 pid_t spawn(const fs::path& cwd, const std::vector<std::string>& args) {
   const pid_t pid = ::fork();
   if (pid == 0) {
@@ -122,6 +125,7 @@ pid_t spawn(const fs::path& cwd, const std::vector<std::string>& args) {
     const int null = ::open("/dev/null", O_WRONLY);
     ::dup2(null, 1);
     ::dup2(null, 2);
+    for (int sig : {SIGINT, SIGTERM, SIGHUP}) ::signal(sig, SIG_DFL);
     std::vector<char*> argv;
     std::string exe = kExe.string();
     argv.push_back(exe.data());
@@ -149,9 +153,9 @@ std::vector<fs::path> partial_folders(const fs::path& work, const std::string& d
 const std::vector<std::string> kSlowOutput = {"--set", "grid.radial=40", "--set", "grid.axial=80",
                                               "--set", "output.sectors=360", "--set", "operation.gas_flow=0 vvm"};
 
-//! Runs the slow-output case into `dir` (with --force) and kills it with SIGKILL as soon as its
+//! Runs the slow-output case into `dir` (with --force) and kills it with `sig` as soon as its
 //! staging folder holds result.h5, i.e. once output has begun.
-void kill_during_output(const fs::path& work, const std::string& dir) {
+void kill_during_output(const fs::path& work, const std::string& dir, int sig = SIGKILL) {
   std::vector<std::string> args = {"run", kSmall, "--out", dir, "--force"};
   args.insert(args.end(), kSlowOutput.begin(), kSlowOutput.end());
   const pid_t pid = spawn(work, args);
@@ -167,10 +171,11 @@ void kill_during_output(const fs::path& work, const std::string& dir) {
     if (!writing) std::this_thread::sleep_for(std::chrono::milliseconds(2));
   }
   ASSERT_TRUE(writing) << "output did not begin within 300 s";
-  ASSERT_EQ(::kill(pid, SIGKILL), 0);
+  ASSERT_EQ(::kill(pid, sig), 0);
   int status = 0;
   ASSERT_EQ(::waitpid(pid, &status, 0), pid);
-  EXPECT_TRUE(WIFSIGNALED(status) && WTERMSIG(status) == SIGKILL) << "the run finished before the kill";
+  // SIGINT and SIGTERM end it as the signal would (after its clean-up), not with an exit code.
+  EXPECT_TRUE(WIFSIGNALED(status) && WTERMSIG(status) == sig) << "the run finished before the kill (status " << status << ")";
 }
 
 TEST_F(CliFaults, KilledDuringOutputLeavesThePreviousResultIntact) {
@@ -190,6 +195,77 @@ TEST_F(CliFaults, KilledDuringOutputLeavesNoFolderThatLooksFinished) {
   kill_during_output(work(), "res");
   EXPECT_FALSE(fs::exists(work() / "res"));
   for (const auto& name : work_listing()) EXPECT_EQ(name.rfind("res.partial-", 0), 0u) << "unexpected " << name;
+}
+
+// ---- SIGINT and SIGTERM clean up; the next run tidies what SIGKILL left ----
+
+class CliInterrupts : public CliFaults, public testing::WithParamInterface<int> {};
+
+TEST_P(CliInterrupts, InterruptDuringOutputRemovesThePartialFolderAndKeepsThePreviousResult) {
+  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res"}).exit_code, 0);
+  const auto before = snapshot(work() / "res");
+  kill_during_output(work(), "res", GetParam());
+  EXPECT_EQ(snapshot(work() / "res"), before) << "the previous result changed";
+  EXPECT_EQ(work_listing(), std::vector<std::string>{"res"}) << "a partial folder was left behind";
+}
+
+TEST_P(CliInterrupts, InterruptDuringAFirstRunLeavesNothing) {
+  kill_during_output(work(), "res", GetParam());
+  EXPECT_TRUE(work_listing().empty()) << "left: " << testing::PrintToString(work_listing());
+}
+
+INSTANTIATE_TEST_SUITE_P(Signals, CliInterrupts, testing::Values(SIGINT, SIGTERM, SIGHUP),
+                         [](const testing::TestParamInfo<int>& i) {
+                           return std::string(i.param == SIGINT ? "SIGINT" : i.param == SIGTERM ? "SIGTERM" : "SIGHUP");
+                         });
+
+TEST_F(CliFaults, NextRunRemovesThePartialFolderOfAKilledRun) {
+  kill_during_output(work(), "res");
+  ASSERT_FALSE(partial_folders(work(), "res").empty()) << "SIGKILL left no partial folder to tidy";
+  const auto r = oxystrat({"run", kSmall, "--out", "res"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("note: removed res.partial-"));
+  EXPECT_EQ(work_listing(), std::vector<std::string>{"res"});
+}
+
+//! The id of a process that has ended (forked, exited and reaped).
+pid_t dead_pid() {
+  const pid_t pid = ::fork();
+  if (pid == 0) ::_exit(0);
+  int status = 0;
+  ::waitpid(pid, &status, 0);
+  return pid;
+}
+
+TEST_F(CliFaults, NextRunPutsBackTheOldResultAKilledCommitHadMovedAside) {
+  // A kill between a commit's two renames leaves the previous result as DIR.old-PID and no DIR.
+  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res"}).exit_code, 0);
+  const auto before = snapshot(work() / "res");
+  const std::string aside = "res.old-" + std::to_string(dead_pid());
+  fs::rename(work() / "res", work() / aside);
+  // Without --force the put-back result is then an existing folder, kept as it was.
+  const auto r = oxystrat({"run", kSmall, "--out", "res"});
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("note: put back res from " + aside));
+  EXPECT_THAT(r.err, HasSubstr("output folder res exists"));
+  EXPECT_EQ(snapshot(work() / "res"), before);
+  EXPECT_EQ(work_listing(), std::vector<std::string>{"res"});
+}
+
+TEST_F(CliFaults, NextRunRemovesAnOldResultLeftBesideTheNewOne) {
+  // A kill after a commit's second rename leaves the old result beside the new one: garbage.
+  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res"}).exit_code, 0);
+  fs::create_directory(work() / ("res.old-" + std::to_string(dead_pid())));
+  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res", "--force"}).exit_code, 0);
+  EXPECT_EQ(work_listing(), std::vector<std::string>{"res"});
+}
+
+TEST_F(CliFaults, LeftoversOfALiveProcessAreLeftAlone) {
+  // This test's own process is alive: its staging folder may be in use.
+  const std::string mine = "res.partial-" + std::to_string(::getpid()) + "-0";
+  fs::create_directory(work() / mine);
+  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res"}).exit_code, 0);
+  EXPECT_EQ(work_listing(), (std::vector<std::string>{"res", mine}));
 }
 
 }  // namespace
