@@ -15,6 +15,7 @@
 #include "input/csv_table.hpp"
 #include "input/numbers.hpp"
 #include "solver/fit/bounded_least_squares.hpp"
+#include "solver/fit/kla_verdict.hpp"
 #include "solver/fit/student_t.hpp"
 #include "input/case_reader.hpp"
 #include "input/errors.hpp"
@@ -728,6 +729,7 @@ KlaFitResult fit_kla(const DoTrace& tr, const KlaFitOptions& o) {
                                          100.0 * reached));
     }
   }
+  require_determined_kla(tr, o, res);
   return res;
 }
 
