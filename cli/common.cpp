@@ -25,6 +25,7 @@ LoadedCase load_case(const CaseOptions& o) {
   for (const auto& s : o.sets) overrides.push_back(parse_override(s));
   protect_from_replacement(o.case_path);
   auto loaded = read_case_file(o.case_path, overrides);
+  for (const auto& f : loaded.included_files) protect_from_replacement(f);
   for (const auto& note : loaded.notes) fmt::print(stderr, "warning: {}\n", note);
   return loaded;
 }

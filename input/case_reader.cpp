@@ -9,6 +9,8 @@
 #include <numbers>
 #include <sstream>
 
+#include "input/case_checks.hpp"
+#include "input/input_file.hpp"
 #include "input/toml_source.hpp"
 #include "physics/solubility.hpp"
 #include "physics/vessel_shape.hpp"
@@ -200,9 +202,11 @@ void read_operation(TomlSource& src, Case& c) {
   o.speed_rps = src.require_quantity("operation.speed", Dimension::speed, {0.0, 50.0, true}, "120 rpm");
   o.gas_flow_normal_m3_s = read_gas_flow(src, "operation.gas_flow", c.vessel);
   o.oxygen_fraction = src.number("operation.oxygen_fraction", {0.0, 1.0}).value_or(physics::air_o2_fraction);
-  o.co2_fraction = src.number("operation.co2_fraction", {0.0, 0.2}).value_or(0.00042);
+  // Air's CO2 by default, but never more than the O2 leaves (pure O2 has none).
+  o.co2_fraction = src.number("operation.co2_fraction", {0.0, 0.2}).value_or(std::min(0.00042, 1.0 - o.oxygen_fraction));
   if (o.oxygen_fraction + o.co2_fraction > 1.0) {
-    src.fail("operation.co2_fraction", "oxygen_fraction + co2_fraction must not exceed 1");
+    src.fail("operation.co2_fraction", fmt::format("oxygen_fraction + co2_fraction must not exceed 1 ({:.4g} + {:.4g})",
+                                                   o.oxygen_fraction, o.co2_fraction));
   }
   if (o.gas_flow_normal_m3_s > 0.0 && !c.has_sparger) {
     src.fail("operation.gas_flow", "gas is sparged but the case has no [sparger] table");
@@ -430,9 +434,9 @@ void read_numerics(TomlSource& src, Case& c) {
 // case's own keys and --set override them. An included file may hold only a [model] table, so
 // includes do not nest and cannot form cycles. Each file is checked on its own first, so a bad
 // value is reported at its own file and line.
-void merge_includes(toml::table& root, const std::string& file_name) {
+std::vector<std::string> merge_includes(toml::table& root, const std::string& file_name) {
   const toml::node* inc = root.get("include");
-  if (inc == nullptr) return;
+  if (inc == nullptr) return {};
   const auto line = inc->source().begin.line;
   const auto bad = [&] {
     throw CaseError(fmt::format("{}:{}: include: expected a list of file names, e.g. include = [\"calibration.toml\"]",
@@ -458,8 +462,15 @@ void merge_includes(toml::table& root, const std::string& file_name) {
       throw CaseError(fmt::format("{}:{}: include: {} is listed twice", file_name, line, shown));
     }
     seen.push_back(shown);
-    std::ifstream in(path, std::ios::binary);
     std::error_code ec;  // the non-throwing tests: a name the system refuses (too long) is just "cannot open"
+    if (const auto st = std::filesystem::status(path, ec); std::filesystem::exists(st) &&
+                                                           !std::filesystem::is_regular_file(st) &&
+                                                           !std::filesystem::is_directory(st)) {
+      // Opened, a FIFO blocks and a device reads for ever.
+      throw CaseError(fmt::format("{}:{}: include = \"{}\": {} is a device or pipe, not a file", file_name, line, name,
+                                  shown));
+    }
+    std::ifstream in(path, std::ios::binary);
     if (!in || !std::filesystem::is_regular_file(path, ec)) {
       throw CaseError(fmt::format("{}:{}: include = \"{}\": cannot open {}{} (a relative path is taken from the case "
                                   "file's folder)",
@@ -502,6 +513,7 @@ void merge_includes(toml::table& root, const std::string& file_name) {
     }
   }
   root.erase("include");
+  return seen;
 }
 
 // Geometry that the single keys cannot check alone.
@@ -604,9 +616,9 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   } catch (const toml::parse_error& e) {
     throw CaseError(fmt::format("{}:{}: not valid TOML: {}", file_name, e.source().begin.line, e.description()));
   }
-  merge_includes(root, file_name);
-  TomlSource src(std::move(root), file_name);
   LoadedCase out;
+  out.included_files = merge_includes(root, file_name);
+  TomlSource src(std::move(root), file_name);
   for (const auto& o : overrides) {
     src.apply(o);
     out.overrides.push_back(o.raw);
@@ -627,6 +639,9 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   src.check_no_unknown_keys();
   check_geometry(src, c, out.notes);
   note_unused_rheology_keys(src, c, out.notes);
+  detail::check_control_limits(src, c);
+  detail::check_gas_and_boiling(src, c, out.notes);
+  detail::check_events(src, c, text, file_name, overrides);
   out.file_name = file_name;
   out.source_text = text;
   std::ostringstream os;
@@ -643,11 +658,8 @@ std::optional<std::string> raw_value(const LoadedCase& loaded, const std::string
 }
 
 LoadedCase read_case_file(const std::string& path, const std::vector<Override>& overrides) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) throw CaseError(fmt::format("{}: cannot open the case file", path));
-  std::ostringstream ss;
-  ss << in.rdbuf();
-  return read_case_text(ss.str(), path, overrides);
+  // Not a device or a pipe, and not megabytes: a case is a few kilobytes of TOML.
+  return read_case_text(read_input_file(path, "case file", 16u << 20), path, overrides);
 }
 
 }  // namespace oxystrat

@@ -73,6 +73,43 @@ TEST_F(CliFaults, MillionRpmIsRefused) {
   expect_refused({"operation.speed=1e6 rpm"}, {"--set 'operation.speed=1e6 rpm'", "out of range", "3000 rpm"});
 }
 
+// A case file that is a device, a pipe or a folder is refused before it is opened: `check
+// /dev/zero` used to read 4 GB, a FIFO would block for ever.
+TEST_F(CliFaults, SpecialFilesAreRefusedAsCaseFiles) {
+  ASSERT_EQ(::mkfifo((work() / "pipe").c_str(), 0600), 0);
+  for (const std::string path : {"/dev/zero", "pipe"}) {
+    const auto t0 = Clock::now();
+    const auto r = oxystrat({"check", path});
+    EXPECT_LT(std::chrono::duration<double>(Clock::now() - t0).count(), kRefusalSeconds) << path;
+    EXPECT_EQ(r.exit_code, 1) << path << ": " << r.err;
+    EXPECT_THAT(r.err, HasSubstr("oxystrat: error: " + path + ": the case file must be")) << path;
+  }
+  fs::create_directory(work() / "folder.toml");  // the argument parser refuses folders itself
+  const auto folder = oxystrat({"check", "folder.toml"});
+  EXPECT_NE(folder.exit_code, 0);
+  EXPECT_THAT(folder.err, HasSubstr("directory: folder.toml"));
+  std::ofstream(work() / "big.toml") << std::string(17u << 20, '#');  // 17 MiB of comment
+  EXPECT_THAT(oxystrat({"check", "big.toml"}).err, HasSubstr("big.toml: the case file is larger than 16 MiB"));
+}
+
+// Bad input that used to pass `check` or fail only later, refused when the case is read.
+TEST_F(CliFaults, InputChecksHappenBeforeAnyWork) {
+  std::ofstream(work() / "event.toml") << read_file(kSmall) << "\n[[event]]\ntime = \"1 h\"\nset = \"operation.sped=200 rpm\"\n";
+  auto r = oxystrat({"check", "event.toml"});
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("event.toml:"));
+  EXPECT_THAT(r.err, HasSubstr("event.0.set = \"operation.sped=200 rpm\""));
+  r = oxystrat({"check", kSmall, "--set", "title=\"x\" garbage"});
+  EXPECT_EQ(r.exit_code, 1);
+  r = oxystrat({"check", kSmall, "--set", "vessel.temperature=80 degC", "--set", "vessel.head_pressure=0.45 bar(a)"});
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("the broth boils"));
+  r = oxystrat({"check", kSmall, "--set", "operation.oxygen_fraction=1"});
+  EXPECT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("warning: --set 'operation.oxygen_fraction=1': oxygen-enriched gas"));
+  EXPECT_TRUE(work_listing() == (std::vector<std::string>{"event.toml"}));
+}
+
 TEST_F(CliFaults, OutputUnderARegularFileGivesAMessage) {
   { std::ofstream(work() / "blocker") << "not a folder\n"; }
   const auto r = oxystrat({"run", kSmall, "--out", "blocker/res"});

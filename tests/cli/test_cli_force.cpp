@@ -64,6 +64,16 @@ TEST_P(CliForce, NeverDeletesTheFolderOfCalibrationData) {
                  "proj/kla.csv");
 }
 
+TEST_P(CliForce, NeverDeletesTheFolderOfAnIncludedFile) {
+  // The case elsewhere, its included fragment in proj.
+  std::ofstream(work() / "proj" / "model.toml") << "[model]\nkla_factor = 1.0\n";
+  std::ofstream(work() / "case.toml") << "include = [\"proj/model.toml\"]\n" << read_file(kDataDir / "small-case.toml");
+  const auto r = oxystrat({"run", "case.toml", "--out", spelt(), "--force"});
+  EXPECT_EQ(r.exit_code, 1) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("proj/model.toml"));
+  EXPECT_TRUE(fs::exists(work() / "proj" / "model.toml"));
+}
+
 using CliForceWorkingFolder = CliTest;
 
 TEST_F(CliForceWorkingFolder, NeverDeletesTheWorkingFolderOrAFolderAboveIt) {
