@@ -265,6 +265,50 @@ TEST_F(CliFaults, NextRunRemovesThePartialFolderOfAKilledRun) {
   EXPECT_EQ(work_listing(), std::vector<std::string>{"res"});
 }
 
+// A sweep interrupted (SIGTERM) once some points are journalled: no partial folder, the journal
+// keeps them, and --resume finishes to the table of an uninterrupted sweep.
+TEST_F(CliFaults, KilledSweepResumesFromItsJournal) {
+  const std::vector<std::string> sweep = {"sweep", (kSourceDir / "cases/pilot-300L.toml").string(), "--vary",
+                                          "operation.speed=300:500:4", "--vary", "operation.gas_flow=0.5:1.5:3",
+                                          "--set", "grid.radial=14", "--set", "grid.axial=50", "--with-mixing",
+                                          "--threads", "1", "--out"};
+  auto args = sweep;
+  args.push_back("res");
+  const pid_t pid = spawn(work(), args);
+  ASSERT_GT(pid, 0);
+  const auto journalled = [&] {
+    const auto text = read_file(work() / "res.journal.csv");
+    return std::count(text.begin(), text.end(), '\n') - 1;  // less the signature line
+  };
+  const auto deadline = Clock::now() + std::chrono::seconds(120);
+  int status = 0;
+  bool ended = false;
+  while (journalled() < 2 && Clock::now() < deadline) {
+    if (::waitpid(pid, &status, WNOHANG) == pid) {
+      ended = true;
+      break;
+    }
+    std::this_thread::sleep_for(std::chrono::milliseconds(5));
+  }
+  if (!ended) {
+    ASSERT_EQ(::kill(pid, SIGTERM), 0);
+    ASSERT_EQ(::waitpid(pid, &status, 0), pid);
+  }
+  if (ended || fs::exists(work() / "res")) GTEST_SKIP() << "the sweep finished before it could be interrupted";
+  EXPECT_TRUE(WIFSIGNALED(status) && WTERMSIG(status) == SIGTERM) << status;
+  const auto kept = journalled();
+  EXPECT_GE(kept, 2);
+  EXPECT_TRUE(partial_folders(work(), "res").empty()) << "the interrupt left a partial folder";
+  args.push_back("--resume");
+  const auto resumed = oxystrat(args);
+  ASSERT_EQ(resumed.exit_code, 0) << resumed.err;
+  EXPECT_THAT(resumed.out, HasSubstr(std::to_string(kept) + " from the journal"));
+  auto whole = sweep;
+  whole.push_back("whole");
+  ASSERT_EQ(oxystrat(whole).exit_code, 0);
+  EXPECT_EQ(read_file(work() / "res/sweep.csv"), read_file(work() / "whole/sweep.csv"));
+}
+
 //! The id of a process that has ended (forked, exited and reaped).
 pid_t dead_pid() {
   const pid_t pid = ::fork();
