@@ -16,7 +16,7 @@ namespace {
 void BM_Sweep(benchmark::State& state) {
   const auto base = load_case("tall-3rushton.toml");
   const int points = 40;
-  const auto plan = full_factorial({SweepAxis{"operation.speed", 60.0, 140.0, points, "rpm"}});
+  const auto plan = full_factorial({SweepAxis{"operation.speed", 60.0, 140.0, points, "rpm", ""}});
   SweepOptions opts;
   opts.supportable_biomass = false;
   opts.threads = static_cast<int>(state.range(0));

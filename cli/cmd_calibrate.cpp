@@ -85,6 +85,9 @@ void add_calibrate_command(CLI::App& app) {
     std::vector<Override> overrides;
     for (const auto& s : o->case_opts.sets) overrides.push_back(parse_override(s));
     // Checked before the work: an existing folder without --force fails at once.
+    for (const auto& data : {o->kla_data, o->mixing_data}) {
+      if (!data.empty()) protect_from_replacement(data);
+    }
     RunFolder folder(o->out.out_dir, o->out.force);
     CalibrationSources src{o->case_opts.case_path, o->kla_data, o->mixing_data, utc_now()};
     std::optional<KlaCalibration> kla;

@@ -71,6 +71,7 @@ void add_kla_fit_command(CLI::App& app) {
     KlaFitOptions fo;
     parse_probe_lag(o->probe_lag, fo);
     // Checked before the work: an existing folder without --force fails at once.
+    protect_from_replacement(o->data);
     std::optional<RunFolder> folder;
     if (!o->out.out_dir.empty()) folder.emplace(o->out.out_dir, o->out.force);
     const DoTrace trace = read_do_trace(o->data);

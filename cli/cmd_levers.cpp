@@ -27,6 +27,7 @@ void add_levers_command(CLI::App& app) {
     const auto loaded = load_case(*opts);
     std::vector<Override> overrides;
     for (const auto& s : opts->sets) overrides.push_back(parse_override(s));
+    if (!lo->impeller_case.empty()) protect_from_replacement(lo->impeller_case);
     RunFolder folder(out->out_dir, out->force);
     const auto study = study_levers(loaded, overrides, *lo);
     fmt::print("{}", levers_text(loaded.data, study));

@@ -1,20 +1,19 @@
 // oxystrat sweep CASE --vary KEY=START:STOP:COUNT[:UNIT] ... --out DIR: the operating window.
 #include <fmt/format.h>
 
-#include <algorithm>
-#include <cmath>
-#include <functional>
 #include <optional>
 
 #include "cli/common.hpp"
+#include "cli/ranks.hpp"
+#include "input/numbers.hpp"
 #include "postproc/io/h5_writer.hpp"
 #include "postproc/io/network_output.hpp"
 #include "postproc/io/progress.hpp"
-#include "cli/ranks.hpp"
-#include "postproc/report/report.hpp"
 #include "postproc/io/run_folder.hpp"
-#include "solver/studies/sweep.hpp"
+#include "postproc/io/sweep_session.hpp"
+#include "postproc/report/report.hpp"
 #include "postproc/report/table_output.hpp"
+#include "solver/studies/sweep.hpp"
 
 namespace oxystrat::cli {
 namespace {
@@ -34,33 +33,13 @@ struct SweepCommandOptions {
   int uncertainty = 0;
 };
 
-SweepPlan make_plan(const SweepCommandOptions& o, const LoadedCase& base) {
-  std::vector<SweepAxis> axes;
-  for (const auto& v : o.vary) axes.push_back(parse_vary(v, base));
-  if (o.sample.empty()) return full_factorial(axes);
-  if (o.sample.rfind("lhs:", 0) != 0) throw CaseError("--sample '" + o.sample + "': expected lhs:N, e.g. --sample lhs:50");
-  int n = 0;
-  try {
-    n = std::stoi(o.sample.substr(4));
-  } catch (const std::exception&) {
-    n = 0;
-  }
-  if (n < 1 || n > 100000) throw CaseError("--sample '" + o.sample + "': N must be 1 to 100000");
-  return latin_hypercube(axes, n, o.seed);
-}
-
-// Least objective among feasible points (":max" asks for the largest).
-int choose(const std::vector<PointResult>& results, const std::string& objective) {
-  const bool maximise = objective.size() > 4 && objective.compare(objective.size() - 4, 4, ":max") == 0;
-  const std::string name = maximise ? objective.substr(0, objective.size() - 4) : objective;
-  int best = -1;
-  double best_v = 0.0;
-  for (size_t i = 0; i < results.size(); ++i) {
-    if (!results[i].ok || !results[i].feasible) continue;
-    const double v = summary_value(results[i].values, name) * (maximise ? -1.0 : 1.0);
-    if (std::isfinite(v) && (best < 0 || v < best_v)) best = static_cast<int>(i), best_v = v;
-  }
-  return best;
+// N of --sample lhs:N; 0 for a full-factorial grid.
+long sample_size(const std::string& sample) {
+  if (sample.empty()) return 0;
+  if (sample.rfind("lhs:", 0) != 0) throw CaseError("--sample '" + sample + "': expected lhs:N, e.g. --sample lhs:50");
+  const long long n = parse_integer(sample.substr(4)).value_or(0);
+  if (n < 1 || n > 100000) throw CaseError("--sample '" + sample + "': N must be a whole number from 1 to 100000");
+  return static_cast<long>(n);
 }
 
 }  // namespace
@@ -84,114 +63,80 @@ void add_sweep_command(CLI::App& app) {
                   "Summary value the chosen point minimises (NAME:max to maximise); names as in sweep.csv");
   cmd->add_flag("--with-mixing", o->with_mixing, "Also compute theta95 at every point");
   cmd->add_flag("--no-biomass", o->no_biomass, "Skip the supportable-biomass search (faster)");
-  cmd->add_flag("--resume", o->resume, "Continue an interrupted sweep from DIR.journal.csv");
+  cmd->add_flag("--resume", o->resume, "Continue an interrupted sweep from its journal (DIR.journal*.csv)");
   cmd->add_option("--threads", o->threads, "OpenMP threads (default: all cores)")->check(CLI::Range(0, 1024));
   cmd->add_option("--max-points", o->max_points,
-                  "Run at most this many new points, then stop: the journal keeps them for --resume (a time budget)");
+                  "Run at most this many new points, then stop: the journal keeps them for --resume (a time budget)")
+      ->check(CLI::Range(0L, 100000000L));
   cmd->callback([o] {
+    // Every check before any point runs.
     const auto base = load_case(o->case_opts);
     std::vector<Override> base_overrides;
     for (const auto& s : o->case_opts.sets) base_overrides.push_back(parse_override(s));
-    const SweepPlan plan = make_plan(*o, base);
-    // Under mpirun, rank r runs the points i with i % size == r; rank 0 gathers and writes.
+    const SweepOptions so{o->with_mixing, !o->no_biomass, o->uncertainty, o->seed, o->threads};
+    std::vector<SweepAxis> axes;
+    for (const auto& v : o->vary) axes.push_back(parse_vary(v, base));
+    const long lhs = sample_size(o->sample);
+    check_sweep_size(axes, lhs);
+    check_sweep_axes(base, base_overrides, axes);
+    check_objective(o->objective, so);
+    SweepPlan plan = lhs > 0 ? latin_hypercube(axes, static_cast<int>(lhs), o->seed) : full_factorial(axes);
+
+    // Under mpirun the points are dealt to the ranks; rank 0 writes the result.
     const auto rk = ranks();
     const bool lead = rk.rank == 0;
-    if (rk.size > 1 && (o->resume || o->max_points >= 0)) {
-      throw CaseError("--resume and --max-points work in a single process, not under mpirun");
-    }
-    std::optional<RunFolder> folder_slot;
-    if (lead) folder_slot.emplace(o->out.out_dir, o->out.force);
-    const std::string target = lead ? folder_slot->target().string() : std::string();
-    // The journal beside DIR keeps finished points, so an interrupted sweep loses nothing.
-    std::string signature = fmt::format("{:x}", std::hash<std::string>{}(base.source_text));
-    for (const auto& s : o->case_opts.sets) signature += " --set " + s;
-    for (const auto& v : o->vary) signature += " --vary " + v;
-    signature += " --sample " + o->sample + " --seed " + std::to_string(o->seed) +
-                 (o->with_mixing ? " mixing" : "") + (o->no_biomass ? " no-biomass" : "") +
-                 (o->uncertainty > 0 ? " uncertainty " + std::to_string(o->uncertainty) : "");
-    SweepJournal journal(target + ".journal.csv", signature);
-    std::vector<PointResult> results(plan.points.size());
-    std::vector<bool> done(plan.points.size(), false);
-    if (o->resume) {
-      for (auto& [i, r] : journal.load()) {
-        if (i < results.size()) results[i] = r, done[i] = true;
-      }
-    }
-    if (lead) journal.open(o->resume);
-    // Points to run now: not in the journal, and within --max-points.
-    std::vector<bool> skip = done;
-    size_t remaining = 0;
-    for (size_t i = 0; i < skip.size(); ++i) {
-      if (skip[i]) continue;
-      if (static_cast<int>(i % static_cast<size_t>(rk.size)) != rk.rank) {
-        skip[i] = true;  // another rank's point
-        continue;
-      }
-      if (o->max_points >= 0 && static_cast<long>(remaining) >= o->max_points) {
-        skip[i] = true;  // left for a later --resume
-      } else {
-        ++remaining;
-      }
-    }
-    const size_t left_over = rk.size > 1 ? 0
-                                         : static_cast<size_t>(std::count(skip.begin(), skip.end(), true)) -
-                                               static_cast<size_t>(std::count(done.begin(), done.end(), true));
+    std::optional<RunFolder> folder;
+    if (lead) folder.emplace(o->out.out_dir, o->out.force);
+    SweepSession session(base, base_overrides, std::move(plan), so,
+                         SweepJournal(output_folder_path(o->out.out_dir).string(),
+                                      sweep_signature(base, o->case_opts.sets, o->vary, o->sample, so), rk.rank),
+                         {o->resume, o->max_points}, {rk.rank, rk.size, share_lines});
+    const auto& share = session.share();
+    const size_t total = session.plan().points.size();
     if (lead) {
-      fmt::print("{}: {} points ({} to run{}{})\n", base.data.title, plan.points.size(), remaining,
-                 o->resume ? ", the rest from the journal" : "", rk.size > 1 ? fmt::format(" on rank 0 of {}", rk.size) : "");
+      fmt::print("{}: {} points ({} to run{}{})\n", base.data.title, total, share.now,
+                 session.from_journal() > 0 ? fmt::format(", {} from the journal", session.from_journal()) : "",
+                 rk.size > 1 ? fmt::format(", {} of them on rank 0 of {}", share.here, rk.size) : "");
     }
-    std::vector<std::string> mine;
+    std::vector<PointResult> results;
     {
-      Progress progress(lead ? remaining : 0, "points");
-      run_sweep(base, base_overrides, plan, {o->with_mixing, !o->no_biomass, o->uncertainty, o->seed, o->threads}, skip,
-                [&](size_t i, const PointResult& r) {
-                  results[i] = r;
-                  if (rk.size > 1) {
-                    mine.push_back(encode_point(i, r));
-                  } else {
-                    journal.record(i, r);
-                  }
-                  if (lead) progress.step();
-                });
+      Progress progress(lead ? share.here : 0, "points");
+      results = session.run([&] {
+        if (lead) progress.step();
+      });
     }
-    if (rk.size > 1) {
-      for (const auto& line : gather_lines(mine)) {
-        size_t i = 0;
-        PointResult r;
-        if (decode_point(line, i, r) && i < results.size()) results[i] = r;
-      }
-      if (!lead) return;
-    }
-    RunFolder& folder = *folder_slot;
-    if (left_over > 0) {
-      fmt::print("Stopped after {} new points as asked; {} of {} are in {}. Run again with --resume.\n", remaining,
-                 plan.points.size() - left_over, plan.points.size(), target + ".journal.csv");
+    if (!lead) return;
+    if (!session.completes()) {
+      fmt::print("Stopped after {} new points as asked; {} of {} are in the journal {}. Run again with --resume.\n",
+                 share.now, total - share.later, total,
+                 rk.size > 1 ? output_folder_path(o->out.out_dir).string() + ".journal*.csv" : session.journal_path());
       return;  // no result folder: the sweep is not complete
     }
+    const auto& p = session.plan();
     const auto pareto = pareto_front(results);
-    const int chosen = choose(results, o->objective);
+    const int chosen = choose_point(results, o->objective);
     size_t feasible_count = 0, failed = 0;
     for (const auto& r : results) feasible_count += r.ok && r.feasible, failed += !r.ok;
     fmt::print("{} feasible, {} failed", feasible_count, failed);
     if (chosen >= 0) {
       fmt::print("; chosen point {} (least {}):", chosen, o->objective);
-      for (const auto& ov : point_overrides(plan, static_cast<size_t>(chosen))) fmt::print(" {}", ov.raw);
+      for (const auto& ov : point_overrides(p, static_cast<size_t>(chosen))) fmt::print(" {}", ov.raw);
       fmt::print(", P gassed {:.4g} kW, DO min {:.4g} mmol/L", summary_value(results[chosen].values, "power_gassed"),
                  summary_value(results[chosen].values, "do_min"));
     }
     fmt::print("\n");
-    write_sweep_csv(folder.file("sweep.csv").string(), plan, results, pareto, chosen);
+    write_sweep_csv(folder->file("sweep.csv").string(), p, results, pareto, chosen);
     {
-      H5Writer h5(folder.file("result.h5").string());
+      H5Writer h5(folder->file("result.h5").string());
       write_case_h5(h5, base);
-      write_sweep_h5(h5, plan, results, pareto, chosen, o->objective);
+      write_sweep_h5(h5, p, results, pareto, chosen, o->objective);
       h5.close();
     }
-    write_text_file(folder.file("report.html").string(),
-                    report_page("oxystrat sweep: " + base.data.title, sweep_report_body(plan, results, pareto, chosen, o->objective)));
-    folder.commit();
-    journal.remove();
-    fmt::print("Wrote {}/sweep.csv, result.h5, report.html\n", folder.target().string());
+    write_text_file(folder->file("report.html").string(),
+                    report_page("oxystrat sweep: " + base.data.title, sweep_report_body(p, results, pareto, chosen, o->objective)));
+    folder->commit();
+    session.finish();
+    fmt::print("Wrote {}/sweep.csv, result.h5, report.html\n", folder->target().string());
   });
 }
 

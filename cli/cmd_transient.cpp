@@ -7,6 +7,7 @@
 #include "postproc/io/progress.hpp"
 #include "postproc/io/run_folder.hpp"
 #include "solver/oxygen/transient.hpp"
+#include "solver/oxygen/transient_limits.hpp"
 #include "postproc/report/transient_output.hpp"
 
 namespace oxystrat::cli {
@@ -54,6 +55,7 @@ void add_transient_command(CLI::App& app) {
     to.output_interval_s = time_option("--interval", o->interval);
     to.adaptive = !o->fixed_step;
     to.tolerance = o->tolerance;
+    check_transient_size(loaded.data, to);  // before anything is built
     if (to.duration_s / to.output_interval_s > 100000) {
       throw CaseError(fmt::format("--interval '{}' gives more than 100,000 field outputs over --duration '{}'; choose "
                                   "a longer interval",

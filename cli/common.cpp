@@ -2,6 +2,8 @@
 
 #include <fmt/format.h>
 
+#include "postproc/io/run_folder.hpp"
+
 namespace oxystrat::cli {
 
 void add_case_options(CLI::App& cmd, CaseOptions& o) {
@@ -21,7 +23,9 @@ void add_output_options(CLI::App& cmd, OutputOptions& o) {
 LoadedCase load_case(const CaseOptions& o) {
   std::vector<Override> overrides;
   for (const auto& s : o.sets) overrides.push_back(parse_override(s));
+  protect_from_replacement(o.case_path);
   auto loaded = read_case_file(o.case_path, overrides);
+  for (const auto& f : loaded.included_files) protect_from_replacement(f);
   for (const auto& note : loaded.notes) fmt::print(stderr, "warning: {}\n", note);
   return loaded;
 }

@@ -5,6 +5,8 @@
 #include <exception>
 
 #include "cli/common.hpp"
+#include "postproc/io/interrupts.hpp"
+#include "postproc/io/run_folder.hpp"
 #include "solver/linalg/memory_policy.hpp"
 #include "cli/ranks.hpp"
 
@@ -46,7 +48,9 @@ int run(int argc, char** argv) {
 
 int main(int argc, char** argv) {
   oxystrat::retain_freed_memory();
+  oxystrat::clean_up_on_interrupt();  // first: before MPI or OpenMP start threads
   oxystrat::cli::start_ranks(&argc, &argv);
+  oxystrat::set_run_folder_notes([](const std::string& s) { fmt::print(stderr, "note: {}\n", s); });
   const int code = run(argc, argv);
   oxystrat::cli::stop_ranks();
   return code;

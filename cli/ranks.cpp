@@ -77,4 +77,30 @@ std::vector<std::string> gather_lines(const std::vector<std::string>& mine) {
 #endif
 }
 
+std::vector<std::string> share_lines(const std::vector<std::string>& mine) {
+  if (ranks().size == 1) return mine;
+#ifdef OXYSTRAT_WITH_MPI
+  std::string packed;
+  for (const auto& l : mine) packed += l + "\n";
+  int length = static_cast<int>(packed.size());
+  const auto r = ranks();
+  std::vector<int> lengths(r.size), offsets(r.size, 0);
+  MPI_Allgather(&length, 1, MPI_INT, lengths.data(), 1, MPI_INT, MPI_COMM_WORLD);
+  for (int i = 1; i < r.size; ++i) offsets[i] = offsets[i - 1] + lengths[i - 1];
+  std::string all(static_cast<size_t>(offsets.back() + lengths.back()), '\0');
+  MPI_Allgatherv(packed.data(), length, MPI_CHAR, all.data(), lengths.data(), offsets.data(), MPI_CHAR, MPI_COMM_WORLD);
+  std::vector<std::string> lines;
+  size_t start = 0;
+  for (size_t i = 0; i < all.size(); ++i) {
+    if (all[i] == '\n') {
+      lines.push_back(all.substr(start, i - start));
+      start = i + 1;
+    }
+  }
+  return lines;
+#else
+  return mine;
+#endif
+}
+
 }  // namespace oxystrat::cli

@@ -21,5 +21,7 @@ Ranks ranks();
 
 //! Lines from every rank, concatenated in rank order on rank 0 (empty on the others).
 std::vector<std::string> gather_lines(const std::vector<std::string>& mine);
+//! Lines from every rank, concatenated in rank order, on every rank.
+std::vector<std::string> share_lines(const std::vector<std::string>& mine);
 
 }  // namespace oxystrat::cli

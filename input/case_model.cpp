@@ -37,9 +37,9 @@ void read_numerics(TomlSource& src, Case& c) {
   m.multiple_impeller_factor = src.number("model.multiple_impeller_factor", {0.3, 1.0}).value_or(1.0);
 }
 
-void merge_includes(toml::table& root, const std::string& file_name) {
+std::vector<std::string> merge_includes(toml::table& root, const std::string& file_name) {
   const toml::node* inc = root.get("include");
-  if (inc == nullptr) return;
+  if (inc == nullptr) return {};
   const auto line = inc->source().begin.line;
   const auto bad = [&] {
     throw CaseError(fmt::format("{}:{}: include: expected a list of file names, e.g. include = [\"calibration.toml\"]",
@@ -65,8 +65,15 @@ void merge_includes(toml::table& root, const std::string& file_name) {
       throw CaseError(fmt::format("{}:{}: include: {} is listed twice", file_name, line, shown));
     }
     seen.push_back(shown);
-    std::ifstream in(path, std::ios::binary);
     std::error_code ec;  // the non-throwing tests: a name the system refuses (too long) is just "cannot open"
+    if (const auto st = std::filesystem::status(path, ec); std::filesystem::exists(st) &&
+                                                           !std::filesystem::is_regular_file(st) &&
+                                                           !std::filesystem::is_directory(st)) {
+      // Opened, a FIFO blocks and a device reads for ever.
+      throw CaseError(fmt::format("{}:{}: include = \"{}\": {} is a device or pipe, not a file", file_name, line, name,
+                                  shown));
+    }
+    std::ifstream in(path, std::ios::binary);
     if (!in || !std::filesystem::is_regular_file(path, ec)) {
       throw CaseError(fmt::format("{}:{}: include = \"{}\": cannot open {}{} (a relative path is taken from the case "
                                   "file's folder)",
@@ -109,6 +116,7 @@ void merge_includes(toml::table& root, const std::string& file_name) {
     }
   }
   root.erase("include");
+  return seen;
 }
 
 }  // namespace oxystrat::detail

@@ -2,6 +2,8 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
+
 #include "physics/solubility.hpp"
 
 namespace oxystrat::detail {
@@ -44,9 +46,11 @@ void read_operation(TomlSource& src, Case& c) {
   o.speed_rps = src.require_quantity("operation.speed", Dimension::speed, {0.0, 50.0, true}, "120 rpm");
   o.gas_flow_normal_m3_s = read_gas_flow(src, "operation.gas_flow", c.vessel);
   o.oxygen_fraction = src.number("operation.oxygen_fraction", {0.0, 1.0}).value_or(physics::air_o2_fraction);
-  o.co2_fraction = src.number("operation.co2_fraction", {0.0, 0.2}).value_or(0.00042);
+  // Air's CO2 by default, but never more than the O2 leaves (pure O2 has none).
+  o.co2_fraction = src.number("operation.co2_fraction", {0.0, 0.2}).value_or(std::min(0.00042, 1.0 - o.oxygen_fraction));
   if (o.oxygen_fraction + o.co2_fraction > 1.0) {
-    src.fail("operation.co2_fraction", "oxygen_fraction + co2_fraction must not exceed 1");
+    src.fail("operation.co2_fraction", fmt::format("oxygen_fraction + co2_fraction must not exceed 1 ({:.4g} + {:.4g})",
+                                                   o.oxygen_fraction, o.co2_fraction));
   }
   if (o.gas_flow_normal_m3_s > 0.0 && !c.has_sparger) {
     src.fail("operation.gas_flow", "gas is sparged but the case has no [sparger] table");

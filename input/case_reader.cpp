@@ -2,10 +2,11 @@
 
 #include <fmt/format.h>
 
-#include <fstream>
 #include <sstream>
 
+#include "input/case_cross_checks.hpp"
 #include "input/case_sections.hpp"
+#include "input/input_file.hpp"
 #include "input/toml_source.hpp"
 
 namespace oxystrat {
@@ -33,9 +34,9 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   } catch (const toml::parse_error& e) {
     throw CaseError(fmt::format("{}:{}: not valid TOML: {}", file_name, e.source().begin.line, e.description()));
   }
-  merge_includes(root, file_name);
-  TomlSource src(std::move(root), file_name);
   LoadedCase out;
+  out.included_files = merge_includes(root, file_name);
+  TomlSource src(std::move(root), file_name);
   for (const auto& o : overrides) {
     src.apply(o);
     out.overrides.push_back(o.raw);
@@ -56,6 +57,9 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   src.check_no_unknown_keys();
   check_geometry(src, c, out.notes);
   note_unused_rheology_keys(src, c, out.notes);
+  check_control_limits(src, c);
+  check_gas_and_boiling(src, c, out.notes);
+  check_events(src, c, text, file_name, overrides);
   out.file_name = file_name;
   out.source_text = text;
   std::ostringstream os;
@@ -72,11 +76,8 @@ std::optional<std::string> raw_value(const LoadedCase& loaded, const std::string
 }
 
 LoadedCase read_case_file(const std::string& path, const std::vector<Override>& overrides) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) throw CaseError(fmt::format("{}: cannot open the case file", path));
-  std::ostringstream ss;
-  ss << in.rdbuf();
-  return read_case_text(ss.str(), path, overrides);
+  // Not a device or a pipe, and not megabytes: a case is a few kilobytes of TOML.
+  return read_case_text(read_input_file(path, "case file", 16u << 20), path, overrides);
 }
 
 }  // namespace oxystrat

@@ -30,6 +30,7 @@ struct LoadedCase {
   std::string effective_text;  //!< the case with overrides applied, as TOML
   std::vector<std::string> overrides;  //!< the --set arguments, in order
   std::vector<std::string> notes;      //!< warnings about the input (not errors)
+  std::vector<std::string> included_files;  //!< the files `include` named, as opened
 };
 
 //! The value of `key` as written in the effective case text (string values without quotes), or

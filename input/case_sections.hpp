@@ -53,8 +53,8 @@ void read_numerics(TomlSource& src, Case& c);
 //! calibrate` writes), paths relative to the case file's folder. Included keys are defaults: the
 //! case's own keys and --set override them. An included file may hold only a [model] table, so
 //! includes do not nest and cannot form cycles. Each file is checked on its own first, so a bad
-//! value is reported at its own file and line.
-void merge_includes(toml::table& root, const std::string& file_name);
+//! value is reported at its own file and line. Returns the included files as the case names them.
+std::vector<std::string> merge_includes(toml::table& root, const std::string& file_name);
 
 //! Geometry that the single keys cannot check alone (input/case_checks.cpp): errors, and notes
 //! for what is allowed but outside the correlations' range.

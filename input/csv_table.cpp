@@ -8,6 +8,7 @@
 #include <sstream>
 
 #include "input/errors.hpp"
+#include "input/input_file.hpp"
 #include "input/numbers.hpp"
 
 namespace oxystrat {
@@ -112,20 +113,7 @@ CsvTable parse_csv_table(std::string_view text, const std::string& file_name, st
 }
 
 CsvTable read_csv_table(const std::string& path, std::string_view what, std::string_view example_header) {
-  std::error_code ec;
-  const auto status = std::filesystem::status(path, ec);
-  if (ec || !std::filesystem::exists(status)) throw CaseError(fmt::format("{}: cannot open the {}: no such file", path, what));
-  if (!std::filesystem::is_regular_file(status)) {
-    throw CaseError(fmt::format("{}: the {} must be a regular file, not a folder or device", path, what));
-  }
-  if (std::filesystem::file_size(path, ec) > kMaxDataFileBytes) {
-    throw CaseError(fmt::format("{}: the {} is larger than 64 MiB; expected a table of measured points", path, what));
-  }
-  std::ifstream in(path, std::ios::binary);
-  if (!in) throw CaseError(fmt::format("{}: cannot open the {}", path, what));
-  std::stringstream buf;
-  buf << in.rdbuf();
-  return parse_csv_table(buf.str(), path, example_header);
+  return parse_csv_table(read_input_file(path, what, kMaxDataFileBytes), path, example_header);
 }
 
 }  // namespace oxystrat

@@ -92,7 +92,15 @@ void TomlSource::apply(const Override& o) {
   try {
     parsed = toml::parse("v = " + o.value);
     is_toml = parsed.get("v") != nullptr && !parsed.get("v")->is_table();
-  } catch (const toml::parse_error&) {
+  } catch (const toml::parse_error& e) {
+    // Plain text ("110 rpm") is taken as a string, but a value that starts as a TOML string,
+    // list or table must be one whole: '"x" garbage' is a mistake, not the text it spells.
+    const auto first = o.value.find_first_not_of(' ');
+    if (first != std::string::npos && std::string("\"'[{").find(o.value[first]) != std::string::npos) {
+      throw CaseError(fmt::format("--set '{}': the value {} is not one TOML value ({}); quote the whole value, e.g. "
+                                  "--set 'title=\"my vessel\"', or give plain text without quotes",
+                                  o.raw, o.value, e.description()));
+    }
     is_toml = false;
   }
   toml::node* container = &root_;

@@ -1,6 +1,8 @@
 #include "postproc/io/h5_writer.hpp"
 #include "input/errors.hpp"
 
+#include <cerrno>
+#include <cstring>
 #include <stdexcept>
 
 namespace oxystrat {
@@ -8,6 +10,12 @@ namespace {
 
 void check(herr_t status, const std::string& what) {
   if (status < 0) throw IoError("HDF5: cannot " + what);
+}
+
+// A call that writes to the disk, with errno cleared before it: the system's reason when it
+// failed ("No space left on device").
+void check_io(herr_t status, const std::string& what) {
+  if (status < 0) throw IoError("HDF5: cannot " + what + (errno != 0 ? std::string(": ") + std::strerror(errno) : ""));
 }
 
 hid_t checked(hid_t id, const std::string& what) {
@@ -38,6 +46,14 @@ void string_attribute(hid_t object, const std::string& name, const std::string& 
 }  // namespace
 
 H5Writer::H5Writer(const std::string& path) : path_(path) {
+  // A file whose close failed (a full disk) stays half-open inside the library, and HDF5's own
+  // clean-up at exit then crashes on it: every file is closed here explicitly, so that clean-up is
+  // not needed. Effective only before the library's first call; later calls change nothing.
+  static const bool no_exit_cleanup = [] {
+    H5dont_atexit();
+    return true;
+  }();
+  (void)no_exit_cleanup;
   H5Eset_auto2(H5E_DEFAULT, nullptr, nullptr);  // we report errors ourselves
   file_ = checked(H5Fcreate(path.c_str(), H5F_ACC_TRUNC, H5P_DEFAULT, H5P_DEFAULT), "create " + path);
   link_props_ = H5Pcreate(H5P_LINK_CREATE);
@@ -53,9 +69,10 @@ void H5Writer::close() {
   if (link_props_ >= 0) H5Pclose(link_props_);
   link_props_ = -1;
   if (file_ >= 0) {
+    errno = 0;
     const herr_t s = H5Fclose(file_);
     file_ = -1;
-    check(s, "close " + path_);
+    check_io(s, "close " + path_);
   }
 }
 
@@ -66,7 +83,8 @@ void H5Writer::write_numeric(const std::string& path, hid_t type, const void* da
                             "create dataset " + path);
   bool empty = false;
   for (int i = 0; i < rank; ++i) empty = empty || dims[i] == 0;
-  if (!empty) check(H5Dwrite(set, type, H5S_ALL, H5S_ALL, H5P_DEFAULT, data), "write " + path);
+  errno = 0;
+  if (!empty) check_io(H5Dwrite(set, type, H5S_ALL, H5S_ALL, H5P_DEFAULT, data), "write " + path);
   string_attribute(set, "units", units);
   H5Dclose(set);
   H5Sclose(space);
@@ -124,6 +142,18 @@ void H5Writer::write(const std::string& path, const std::vector<std::string>& te
 void H5Writer::attribute(const std::string& object, const std::string& name, const std::string& value) {
   const hid_t obj = checked(H5Oopen(file_, full(object).c_str(), H5P_DEFAULT), "open " + full(object));
   string_attribute(obj, name, value);
+  H5Oclose(obj);
+}
+
+void H5Writer::attribute(const std::string& object, const std::string& name, const std::vector<int>& values) {
+  const hid_t obj = checked(H5Oopen(file_, full(object).c_str(), H5P_DEFAULT), "open " + full(object));
+  const hsize_t n = values.size();
+  const hid_t space = n == 0 ? H5Screate(H5S_NULL) : H5Screate_simple(1, &n, nullptr);
+  const hid_t attr = checked(H5Acreate2(obj, name.c_str(), H5T_NATIVE_INT, space, H5P_DEFAULT, H5P_DEFAULT),
+                             "create attribute " + name);
+  if (n > 0) check(H5Awrite(attr, H5T_NATIVE_INT, values.data()), "write attribute " + name);
+  H5Aclose(attr);
+  H5Sclose(space);
   H5Oclose(obj);
 }
 

@@ -27,6 +27,8 @@ class H5Writer {
   void write(const std::string& path, const std::vector<std::string>& texts, const std::string& units = "1");
   //! String attribute on an existing object (dataset or group) or on "/".
   void attribute(const std::string& object, const std::string& name, const std::string& value);
+  //! Integer-array attribute on an existing object.
+  void attribute(const std::string& object, const std::string& name, const std::vector<int>& values);
   //! Closes the file; errors surface here rather than in the destructor.
   void close();
   //! Puts every following path under `group` (e.g. "/cases/pilot"); "" for the file root.

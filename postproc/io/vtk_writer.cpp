@@ -1,4 +1,5 @@
 #include "postproc/io/vtk_writer.hpp"
+#include "postproc/io/file_output.hpp"
 #include "input/errors.hpp"
 
 #include <vtkCellData.h>
@@ -118,7 +119,7 @@ void write_pvd(const std::string& path, const std::vector<double>& times_s, cons
     out << "    <DataSet timestep=\"" << times_s[i] << "\" part=\"0\" file=\"" << files[i] << "\"/>\n";
   }
   out << "  </Collection>\n</VTKFile>\n";
-  if (!out) throw IoError("cannot write " + path);
+  finish_file(out, path);
 }
 
 }  // namespace oxystrat

@@ -1,4 +1,5 @@
 #include "postproc/report/calibrate_output.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -25,13 +26,16 @@ std::string interval(double lo, double hi, const char* fmt_spec = "{:.4g}") {
   return fmt::format(fmt::runtime(std::string(fmt_spec) + " to " + fmt_spec), lo, hi);
 }
 
+// "R^2 (ln kLa) 0.986, " or nothing when the measured values have no spread.
+std::string r_squared(const KlaCalibration& k, const char* format) {
+  return k.r_squared ? fmt::format(fmt::runtime(format), *k.r_squared) : std::string();
+}
+
 std::string held_or_interval(bool fitted, double lo, double hi) {
   return fitted ? interval(lo, hi, "{:.3g}") : "held (not identifiable)";
 }
 
-void check_stream(const std::ofstream& out, const std::string& path) {
-  if (!out) throw IoError("cannot write " + path);
-}
+void check_stream(std::ofstream& out, const std::string& path) { finish_file(out, path); }
 
 }  // namespace
 
@@ -48,10 +52,10 @@ std::string calibration_toml(const CalibrationSources& src, const KlaCalibration
                      held_or_interval(kla->power_exponent_fitted, kla->power_exponent_lo, kla->power_exponent_hi),
                      kla->fitted.gas_exponent,
                      held_or_interval(kla->gas_exponent_fitted, kla->gas_exponent_lo, kla->gas_exponent_hi));
-    s += fmt::format("#   R^2 (ln kLa) {:.3f}, scatter {:.1f} % (RMS of ln fitted/measured); before: a = {:.4g}, alpha = "
+    s += fmt::format("#   {}scatter {:.1f} % (RMS of ln fitted/measured); before: a = {:.4g}, alpha = "
                      "{:.3g}, beta = {:.3g}\n",
-                     kla->r_squared, 100.0 * kla->rms_log, kla->before.prefactor, kla->before.power_exponent,
-                     kla->before.gas_exponent);
+                     r_squared(*kla, "R^2 (ln kLa) {:.3f}, "), 100.0 * kla->rms_log, kla->before.prefactor,
+                     kla->before.power_exponent, kla->before.gas_exponent);
     s += fmt::format("#   Covered: speed {:.4g}-{:.4g} rpm, gas {:.3g}-{:.3g} vvm, Pg/V {:.3g}-{:.3g} kW/m3, vs {:.3g}-{:.3g} "
                      "mm/s.\n",
                      rpm(kla->speed_min_rps), rpm(kla->speed_max_rps), kla->vvm_min, kla->vvm_max, kla->pv_min / 1e3,
@@ -131,7 +135,7 @@ void write_calibration_h5(H5Writer& h5, const CalibrationSources& src, const Kla
     h5.write(g + "prefactor_before", kla->before.prefactor, "1/s per (W/m3)^alpha (m/s)^beta");
     h5.write(g + "power_exponent_before", kla->before.power_exponent, "1");
     h5.write(g + "gas_exponent_before", kla->before.gas_exponent, "1");
-    h5.write(g + "r_squared", kla->r_squared, "1");
+    if (kla->r_squared) h5.write(g + "r_squared", *kla->r_squared, "1");
     h5.write(g + "rms_log_residual", kla->rms_log, "1");
     h5.write(g + "exponent_correlation", kla->exponent_correlation, "1");
     std::vector<double> pv, vs, speed, gas, meas, fit, before, zone, res, weight, tf;
@@ -145,7 +149,7 @@ void write_calibration_h5(H5Writer& h5, const CalibrationSources& src, const Kla
       meas.push_back(r.measured_1_s);
       fit.push_back(r.fitted_1_s);
       before.push_back(r.before_1_s);
-      zone.push_back(r.zone_mean_1_s >= 0.0 ? r.zone_mean_1_s : std::nan(""));
+      if (r.zone_mean_1_s >= 0.0) zone.push_back(r.zone_mean_1_s);
       res.push_back(r.residual_log);
       weight.push_back(r.weight);
       tf.push_back(r.inputs.temperature_factor * r.inputs.kla_factor);
@@ -161,7 +165,7 @@ void write_calibration_h5(H5Writer& h5, const CalibrationSources& src, const Kla
     h5.write(g + "measured", meas, "1/s");
     h5.write(g + "fitted", fit, "1/s");
     h5.write(g + "before", before, "1/s");
-    h5.write(g + "zone_model_mean", zone, "1/s");
+    if (zone.size() == kla->rows.size()) h5.write(g + "zone_model_mean", zone, "1/s");  // not with --no-zone-check
     h5.write(g + "residual_log", res, "1");
     h5.attribute(g + "residual_log", "meaning", "ln(fitted / measured)");
     h5.write(g + "weight", weight, "1");
@@ -172,8 +176,10 @@ void write_calibration_h5(H5Writer& h5, const CalibrationSources& src, const Kla
     const std::string g = "/calibration/mixing/";
     h5.write(g + "source", src.mixing_data);
     h5.write(g + "exchange_constant", mix->fitted, "1");
-    h5.write(g + "exchange_constant_ci_low", mix->lo, "1");
-    h5.write(g + "exchange_constant_ci_high", mix->hi, "1");
+    if (std::isfinite(mix->lo) && std::isfinite(mix->hi)) {  // none from one mixing time
+      h5.write(g + "exchange_constant_ci_low", mix->lo, "1");
+      h5.write(g + "exchange_constant_ci_high", mix->hi, "1");
+    }
     h5.write(g + "exchange_constant_before", mix->before, "1");
     h5.write(g + "rms_log_residual", mix->rms_log, "1");
     std::vector<double> speed, gas, meas, fit, before, res, sens, weight;
@@ -218,8 +224,8 @@ std::string calibration_text(const CalibrationSources& src, const KlaCalibration
     s += fmt::format("  {:<8} {:>10.3g}  {:<26} {:>10.3g}\n", "beta", kla->fitted.gas_exponent,
                      held_or_interval(kla->gas_exponent_fitted, kla->gas_exponent_lo, kla->gas_exponent_hi),
                      kla->before.gas_exponent);
-    s += fmt::format("  R^2 {:.3f} (ln kLa), scatter {:.1f} % (RMS of ln fitted/measured), {} unknowns\n", kla->r_squared,
-                     100.0 * kla->rms_log, kla->parameters);
+    s += fmt::format("  {}scatter {:.1f} % (RMS of ln fitted/measured), {} unknowns\n",
+                     r_squared(*kla, "R^2 {:.3f} (ln kLa), "), 100.0 * kla->rms_log, kla->parameters);
     s += fmt::format("  covered: speed {:.4g}-{:.4g} rpm, gas {:.3g}-{:.3g} vvm, Pg/V {:.3g}-{:.3g} kW/m3, vs {:.3g}-{:.3g} mm/s "
                      "(beyond: extrapolation)\n",
                      rpm(kla->speed_min_rps), rpm(kla->speed_max_rps), kla->vvm_min, kla->vvm_max, kla->pv_min / 1e3,
@@ -291,10 +297,11 @@ std::string calibration_report_body(const CalibrationSources& src, const KlaCali
               held_or_interval(kla->gas_exponent_fitted, kla->gas_exponent_lo, kla->gas_exponent_hi),
               fmt::format("{:.3g}", kla->before.gas_exponent));
     s += "</table>\n";
-    s += fmt::format("<p>{} points, {} unknowns; R&sup2; (ln kLa) {:.3f}; scatter {:.1f} % (RMS of ln fitted/measured). "
+    s += fmt::format("<p>{} points, {} unknowns; {}scatter {:.1f} % (RMS of ln fitted/measured). "
                      "Covered: Pg/V {:.3g}&ndash;{:.3g} kW/m&sup3;, vs {:.3g}&ndash;{:.3g} mm/s; beyond that range the "
                      "correlation is an extrapolation.</p>\n",
-                     kla->points, kla->parameters, kla->r_squared, 100.0 * kla->rms_log, kla->pv_min / 1e3,
+                     kla->points, kla->parameters, r_squared(*kla, "R&sup2; (ln kLa) {:.3f}; "), 100.0 * kla->rms_log,
+                     kla->pv_min / 1e3,
                      kla->pv_max / 1e3, kla->vs_min * 1e3, kla->vs_max * 1e3);
     s += "</div><div>\n";
     warnings(kla->warnings);

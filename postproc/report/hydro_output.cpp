@@ -1,4 +1,5 @@
 #include "postproc/report/hydro_output.hpp"
+#include "postproc/io/file_output.hpp"
 #include "solver/flow/viscous_flow.hpp"
 #include "input/errors.hpp"
 
@@ -128,7 +129,7 @@ void write_mixing_csv(const std::string& path, const MixingResult& m) {
   for (size_t i = 0; i < m.time_s.size(); ++i) {
     out << fmt::format("{:.6g},{:.6g},{:.6g}\n", m.time_s[i], m.probe[i], m.max_deviation[i]);
   }
-  if (!out) throw IoError("cannot write " + path);
+  finish_file(out, path);
 }
 
 }  // namespace oxystrat

@@ -1,4 +1,5 @@
 #include "postproc/report/kla_fit_output.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -56,21 +57,31 @@ void write_kla_fit_csv(const std::string& path, const DoTrace& tr, const KlaFitR
     out << fmt::format("{:.10g},{:.8g},{:.8g},{:.6g}\n", tr.time_s[i], in_unit(tr, tr.value[i]),
                        in_unit(tr, fit.fitted[i]), in_unit(tr, fit.residual[i]));
   }
-  if (!out) throw IoError("cannot write " + path);
+  finish_file(out, path);
 }
 
 void write_kla_fit_h5(H5Writer& h5, const DoTrace& tr, const KlaFitOptions& o, const KlaFitResult& fit) {
   const std::string du = si_do_unit(tr);
   h5.write("/kla_fit/kla", fit.kla_1_s, "1/s");
-  h5.write("/kla_fit/kla_ci_low", fit.kla_ci_low_1_s, "1/s");
-  h5.write("/kla_fit/kla_ci_high", fit.kla_ci_high_1_s, "1/s");
-  h5.attribute("/kla_fit/kla_ci_low", "meaning",
-               fmt::format("{:.0f} % confidence interval from s^2 (J^T J)^-1 and the Student-t quantile {:.6g}",
-                           100.0 * o.confidence, fit.t_quantile));
+  // An interval that cannot be computed (its parameter cannot be separated from the others) is
+  // not written; the probe_lag attribute says so.
+  const bool kla_interval = std::isfinite(fit.kla_ci_low_1_s) && std::isfinite(fit.kla_ci_high_1_s);
+  const bool lag_interval = std::isfinite(fit.probe_lag_ci_low_s) && std::isfinite(fit.probe_lag_ci_high_s);
+  if (kla_interval) {
+    h5.write("/kla_fit/kla_ci_low", fit.kla_ci_low_1_s, "1/s");
+    h5.write("/kla_fit/kla_ci_high", fit.kla_ci_high_1_s, "1/s");
+    h5.attribute("/kla_fit/kla_ci_low", "meaning",
+                 fmt::format("{:.0f} % confidence interval from s^2 (J^T J)^-1 and the Student-t quantile {:.6g}",
+                             100.0 * o.confidence, fit.t_quantile));
+  }
   h5.write("/kla_fit/probe_lag", fit.probe_lag_s, "s");
   h5.attribute("/kla_fit/probe_lag", "mode", lag_mode_text(o));
-  h5.write("/kla_fit/probe_lag_ci_low", fit.probe_lag_ci_low_s, "s");
-  h5.write("/kla_fit/probe_lag_ci_high", fit.probe_lag_ci_high_s, "s");
+  if (lag_interval) {
+    h5.write("/kla_fit/probe_lag_ci_low", fit.probe_lag_ci_low_s, "s");
+    h5.write("/kla_fit/probe_lag_ci_high", fit.probe_lag_ci_high_s, "s");
+  } else {
+    h5.attribute("/kla_fit/probe_lag", "interval", "undetermined: the trace cannot separate tau_p from the step time");
+  }
   h5.write("/kla_fit/cstar", fit.cstar, du);
   h5.attribute("/kla_fit/cstar", "mode", o.saturation ? "given" : "fitted");
   h5.write("/kla_fit/steady", fit.steady, du);

@@ -1,4 +1,5 @@
 #include "postproc/report/levers_output.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -79,7 +80,7 @@ void write_levers_csv(const std::string& path, const LeversStudy& s) {
                        e.pco2_max_pa / kMmHg, e.head_pressure_pa / 1e5, 100.0 * e.oxygen_fraction, e.do_min_mol_m3,
                        100.0 * e.volume_fraction_below_critical, 3600.0 * e.kla_mean_1_s, note);
   }
-  if (!out) throw IoError("cannot write " + path);
+  finish_file(out, path);
 }
 
 void write_levers_h5(H5Writer& h5, const LeversStudy& s) {

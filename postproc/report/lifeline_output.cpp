@@ -1,4 +1,5 @@
 #include "postproc/report/lifeline_output.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -216,7 +217,7 @@ void write_lifelines_csv(const std::string& cells_path, const std::string& paths
     }
     cells << "\n";
   }
-  if (!cells) throw IoError("cannot write " + cells_path);
+  finish_file(cells, cells_path);
   std::ofstream paths(paths_path);
   paths << "cell,time [s],zone,DO [mmol/L]\n";
   for (size_t c = 0; c < r.trajectories.size(); ++c) {
@@ -226,7 +227,7 @@ void write_lifelines_csv(const std::string& cells_path, const std::string& paths
             << (do_field.empty() ? std::string() : fmt::format("{:.6g}", do_field[t.zone[i]])) << "\n";
     }
   }
-  if (!paths) throw IoError("cannot write " + paths_path);
+  finish_file(paths, paths_path);
 }
 
 std::string lifeline_html(const LifelineResult& r, const ZoneNetwork& net, const std::vector<double>& do_field,

@@ -1,4 +1,5 @@
 #include "postproc/report/oxygen_output.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -136,7 +137,7 @@ void write_profile_csv(const std::string& path, const CaseRun& run) {
     out << fmt::format("{:.5g},{:.6g},{:.6g},{:.6g},{:.6g},{:.6g},{:.6g}\n", p.z[j], p.min[j], p.mean[j], p.max[j],
                        std::isnan(ps.mean[j]) ? 0.0 : ps.mean[j], 3600.0 * pk.mean[j], pe.mean[j]);
   }
-  if (!out) throw IoError("cannot write " + path);
+  finish_file(out, path);
 }
 
 std::vector<CellArray> oxygen_cell_arrays(const CaseRun& run) {

@@ -1,4 +1,5 @@
 #include "postproc/report/report.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -54,7 +55,7 @@ std::vector<svg::Outline> outlines(const Case& c) {
 void write_text_file(const std::string& path, const std::string& text) {
   std::ofstream out(path, std::ios::binary);
   out << text;
-  if (!out) throw IoError("cannot write " + path);
+  finish_file(out, path);
 }
 
 std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s, const Verdict* verdict) {

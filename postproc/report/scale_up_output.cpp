@@ -1,4 +1,5 @@
 #include "postproc/report/scale_up_output.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -77,7 +78,7 @@ void write_scale_up_csv(const std::string& path, const ScaleUpStudy& s) {
   };
   row("pilot", s.pilot, true, false);
   for (const auto& r : s.rows) row(r.criterion, r.production, r.reached, true);
-  if (!out) throw IoError("cannot write " + path);
+  finish_file(out, path);
 }
 
 void write_scale_up_h5(H5Writer& h5, const ScaleUpStudy& s) {

@@ -1,4 +1,5 @@
 #include "postproc/report/table_output.hpp"
+#include "postproc/io/file_output.hpp"
 #include "input/errors.hpp"
 
 #include <fmt/format.h>
@@ -6,6 +7,7 @@
 #include <cmath>
 #include <cstdio>
 #include <fstream>
+#include <limits>
 #include <sstream>
 #include <stdexcept>
 
@@ -27,8 +29,24 @@ std::string csv_quote(const std::string& s) {
   return out + "\"";
 }
 
-void check_stream(const std::ofstream& out, const std::string& path) {
-  if (!out) throw IoError("cannot write " + path);
+void check_stream(std::ofstream& out, const std::string& path) { finish_file(out, path); }
+
+// One value per case or point. A value that does not apply (no gas) or a failed point has no
+// entry: such entries hold 0 and the attribute has_value (1/0 per entry) marks them; a column with
+// no value at all is not written (docs/outputs.md). NaN is never written.
+void write_column(H5Writer& h5, const std::string& path, const std::vector<double>& values, const std::string& unit,
+                  const std::string& label) {
+  std::vector<int> has(values.size());
+  std::vector<double> written(values.size(), 0.0);
+  size_t count = 0;
+  for (size_t i = 0; i < values.size(); ++i) {
+    has[i] = std::isfinite(values[i]) ? 1 : 0;
+    if (has[i]) written[i] = values[i], ++count;
+  }
+  if (count == 0) return;
+  h5.write(path, written, unit);
+  if (!label.empty()) h5.attribute(path, "label", label);
+  if (count < values.size()) h5.attribute(path, "has_value", has);
 }
 
 }  // namespace
@@ -74,8 +92,7 @@ void write_compare_h5(H5Writer& h5, const std::vector<std::string>& names,
   for (size_t q = 0; q < values.front().size(); ++q) {
     std::vector<double> row;
     for (const auto& v : values) row.push_back(v[q].value);
-    h5.write("/compare/" + values.front()[q].name, row, values.front()[q].unit);
-    h5.attribute("/compare/" + values.front()[q].name, "label", values.front()[q].label);
+    write_column(h5, "/compare/" + values.front()[q].name, row, values.front()[q].unit, values.front()[q].label);
   }
 }
 
@@ -147,83 +164,8 @@ void write_sweep_h5(H5Writer& h5, const SweepPlan& plan, const std::vector<Point
     for (size_t i = 0; i < n; ++i) {
       if (results[i].ok) col[i] = results[i].values[q].value;
     }
-    const std::string path = "/sweep/" + (*header)[q].name;
-    h5.write(path, col, (*header)[q].unit);
-    h5.attribute(path, "missing", "NaN where the point failed or the value does not apply");
+    write_column(h5, "/sweep/" + (*header)[q].name, col, (*header)[q].unit, "");
   }
 }
-
-SweepJournal::SweepJournal(std::string path, std::string signature) : path_(std::move(path)), signature_(std::move(signature)) {}
-
-std::map<size_t, PointResult> SweepJournal::load() const {
-  std::map<size_t, PointResult> done;
-  std::ifstream in(path_);
-  if (!in) return done;
-  std::string line;
-  if (!std::getline(in, line) || line != "# " + signature_) {
-    throw CaseError(path_ + " belongs to a different sweep (other case, overrides or --vary); remove it or "
-                                     "run without --resume");
-  }
-  while (std::getline(in, line)) {
-    size_t index = 0;
-    PointResult r;
-    if (decode_point(line, index, r)) done[index] = r;
-  }
-  return done;
-}
-
-void SweepJournal::open(bool resume) {
-  if (resume) {
-    std::ifstream probe(path_);
-    if (probe) return;
-  }
-  std::ofstream out(path_, std::ios::trunc);
-  out << "# " << signature_ << "\n";
-  check_stream(out, path_);
-}
-
-std::string encode_point(size_t index, const PointResult& r) {
-  std::string s = fmt::format("{}\t{}\t{}\t{}", index, r.ok ? 1 : 0, r.feasible ? 1 : 0, one_line(r.error));
-  for (const auto& v : r.values) s += fmt::format("\t{}|{}|{}|{:.17g}", v.name, v.unit, v.label, v.value);
-  return s + "\tend";
-}
-
-bool decode_point(const std::string& line, size_t& index, PointResult& r) {
-  std::istringstream row(line);
-  std::string field;
-  std::vector<std::string> f;
-  while (std::getline(row, field, '\t')) f.push_back(field);
-  if (f.size() < 5 || f.back() != "end") return false;  // cut short by an interruption
-  try {
-    index = std::stoul(f[0]);
-  } catch (const std::exception&) {
-    return false;
-  }
-  r = PointResult{};
-  r.ok = f[1] == "1";
-  r.feasible = f[2] == "1";
-  r.error = f[3];
-  for (size_t k = 4; k + 1 < f.size(); ++k) {
-    std::istringstream v(f[k]);
-    SummaryValue s;
-    std::string value;
-    if (!std::getline(v, s.name, '|') || !std::getline(v, s.unit, '|') || !std::getline(v, s.label, '|') ||
-        !std::getline(v, value)) {
-      return false;
-    }
-    s.value = std::strtod(value.c_str(), nullptr);
-    r.values.push_back(s);
-  }
-  return true;
-}
-
-void SweepJournal::record(size_t index, const PointResult& r) {
-  std::ofstream out(path_, std::ios::app);
-  out << encode_point(index, r) << "\n";
-  out.flush();
-  check_stream(out, path_);
-}
-
-void SweepJournal::remove() { std::remove(path_.c_str()); }
 
 }  // namespace oxystrat

@@ -1,5 +1,5 @@
-// Tables of summary values: compare.csv / sweep.csv, their HDF5 groups, the terminal table, and
-// the sweep journal that lets an interrupted sweep resume.
+// Tables of summary values: compare.csv / sweep.csv, their HDF5 groups, the terminal table. (The
+// sweep journal lives in postproc/io/sweep_journal.hpp, included here for older callers.)
 #pragma once
 
 #include <map>
@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "postproc/io/h5_writer.hpp"
+#include "postproc/io/sweep_journal.hpp"
 #include "solver/studies/sweep.hpp"
 
 namespace oxystrat {
@@ -24,28 +25,5 @@ void write_sweep_csv(const std::string& path, const SweepPlan& plan, const std::
                      const std::vector<bool>& pareto, int chosen);
 void write_sweep_h5(H5Writer& h5, const SweepPlan& plan, const std::vector<PointResult>& results,
                     const std::vector<bool>& pareto, int chosen, const std::string& objective);
-
-//! One point as one line of text (no newline) and back: the journal's format, also what MPI
-//! ranks send to rank 0. Values round-trip exactly (17 significant digits).
-std::string encode_point(size_t index, const PointResult& r);
-//! Returns false for a line cut short (an interrupted write).
-bool decode_point(const std::string& line, size_t& index, PointResult& r);
-
-//! Append-only record of finished sweep points, beside the output folder (DIR.journal.csv).
-class SweepJournal {
- public:
-  //! `signature` identifies the sweep; a journal of another sweep is refused on resume.
-  SweepJournal(std::string path, std::string signature);
-  //! Points already finished (empty unless the file exists with the same signature).
-  std::map<size_t, PointResult> load() const;
-  //! Starts a new journal (resume = false) or appends to the existing one.
-  void open(bool resume);
-  void record(size_t index, const PointResult& r);
-  //! Removes the journal once the result folder is complete.
-  void remove();
-
- private:
-  std::string path_, signature_;
-};
 
 }  // namespace oxystrat

@@ -1,4 +1,5 @@
 #include "postproc/report/transient_output.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -101,7 +102,7 @@ void write_csv(const std::string& path, const std::vector<std::string>& headers,
     for (size_t i = 0; i < columns.size(); ++i) out << (i ? "," : "") << fmt::format("{:.8g}", columns[i][r]);
     out << "\n";
   }
-  if (!out) throw IoError(fmt::format("{}: cannot write", path));
+  finish_file(out, path);
 }
 
 }  // namespace

@@ -1,4 +1,5 @@
 #include "postproc/report/trust_output.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -77,7 +78,7 @@ void write_uncertainty_csv(const std::string& path, const UncertaintyResult& u) 
     for (const auto& o : u.outputs) out << "," << (std::isfinite(o.samples[i]) ? fmt::format("{:.6g}", o.samples[i]) : "");
     out << "\n";
   }
-  if (!out) throw IoError("cannot write " + path);
+  finish_file(out, path);
 }
 
 std::string uncertainty_html(const UncertaintyResult& u, double critical) {

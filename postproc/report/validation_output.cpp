@@ -1,4 +1,5 @@
 #include "postproc/report/validation_output.hpp"
+#include "postproc/io/file_output.hpp"
 
 #include <fmt/format.h>
 
@@ -37,7 +38,7 @@ void write_validation_csv(const std::string& path, const std::vector<ValidationR
         << fmt::format("{:.10g},{:.10g},{:.4g},{:.4g}", c.reference, r.model, r.error, c.tolerance) << ","
         << (c.relative ? 1 : 0) << "," << (r.passed ? "pass" : "FAIL") << "," << quote(c.why) << "\n";
   }
-  if (!out) throw IoError("cannot write " + path);
+  finish_file(out, path);
 }
 
 void write_validation_h5(H5Writer& h5, const std::vector<ValidationResult>& results) {

@@ -40,4 +40,9 @@ GridConvergence grid_convergence(double f1, double f2, double f3, double h1, dou
   return g;
 }
 
+bool in_asymptotic_range(double observed_order, double formal_order) {
+  const double ratio = observed_order / formal_order;
+  return ratio >= 0.5 && ratio <= 2.0;
+}
+
 }  // namespace oxystrat

@@ -19,4 +19,10 @@ struct GridConvergence {
 //! f1 on the finest grid with representative cell size h1 < h2 < h3.
 GridConvergence grid_convergence(double f1, double f2, double f3, double h1, double h2, double h3);
 
+//! Whether an observed order p lies in the asymptotic range of a scheme of formal order
+//! `formal`: 0.5 <= p / formal <= 2. Celik et al. (2008) judge the GCI reliable only when p is
+//! close to the formal order and give no number; this band is our own choice. Far outside it the
+//! three grids do not follow the leading error term and the GCI means nothing, however small.
+bool in_asymptotic_range(double observed_order, double formal_order);
+
 }  // namespace oxystrat

@@ -10,6 +10,7 @@
 #include "input/errors.hpp"
 #include "solver/fit/kla_fit_model.hpp"
 #include "solver/fit/kla_fit_start.hpp"
+#include "solver/fit/kla_verdict.hpp"
 #include "solver/fit/probe_response.hpp"
 #include "solver/fit/student_t.hpp"
 
@@ -249,10 +250,7 @@ KlaFitResult fit_kla(const DoTrace& tr, const KlaFitOptions& o) {
   if (std::isfinite(hk) && hk > 0.5 * res.kla_1_s) {
     res.warnings.push_back(fmt::format("kLa is poorly determined: {} % interval {}", pct,
                                        format_interval(res.kla_ci_low_1_s, res.kla_ci_high_1_s, "1/s")));
-  } else if (!std::isfinite(hk)) {
-    res.warnings.push_back("kLa is not determined by this trace: its unknowns cannot be separated (give --probe-lag "
-                           "and/or --saturation)");
-  }
+  }  // an undetermined kLa is refused below (require_determined_kla)
   if (setup.free[kCstar]) {
     const double reached = (tr.value.back() - res.c0) / (res.steady - res.c0);
     if (reached < 0.9) {
@@ -261,6 +259,7 @@ KlaFitResult fit_kla(const DoTrace& tr, const KlaFitOptions& o) {
                                          100.0 * reached));
     }
   }
+  require_determined_kla(tr, o, res);
   return res;
 }
 

@@ -25,7 +25,6 @@ std::vector<SummaryValue> summary_values(const Case& c, const CaseRun& run, std:
       {"power_per_volume", "kW/m3", run.hydro.power_gassed_w / v / 1e3, "Pg/V"},
       {"tip_speed", "m/s", tip, "max tip speed"},
       {"flooded_impellers", "1", static_cast<double>(flooded), "flooded impellers"},
-      {"theta95", "s", theta95_s.value_or(nan), "mixing time theta95"},
       {"kla_mean", "1/h", f ? 3600 * f->kla_mean_1_s : nan, "kLa (volume mean)"},
       {"do_min", "mmol/L", f ? f->do_min * mm : nan, "DO min (zones)"},
       {"do_mean", "mmol/L", f ? f->do_mean * mm : nan, "DO mean (zones)"},
@@ -40,7 +39,20 @@ std::vector<SummaryValue> summary_values(const Case& c, const CaseRun& run, std:
       {"otr_total", "mmol/(L h)", f ? 3600 * f->otr_total_mol_s / run.net.total_volume() : nan, "OTR (vessel mean)"},
       {"cautions", "1", static_cast<double>(run.cautions.size()), "cautions"},
   };
+  // Not computed is not there: no column of NaN (docs/outputs.md).
+  if (theta95_s) out.insert(out.begin() + 5, {"theta95", "s", *theta95_s, "mixing time theta95"});
   return out;
+}
+
+std::vector<std::string> summary_value_names(bool with_theta95) {
+  // A case with no gas still gives every name (its oxygen values are then NaN).
+  std::vector<std::string> names{"power_ungassed", "power_gassed", "power_per_volume", "tip_speed",
+                                 "flooded_impellers", "kla_mean", "do_min", "do_mean", "do_single_zone",
+                                 "do_min_saturation", "volume_below_critical", "max_biomass",
+                                 "max_biomass_single_zone", "offgas_o2", "offgas_co2", "pco2_max", "otr_total",
+                                 "cautions"};
+  if (with_theta95) names.insert(names.begin() + 5, "theta95");
+  return names;
 }
 
 double summary_value(const std::vector<SummaryValue>& values, const std::string& name) {

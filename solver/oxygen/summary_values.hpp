@@ -19,8 +19,12 @@ struct SummaryValue {
 };
 
 //! Power, P/V, tip speed, regimes, kLa, DO, share below critical, supportable biomass, off-gas,
-//! pCO2; theta95 when given. NaN where a value does not apply (no gas).
+//! pCO2; theta95 only when given. NaN where a value does not apply (no gas): writers leave such
+//! values out.
 std::vector<SummaryValue> summary_values(const Case& c, const CaseRun& run, std::optional<double> theta95_s);
+
+//! The names summary_values() gives, in its order (known before anything is run).
+std::vector<std::string> summary_value_names(bool with_theta95);
 
 //! Value by name (throws std::out_of_range).
 double summary_value(const std::vector<SummaryValue>& values, const std::string& name);

@@ -22,7 +22,6 @@
 namespace oxystrat {
 namespace {
 
-constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 constexpr double kG = 9.80665;         // standard gravity [m/s2], as in the oxygen field
 constexpr double kR = 8.314462618;     // gas constant [J/(mol K)] (CODATA 2018)
 
@@ -137,6 +136,16 @@ KlaCalibration calibrate_kla(const LoadedCase& base, const std::vector<Override>
   res.power_exponent_fitted = speed_varied && spread(x1) >= kMinLogSpread;
   res.gas_exponent_fitted = spread(x2) >= kMinLogSpread;
   res.exponent_correlation = n > 1 ? weighted_correlation(x1, x2, w) : 0.0;
+  if (!res.gas_exponent_fitted && !res.power_exponent_fitted) {
+    // Only the prefactor would move: a calibration of nothing but the level, which
+    // model.kla_factor states honestly, with no claim about how kLa scales.
+    throw CaseError(fmt::format(
+        "{}: the {} operating points have no spread: the speed varies by {:.1f} % and the superficial gas velocity by "
+        "{:.1f} % (at least 10 % each is needed to fit an exponent), so the correlation cannot be calibrated; measure "
+        "at two or more speeds and two or more gas flows, or, for one operating point, set model.kla_factor to "
+        "measured / predicted kLa",
+        data.file_name, n, 100.0 * std::expm1(spread(ln_speed)), 100.0 * std::expm1(spread(x2))));
+  }
   if (!res.gas_exponent_fitted) {
     res.warnings.push_back(fmt::format(
         "the superficial gas velocity varies by only {:.1f} % over the data (the gas flow was hardly changed), so the "
@@ -216,7 +225,7 @@ KlaCalibration calibrate_kla(const LoadedCase& base, const std::vector<Override>
   ybar /= sw;
   double ss_tot = 0.0;
   for (size_t i = 0; i < n; ++i) ss_tot += w[i] * (y[i] - ybar) * (y[i] - ybar);
-  res.r_squared = ss_tot > 0.0 ? 1.0 - ss_res / ss_tot : kNaN;
+  if (ss_tot > 0.0) res.r_squared = 1.0 - ss_res / ss_tot;
   res.rms_log = std::sqrt(ss_res / sw);
   for (auto& row : res.rows) {
     row.fitted_1_s = vessel_kla(res.fitted, row.inputs);

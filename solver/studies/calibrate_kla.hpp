@@ -5,6 +5,7 @@
 // SI inside: kLa [1/s], mixing time [s], P/V [W/m3], vs [m/s].
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -64,7 +65,7 @@ struct KlaCalibration {
   double gas_exponent_lo = 0.0, gas_exponent_hi = 0.0;
   double confidence = 0.95, t_quantile = 0.0;
   int points = 0, parameters = 0;
-  double r_squared = 0.0;      //!< of ln kLa, weighted; NaN when the data have no spread
+  std::optional<double> r_squared;  //!< of ln kLa, weighted; absent when the measured values have no spread
   double rms_log = 0.0;        //!< weighted RMS of ln(fitted/measured) [-]
   double exponent_correlation = 0.0;  //!< correlation of ln(P/V) and ln(vs) over the points [-]
   double pv_min = 0.0, pv_max = 0.0, vs_min = 0.0, vs_max = 0.0;  //!< ranges covered [W/m3], [m/s]
@@ -76,8 +77,9 @@ struct KlaCalibration {
 
 //! Fits ln kLa = ln a + alpha ln(P/V) + beta ln(vs) (weighted least squares, Student-t intervals)
 //! over the points. An exponent whose regressor hardly varies, or both when they vary together,
-//! is held at the case's value and the warnings say so. Throws CaseError for too few points or a
-//! case whose kLa model is not the correlation.
+//! is held at the case's value and the warnings say so. Throws CaseError for too few points, for
+//! points with no spread (neither exponent can be fitted: the speed and the gas flow both vary by
+//! less than 10 %), or a case whose kLa model is not the correlation.
 KlaCalibration calibrate_kla(const LoadedCase& base, const std::vector<Override>& base_overrides,
                              const CalibrationData& data, const KlaCalibrationOptions& options = {});
 

@@ -26,6 +26,23 @@ Grid coarser(const Case& c, const Grid& finer, int n_finer) {
 
 }  // namespace
 
+std::string grid_check_verdict(const GridConvergence& cv, bool near_zero, const std::string& unit) {
+  if (cv.converged_already) return "the same on all three grids";
+  if (cv.oscillatory) return "oscillates between grids: no order can be observed; refine (grid.radial, grid.axial)";
+  if (near_zero) {
+    return fmt::format("near zero on the fine grid: judge by the absolute band +-{:.3g} {}", cv.gci_fine_absolute, unit);
+  }
+  if (!in_asymptotic_range(cv.observed_order, network_scheme_order)) {
+    return fmt::format("observed order {:.2f} against the scheme's {:.0f}: not in the asymptotic range, so the GCI "
+                       "({:.2g} %) is no error estimate; refine (grid.radial, grid.axial)",
+                       cv.observed_order, network_scheme_order, 100 * cv.gci_fine);
+  }
+  if (cv.gci_fine > 0.10) {
+    return fmt::format("GCI {:.0f} %: the grid is too coarse for this quantity; refine", 100 * cv.gci_fine);
+  }
+  return fmt::format("GCI {:.1f} %: adequate", 100 * cv.gci_fine);
+}
+
 GridCheck grid_check(const Case& c) {
   GridCheck g;
   Grid grids[3] = {c.grid, {}, {}};
@@ -50,22 +67,9 @@ GridCheck grid_check(const Case& c) {
     GridCheckQuantity gq{names[q], unit_names[q], values[0][q], values[1][q], values[2][q], {}, ""};
     if (!std::isfinite(gq.fine)) continue;
     gq.convergence = grid_convergence(gq.fine, gq.medium, gq.coarse, g.cell_size[0], g.cell_size[1], g.cell_size[2]);
-    const auto& cv = gq.convergence;
     const bool tiny = std::abs(gq.fine) < 1e-3 * std::max(std::abs(gq.medium), std::abs(gq.coarse)) ||
                       (q == 0 && gq.fine < 1e-4) || (q == 1 && gq.fine < 0.05);
-    if (cv.converged_already) {
-      gq.verdict = "the same on all three grids";
-    } else if (cv.oscillatory) {
-      gq.verdict = "oscillates between grids: no order can be observed; refine (grid.radial, grid.axial)";
-    } else if (tiny) {
-      gq.verdict = fmt::format("near zero on the fine grid: judge by the absolute band +-{:.3g} {}", cv.gci_fine_absolute, gq.unit);
-    } else if (cv.observed_order < 0.5) {
-      gq.verdict = fmt::format("observed order {:.2f}: not yet in the asymptotic range; refine", cv.observed_order);
-    } else if (cv.gci_fine > 0.10) {
-      gq.verdict = fmt::format("GCI {:.0f} %: the grid is too coarse for this quantity; refine", 100 * cv.gci_fine);
-    } else {
-      gq.verdict = fmt::format("GCI {:.1f} %: adequate", 100 * cv.gci_fine);
-    }
+    gq.verdict = grid_check_verdict(gq.convergence, tiny, gq.unit);
     if (gq.verdict.find("refine") != std::string::npos) g.warnings.push_back(std::string(names[q]) + ": " + gq.verdict);
     g.quantities.push_back(gq);
   }

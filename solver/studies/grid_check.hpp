@@ -26,4 +26,13 @@ struct GridCheck {
 
 GridCheck grid_check(const Case& c);
 
+//! Formal order of the zone network's discretisation: upwind convection between zones, first
+//! order in the cell size (docs/method.md, section 5).
+inline constexpr double network_scheme_order = 1.0;
+
+//! The verdict on one quantity: the same on all grids, oscillating, near zero (`near_zero`: judged
+//! by the absolute band), not in the asymptotic range (observed order far from the scheme's),
+//! too coarse (GCI > 10 %), or adequate. A verdict that asks to refine contains "refine".
+std::string grid_check_verdict(const GridConvergence& cv, bool near_zero, const std::string& unit);
+
 }  // namespace oxystrat

@@ -6,8 +6,10 @@
 #include <algorithm>
 #include <cmath>
 #include <numeric>
+#include <exception>
 #include <stdexcept>
 
+#include "input/numbers.hpp"
 #include "input/units.hpp"
 #include "solver/flow/hydrodynamics.hpp"
 #include "solver/flow/mixing_time.hpp"
@@ -37,14 +39,18 @@ SweepAxis parse_vary(const std::string& argument, const LoadedCase& base) {
   if (parts.size() < 3 || parts.size() > 4) {
     throw CaseError(fmt::format("--vary '{}': expected START:STOP:COUNT[:UNIT]", argument));
   }
-  try {
-    a.start = std::stod(parts[0]);
-    a.stop = std::stod(parts[1]);
-    a.count = std::stoi(parts[2]);
-  } catch (const std::exception&) {
-    throw CaseError(fmt::format("--vary '{}': START, STOP must be numbers and COUNT a whole number", argument));
+  a.argument = argument;
+  const auto start = parse_number(parts[0]), stop = parse_number(parts[1]);
+  const auto count = parse_integer(parts[2]);
+  if (!start || !stop || !count) {
+    throw CaseError(fmt::format("--vary '{}': START and STOP must be finite numbers and COUNT a whole number, e.g. "
+                                "operation.speed=80:140:4:rpm",
+                                argument));
   }
-  if (a.count < 1 || a.count > 10000) throw CaseError(fmt::format("--vary '{}': COUNT must be 1 to 10000", argument));
+  a.start = *start;
+  a.stop = *stop;
+  if (*count < 1 || *count > 10000) throw CaseError(fmt::format("--vary '{}': COUNT must be 1 to 10000", argument));
+  a.count = static_cast<int>(*count);
   if (parts.size() == 4) {
     a.unit = parts[3];
   } else if (const auto raw = raw_value(base, a.key)) {
@@ -58,6 +64,47 @@ SweepAxis parse_vary(const std::string& argument, const LoadedCase& base) {
                                 a.key, a.key));
   }
   return a;
+}
+
+void check_sweep_size(const std::vector<SweepAxis>& axes, long sample_points) {
+  double points = 1.0;
+  std::string counts;
+  for (const auto& a : axes) {
+    points *= a.count;
+    counts += (counts.empty() ? "" : " x ") + std::to_string(a.count);
+  }
+  if (sample_points > 0) points = static_cast<double>(sample_points), counts = "--sample lhs:" + std::to_string(sample_points);
+  if (points > max_sweep_points) {
+    // About 3 kB per point: its values with names and units, kept until the tables are written.
+    throw CaseError(fmt::format("the sweep has {:.0f} points ({}), about {:.2g} GB of results and {:.2g} pairs for the "
+                                "Pareto front; at most {:.0f} points are supported: use fewer COUNTs, or --sample "
+                                "lhs:N for a Latin hypercube",
+                                points, counts, points * 3e3 / 1e9, 0.5 * points * points, max_sweep_points));
+  }
+}
+
+void check_sweep_axes(const LoadedCase& base, const std::vector<Override>& base_overrides,
+                      const std::vector<SweepAxis>& axes) {
+  const SweepPlan starts{axes, {std::vector<double>(axes.size())}};
+  for (size_t d = 0; d < axes.size(); ++d) {
+    for (const double end : {axes[d].start, axes[d].stop}) {
+      SweepPlan at = starts;
+      for (size_t k = 0; k < axes.size(); ++k) at.points[0][k] = axes[k].start;
+      at.points[0][d] = end;
+      auto overrides = base_overrides;
+      const auto point = point_overrides(at, 0);
+      overrides.insert(overrides.end(), point.begin(), point.end());
+      try {
+        (void)read_case_text(base.source_text, base.file_name, overrides);
+      } catch (const CaseError& e) {
+        // The reader names the override as a --set; here it is the --vary argument's value.
+        std::string why = e.what();
+        if (const std::string set = "--set '" + point[d].raw + "': "; why.rfind(set, 0) == 0) why.erase(0, set.size());
+        throw CaseError(fmt::format("--vary '{}' at {}: {}", axes[d].argument.empty() ? axes[d].key : axes[d].argument,
+                                    point[d].raw, why));
+      }
+    }
+  }
 }
 
 SweepPlan full_factorial(const std::vector<SweepAxis>& axes) {
@@ -135,14 +182,75 @@ PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supp
   return r;
 }
 
+std::vector<std::string> sweep_value_names(const SweepOptions& opts) {
+  auto names = summary_value_names(opts.with_mixing);
+  if (opts.uncertainty_samples > 0) {
+    for (const auto& q : uncertainty_output_names()) {
+      if (q == "theta95" && !opts.with_mixing) continue;
+      for (const char* suffix : {"_p10", "_p50", "_p90"}) names.push_back(q + suffix);
+    }
+  }
+  return names;
+}
+
+void check_objective(const std::string& objective, const SweepOptions& opts) {
+  const bool maximise = objective.size() > 4 && objective.compare(objective.size() - 4, 4, ":max") == 0;
+  const std::string name = maximise ? objective.substr(0, objective.size() - 4) : objective;
+  const auto names = sweep_value_names(opts);
+  if (std::find(names.begin(), names.end(), name) != names.end()) return;
+  std::string list;
+  for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
+  const bool needs_mixing = name == "theta95" || name.rfind("theta95_", 0) == 0;
+  throw CaseError(fmt::format("--objective '{}': no value named {} in this sweep{}; expected NAME or NAME:max with NAME "
+                              "one of {}",
+                              objective, name, needs_mixing ? " (theta95 needs --with-mixing)" : "", list));
+}
+
+int choose_point(const std::vector<PointResult>& results, const std::string& objective) {
+  const bool maximise = objective.size() > 4 && objective.compare(objective.size() - 4, 4, ":max") == 0;
+  const std::string name = maximise ? objective.substr(0, objective.size() - 4) : objective;
+  int best = -1;
+  double best_v = 0.0;
+  for (size_t i = 0; i < results.size(); ++i) {
+    if (!results[i].ok || !results[i].feasible) continue;
+    const double v = summary_value(results[i].values, name) * (maximise ? -1.0 : 1.0);
+    if (std::isfinite(v) && (best < 0 || v < best_v)) best = static_cast<int>(i), best_v = v;
+  }
+  return best;
+}
+
+PointShare share_points(const std::vector<bool>& done, long max_points, int rank, int ranks) {
+  PointShare s;
+  s.skip.assign(done.size(), true);
+  size_t k = 0;  // index among the points not done
+  for (size_t i = 0; i < done.size(); ++i) {
+    if (done[i]) continue;
+    if (max_points >= 0 && static_cast<long>(k) >= max_points) {
+      ++s.later;
+      continue;
+    }
+    if (static_cast<int>(k % static_cast<size_t>(ranks)) == rank) s.skip[i] = false, ++s.here;
+    ++s.now;
+    ++k;
+  }
+  return s;
+}
+
 void run_sweep(const LoadedCase& base, const std::vector<Override>& base_overrides, const SweepPlan& plan,
                const SweepOptions& opts, const std::vector<bool>& done,
                const std::function<void(size_t, const PointResult&)>& on_done) {
   const auto n = static_cast<long>(plan.points.size());
   const int threads = opts.threads > 0 ? opts.threads : omp_get_max_threads();
+  // An exception may not leave an OpenMP region: the first one is kept and rethrown after it.
+  std::exception_ptr failure;
+  bool stop = false;
 #pragma omp parallel for schedule(dynamic, 1) num_threads(threads)
   for (long i = 0; i < n; ++i) {
     if (done[static_cast<size_t>(i)]) continue;
+    bool stopped = false;
+#pragma omp atomic read
+    stopped = stop;
+    if (stopped) continue;
     auto overrides = base_overrides;
     for (auto& o : point_overrides(plan, static_cast<size_t>(i))) overrides.push_back(o);
     PointResult r;
@@ -153,8 +261,19 @@ void run_sweep(const LoadedCase& base, const std::vector<Override>& base_overrid
       r.error = e.what();
     }
 #pragma omp critical(oxystrat_sweep_done)
-    on_done(static_cast<size_t>(i), r);
+    {
+      if (!failure) {
+        try {
+          on_done(static_cast<size_t>(i), r);
+        } catch (...) {
+          failure = std::current_exception();
+#pragma omp atomic write
+          stop = true;
+        }
+      }
+    }
   }
+  if (failure) std::rethrow_exception(failure);
 }
 
 std::vector<bool> pareto_front(const std::vector<PointResult>& results) {

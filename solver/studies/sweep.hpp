@@ -19,10 +19,24 @@ struct SweepAxis {
   double start = 0.0, stop = 0.0;
   int count = 1;
   std::string unit;  //!< unit the values are written in ("rpm"); empty for plain numbers
+  std::string argument;  //!< the --vary text, for messages
 };
 
-//! Parses KEY=START:STOP:COUNT[:UNIT]; without a unit, the unit the case writes the key in.
+//! Parses KEY=START:STOP:COUNT[:UNIT] (finite numbers, COUNT 1 to 10000); without a unit, the
+//! unit the case writes the key in.
 SweepAxis parse_vary(const std::string& argument, const LoadedCase& base);
+
+//! Most points one sweep may have: each needs a few kilobytes of results held to the end, and the
+//! Pareto front compares every pair.
+inline constexpr double max_sweep_points = 100000;
+//! Throws CaseError, before anything is built, when the plan would have more than max_sweep_points
+//! points: the product of the COUNTs, or `sample_points` (> 0: a Latin hypercube).
+void check_sweep_size(const std::vector<SweepAxis>& axes, long sample_points);
+//! Reads the case at both ends of every axis (the other axes at their start), so a misspelt key,
+//! a wrong unit or a value out of the key's range is refused (CaseError naming the --vary
+//! argument) before any point runs.
+void check_sweep_axes(const LoadedCase& base, const std::vector<Override>& base_overrides,
+                      const std::vector<SweepAxis>& axes);
 
 struct SweepPlan {
   std::vector<SweepAxis> axes;
@@ -52,7 +66,28 @@ struct SweepOptions {
   int threads = 0;                    //!< 0: OpenMP default
 };
 
+//! The names of the values every point carries with these options: the summary values, theta95
+//! with mixing, the P10/P50/P90 quantiles with uncertainty samples.
+std::vector<std::string> sweep_value_names(const SweepOptions& opts);
+//! Throws CaseError unless `objective` is NAME or NAME:max with NAME one of sweep_value_names().
+void check_objective(const std::string& objective, const SweepOptions& opts);
+//! The feasible point with the least `objective` value (NAME:max: the largest); -1 if none.
+int choose_point(const std::vector<PointResult>& results, const std::string& objective);
+
+//! Which points one of `ranks` processes runs now.
+struct PointShare {
+  std::vector<bool> skip;  //!< true: not this rank's now (done, another rank's, or left for later)
+  size_t here = 0;         //!< points this rank runs
+  size_t now = 0;          //!< points all ranks run
+  size_t later = 0;        //!< points left for a later --resume (beyond max_points)
+};
+//! The points not `done`, the first `max_points` of them (< 0: all), dealt to the ranks in turn.
+//! Every rank computes the same share from the same `done`.
+PointShare share_points(const std::vector<bool>& done, long max_points, int rank, int ranks);
+
 //! Runs the points not yet `done`; `on_done(i, result)` is called (serialised) as each finishes.
+//! An exception from `on_done` (a journal that cannot be written) stops the sweep: the points
+//! under way finish, no new one starts, and it is rethrown here.
 void run_sweep(const LoadedCase& base, const std::vector<Override>& base_overrides, const SweepPlan& plan,
                const SweepOptions& opts, const std::vector<bool>& done,
                const std::function<void(size_t, const PointResult&)>& on_done);

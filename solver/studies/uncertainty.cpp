@@ -102,6 +102,10 @@ std::vector<UncertainConstant> uncertain_constants() {
   };
 }
 
+std::vector<std::string> uncertainty_output_names() {
+  return {"do_min", "volume_below_critical", "max_biomass", "theta95"};
+}
+
 UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts) {
   UncertaintyResult res;
   res.constants = uncertain_constants();
@@ -116,7 +120,7 @@ UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts)
   for (auto& draw : res.draws) {
     for (double& x : draw) x = normal_quantile(x);
   }
-  const char* names[4] = {"do_min", "volume_below_critical", "max_biomass", "theta95"};
+  const auto names = uncertainty_output_names();
   const char* units_[4] = {"mmol/L", "%", "g/L", "s"};
   for (int q = 0; q < 4; ++q) {
     res.outputs.push_back({names[q], units_[q], std::vector<double>(static_cast<size_t>(n), std::nan("")), {}});

@@ -59,6 +59,8 @@ struct UncertaintyResult {
 };
 
 UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts);
+//! The names of UncertaintyResult::outputs, in order.
+std::vector<std::string> uncertainty_output_names();
 
 //! Linear-interpolation quantile (type 7) of finite values; NaN when none.
 double quantile(std::vector<double> values, double p);

@@ -8,6 +8,7 @@
 
 #include <fstream>
 #include <map>
+#include <regex>
 #include <sstream>
 #include <string>
 #include <vector>
@@ -123,6 +124,35 @@ TEST_F(CalibrateCli, WithoutDataOrWithBadDataItFailsWithOneLine) {
   EXPECT_THAT(r.err, HasSubstr("bad.csv:3: column 3 'kLa [1/h]': 'fast' is not a number"));
   EXPECT_EQ(std::count(r.err.begin(), r.err.end(), '\n'), 1);
   EXPECT_EQ(work_listing(), std::vector<std::string>{"bad.csv"});  // no output folder
+}
+
+// Repeats of one operating point cannot calibrate a correlation: refused with the reason, nothing
+// written (it used to write R^2 = NaN into the fragment, the table and the report).
+TEST_F(CalibrateCli, IdenticalPointsAreRefused) {
+  std::ofstream(work() / "same.csv") << "speed [rpm],gas flow [vvm],kLa [1/h]\n400,1,250\n400,1,250\n400,1,250\n"
+                                        "400,1,250\n400,1,250\n";
+  const auto r = oxystrat({"calibrate", kCase, "--kla-data", "same.csv", "--out", "cal"});
+  EXPECT_EQ(r.exit_code, 1);
+  EXPECT_THAT(r.err, HasSubstr("same.csv: the 5 operating points have no spread"));
+  EXPECT_EQ(work_listing(), std::vector<std::string>{"same.csv"});
+}
+
+// What cannot be computed is left out: one mixing time has no interval, --no-zone-check has no
+// zone-model kLa. No NaN or infinity in any file.
+TEST_F(CalibrateCli, ValuesThatDoNotApplyAreAbsentNotNan) {
+  std::ofstream(work() / "one.csv") << "speed [rpm],gas flow [vvm],mixing time [s]\n400,1,22\n";
+  const auto r = oxystrat({"calibrate", kCase, "--kla-data", kKla, "--no-zone-check", "--mixing-data", "one.csv",
+                           "--out", "cal"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const auto h5 = open_h5((work() / "cal/result.h5").string());
+  EXPECT_THAT(non_finite_datasets(h5), testing::IsEmpty());
+  const auto walk = walk_datasets(h5);
+  EXPECT_THAT(walk.all, testing::Not(testing::Contains("calibration/mixing/exchange_constant_ci_low")));
+  EXPECT_THAT(walk.all, testing::Not(testing::Contains("calibration/kla/zone_model_mean")));
+  const std::regex not_a_number("(^|[^A-Za-z_])[-+]?(nan|inf)([^A-Za-z_]|$)", std::regex::icase);
+  for (const char* f : {"calibration.toml", "calibration.csv", "mixing.csv", "report.html"}) {
+    EXPECT_FALSE(std::regex_search(read_file(work() / "cal" / f), not_a_number)) << f;
+  }
 }
 
 }  // namespace

@@ -4,6 +4,8 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
+#include <cmath>
+#include <fstream>
 #include <sstream>
 #include <string>
 #include <vector>
@@ -79,6 +81,49 @@ TEST_F(KlaFitCli, FitsTheBundledTraceAndWritesTheRunFolder) {
   size_t figures = 0;
   for (size_t at = html.find("<svg"); at != std::string::npos; at = html.find("<svg", at + 1)) ++figures;
   EXPECT_EQ(figures, 2u);  // the trace with the fit, the residuals
+}
+
+//! A trace as a gassing-out rise through a first-order probe: C0 = 4 %, C* = 100 %, the step at t0,
+//! rows `dt` apart, a deterministic noise of `noise` % (the same on every machine).
+std::string rise(int rows, double dt, double kla, double tau, double t0, double noise) {
+  std::string text = "time [s],DO [%]\n";
+  for (int i = 0; i < rows; ++i) {
+    const double t = dt * i, s = t - t0;
+    const double g = s <= 0.0 ? 1.0 : (std::exp(-kla * s) - kla * tau * std::exp(-s / tau)) / (1.0 - kla * tau);
+    text += std::to_string(t) + "," + std::to_string(100.0 - 96.0 * g + noise * std::sin(12.9898 * i)) + "\n";
+  }
+  return text;
+}
+
+// 11 rows ending at 10 % of the rise: kLa is not determined (it used to print kLa 193 1/h for a
+// true 108 with exit 0 and a C* interval of -394 to 632 %). Refused: exit 1, no files.
+TEST_F(KlaFitCli, ATraceThatDoesNotDetermineKlaIsRefused) {
+  std::ofstream(work() / "short.csv") << rise(11, -std::log(0.9) / 0.03 / 10.0, 0.03, 1e-9, 0.0, 0.05);
+  for (const char* lag : {"none", "auto"}) {
+    const auto r = oxystrat({"kla-fit", "short.csv", "--probe-lag", lag, "--out", "fit"});
+    EXPECT_EQ(r.exit_code, 1) << lag << ": " << r.out;
+    // With the lag fitted too, five unknowns on 11 rows may not even converge: refused either way.
+    if (std::string(lag) == "none") {
+      EXPECT_THAT(r.err, HasSubstr("short.csv: kLa is not determined by this trace"));
+    }
+    EXPECT_EQ(work_listing(), std::vector<std::string>{"short.csv"}) << lag;
+  }
+}
+
+// A 0.05 s lag sampled every 5 s is a dead time, inseparable from the step time: the lag's interval
+// cannot be computed. It is left out of result.h5 (an attribute says why), never written as NaN;
+// kLa, which the tail fixes, keeps its interval.
+TEST_F(KlaFitCli, AnIntervalThatCannotBeComputedIsAbsent) {
+  std::ofstream(work() / "lag.csv") << rise(55, 5.0, 0.03, 0.05, 10.0, 0.5);
+  const auto r = oxystrat({"kla-fit", "lag.csv", "--out", "fit"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, HasSubstr("probe lag     0 s (95 % interval undetermined)"));
+  const auto h5 = open_h5((work() / "fit/result.h5").string());
+  EXPECT_THAT(non_finite_datasets(h5), testing::IsEmpty());
+  const auto all = walk_datasets(h5).all;
+  EXPECT_THAT(all, testing::Not(testing::Contains("kla_fit/probe_lag_ci_low")));
+  EXPECT_THAT(all, testing::Contains("kla_fit/kla_ci_low"));
+  EXPECT_THAT(read_attribute(h5, "/kla_fit/probe_lag", "interval"), HasSubstr("undetermined"));
 }
 
 TEST_F(KlaFitCli, ABadTraceIsOneClearErrorAndWritesNothing) {

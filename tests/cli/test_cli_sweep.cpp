@@ -50,6 +50,27 @@ TEST_F(SweepCli, BadVaryIsAClearError) {
   EXPECT_FALSE(fs::exists(work() / "out"));
 }
 
+// Refused before any point runs: exit 1, the reason, no journal and no folder (it used to run every
+// point to failure and exit 0, or fail only after all had run).
+TEST_F(SweepCli, BadAxesAndObjectivesAreRefusedBeforeRunning) {
+  const std::vector<std::pair<std::vector<std::string>, std::string>> bad = {
+      {{"--vary", "operation.sped=300:400:2:rpm"}, "did you mean operation.speed?"},
+      {{"--vary", "operation.speed=300:400:2:kg"}, "unknown unit 'kg'"},
+      {{"--vary", "operation.speed=nan:400:2"}, "finite numbers"},
+      {{"--vary", "operation.speed=300:1e6:2"}, "out of range"},
+      {{"--objective", "foo"}, "--objective 'foo': no value named foo"},
+      {{"--objective", "theta95"}, "theta95 needs --with-mixing"},
+      {{"--vary", "vessel.diameter=1:2:400:m", "--vary", "vessel.liquid_height=1:2:400:m"}, "at most 100000 points"},
+  };
+  for (const auto& [extra, message] : bad) {
+    const auto r = oxystrat(sweep_args("out", extra));
+    EXPECT_EQ(r.exit_code, 1) << message;
+    EXPECT_NE(r.err.find(message), std::string::npos) << r.err;
+    EXPECT_EQ(r.out.find("points ("), std::string::npos) << "it started running: " << r.out;
+    EXPECT_TRUE(work_listing().empty()) << message;
+  }
+}
+
 TEST_F(SweepCli, CompareWritesOneColumnPerCase) {
   std::vector<std::string> a{"compare", (kSourceDir / "cases/tall-3rushton.toml").string(),
                              (kSourceDir / "cases/tall-rushton-hydrofoils.toml").string(), "--out", "cmp"};

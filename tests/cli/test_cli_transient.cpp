@@ -1,6 +1,8 @@
 // End to end: oxystrat transient on the bundled fed-batch demo (shortened, coarse grid).
 #include <gmock/gmock.h>
 
+#include <chrono>
+
 #include "cli_runner.hpp"
 #include "h5_read.hpp"
 
@@ -39,6 +41,30 @@ TEST_F(TransientCli, FedBatchWritesTimeSeriesTracesAndAParaViewSeries) {
   ASSERT_EQ(fed.size(), 1u);
   // 10 min at 650 -> 651.17 L/h (linear to 790 L/h at 2 h) of 600 g/L: ~65 kg.
   EXPECT_NEAR(fed[0], 0.6 * 1e-3 * 600.0 / 3600.0 * 0.5 * (650.0 + 650.0 + 140.0 * 600.0 / 7200.0) * 1e3, 1e-6);
+}
+
+// Runs that would not end (a 1e-9 s step) or would take hours and gigabytes (1 ms fixed steps over
+// an hour: 3.6 million steps) are refused at once, before anything is built; nothing is written.
+TEST_F(TransientCli, StepsAndSizesAreRefusedBeforeRunning) {
+  const std::string fb = (kSourceDir / "cases/fedbatch-60m3.toml").string();
+  const std::vector<std::pair<std::vector<std::string>, std::string>> bad = {
+      {{"--step", "1e-9 s"}, "--step 1e-09 s: the step must be at least 0.001 s"},
+      {{"--step", "1 ms", "--fixed-step"}, "needs at least 3.6e+06 steps"},
+      {{"--step", "1 ms"}, "needs at least 3.6e+06 steps"},
+      {{"--step", "5 ms", "--set", "grid.radial=200", "--set", "grid.axial=2000"}, "zone-steps"},
+      {{"--interval", "1 s", "--set", "grid.radial=200", "--set", "grid.axial=2000"}, "field outputs"},
+  };
+  for (const auto& [extra, message] : bad) {
+    std::vector<std::string> args{"transient", fb, "--duration", "1 h", "--out", "fb"};
+    args.insert(args.end(), extra.begin(), extra.end());
+    const auto t0 = std::chrono::steady_clock::now();
+    const auto r = oxystrat(args);
+    // A refusal takes well under a second; 30 s only guards against "tried to run it" on a loaded machine.
+    EXPECT_LT(std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count(), 30.0) << message;
+    EXPECT_EQ(r.exit_code, 1) << message;
+    EXPECT_THAT(r.err, HasSubstr(message));
+    EXPECT_TRUE(work_listing().empty()) << message;
+  }
 }
 
 TEST_F(TransientCli, BadFeedProfileIsAClearError) {

@@ -36,6 +36,22 @@ TEST(CaseOverride, QuotedValueAsTheShellPassesIt) {
   EXPECT_NEAR(loaded.data.operation.speed_rps, 110.0 / 60.0, kTol);
 }
 
+// Text after a quoted value used to be kept: title became '"x" garbage' and the case passed.
+TEST(CaseOverride, TrailingTextAfterAQuotedValueIsRefused) {
+  for (const std::string bad : {"title=\"x\" garbage", "operation.speed=\"110 rpm\" 5", "title='x' y",
+                                "feed.times=[\"0 h\"] x", "title=\"unclosed"}) {
+    try {
+      load(CaseText(), {bad});
+      ADD_FAILURE() << bad << " was accepted";
+    } catch (const CaseError& e) {
+      EXPECT_THAT(e.what(), HasSubstr("--set '" + bad + "': the value"));
+      EXPECT_THAT(e.what(), HasSubstr("is not one TOML value"));
+    }
+  }
+  // Plain text without quotes is still a string.
+  EXPECT_EQ(load(CaseText(), {"title=my vessel"}).data.title, "my vessel");
+}
+
 TEST(CaseOverride, ImpellerTypeByZeroBasedIndex) {
   const auto c = load(CaseText(), {"impeller.1.type=hydrofoil-up"}).data;
   EXPECT_EQ(c.impellers[0].type, ImpellerType::rushton);

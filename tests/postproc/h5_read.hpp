@@ -4,6 +4,7 @@
 #include <hdf5.h>
 
 #include <stdexcept>
+#include <cmath>
 #include <string>
 #include <vector>
 
@@ -131,6 +132,22 @@ inline DatasetWalk walk_datasets(hid_t file) {
     throw std::runtime_error("cannot walk the HDF5 file");
   }
   return walk;
+}
+
+//! The floating-point datasets holding a NaN or an infinity (a value that does not apply must be
+//! absent instead: docs/outputs.md).
+inline std::vector<std::string> non_finite_datasets(hid_t file) {
+  std::vector<std::string> bad;
+  for (const auto& name : walk_datasets(file).all) {
+    if (class_of(file, "/" + name) != H5T_FLOAT) continue;
+    for (double v : read_doubles(file, "/" + name)) {
+      if (!std::isfinite(v)) {
+        bad.push_back(name);
+        break;
+      }
+    }
+  }
+  return bad;
 }
 
 }  // namespace oxystrat::test

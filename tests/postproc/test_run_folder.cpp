@@ -2,6 +2,9 @@
 // only with force and only at commit; an abandoned run leaves nothing behind.
 #include "postproc/io/run_folder.hpp"
 
+#include <sys/wait.h>
+#include <unistd.h>
+
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
@@ -11,6 +14,9 @@
 #include <string>
 #include <vector>
 
+#include "input/errors.hpp"
+#include "postproc/io/file_output.hpp"
+#include "postproc/report/report.hpp"
 #include "temp_folder.hpp"
 
 namespace oxystrat::test {
@@ -157,6 +163,98 @@ TEST(RunFolder, TrailingSeparatorNamesTheSameFolder) {
 
 TEST(RunFolder, EmptyTargetIsRefused) {
   EXPECT_THROW(RunFolder(fs::path(), false), std::runtime_error);
+}
+
+// The id of a process that has ended (forked, exited and reaped).
+pid_t dead_pid() {
+  const pid_t pid = ::fork();
+  if (pid == 0) ::_exit(0);
+  int status = 0;
+  ::waitpid(pid, &status, 0);
+  return pid;
+}
+
+TEST(RunFolder, TidiesTheStagingFolderOfADeadProcess) {
+  TempFolder tmp;
+  const auto left = tmp / ("run.partial-" + std::to_string(dead_pid()) + "-0");
+  fs::create_directory(left);
+  write_text(left / "half.txt", "partial");
+  std::vector<std::string> notes;
+  set_run_folder_notes([&](const std::string& s) { notes.push_back(s); });
+  {
+    RunFolder folder(tmp / "run", false);
+    EXPECT_FALSE(fs::exists(left));
+  }
+  set_run_folder_notes({});
+  ASSERT_EQ(notes.size(), 1u);
+  EXPECT_THAT(notes[0], HasSubstr("removed " + left.string()));
+}
+
+TEST(RunFolder, PutsBackAResultADeadProcessHadMovedAside) {
+  TempFolder tmp;
+  const auto target = old_result(tmp);
+  const auto aside = tmp / ("run.old-" + std::to_string(dead_pid()));
+  fs::rename(target, aside);
+  EXPECT_THROW(RunFolder(target, false), IoError);  // put back, so it exists
+  EXPECT_EQ(read_text(target / "marker.txt"), "old result");
+  EXPECT_EQ(listing(tmp.path()), std::vector<std::string>{"run"});
+}
+
+TEST(RunFolder, KeepsWhatALiveProcessIsWriting) {
+  TempFolder tmp;
+  const auto busy = tmp / ("run.partial-" + std::to_string(::getpid()) + "-99");
+  const auto aside = tmp / ("run.old-" + std::to_string(::getpid()));
+  fs::create_directory(busy);
+  fs::create_directory(aside);
+  { RunFolder folder(tmp / "run", false); }
+  EXPECT_TRUE(fs::exists(busy));
+  EXPECT_TRUE(fs::exists(aside));
+}
+
+TEST(RunFolder, AbandonedFoldersAreRemovedAndCannotCommit) {
+  TempFolder tmp;
+  // In a child process: abandoning is for good, and would stop this process's other folders.
+  EXPECT_EXIT(
+      {
+        RunFolder folder(tmp / "run", false);
+        write_text(folder.file("half.txt"), "partial");
+        abandon_run_folders();
+        bool ok = listing(tmp.path()).empty();
+        try {
+          folder.commit();
+          ok = false;
+        } catch (const IoError&) {
+        }
+        std::exit(ok && !fs::exists(tmp / "run") ? 0 : 1);
+      },
+      testing::ExitedWithCode(0), "");
+}
+
+TEST(CheckReplaceable, RefusesAFolderHoldingAnInputOrTheWorkingFolder) {
+  TempFolder tmp;
+  fs::create_directories(tmp / "a" / "b");
+  write_text(tmp / "a" / "b" / "case.toml", "x");
+  fs::create_directory_symlink(tmp / "a", tmp / "link");
+  const std::vector<fs::path> inputs{tmp / "a" / "b" / "case.toml"};
+  for (const auto& t : {tmp / "a", tmp / "a" / "b", tmp / "a" / "b" / "", tmp / "a" / "b" / ".." / "b", tmp / "link",
+                        tmp / "link" / "b", tmp.path()}) {
+    EXPECT_THROW(check_replaceable(t, inputs), CaseError) << t;
+  }
+  fs::create_directory(tmp / "other");
+  EXPECT_NO_THROW(check_replaceable(tmp / "other", inputs));
+  EXPECT_THROW(check_replaceable(fs::current_path(), {}), CaseError);
+  EXPECT_THROW(check_replaceable(fs::current_path().parent_path(), {}), CaseError);
+}
+
+// A small file on a full disk fails only when its buffer is written, at the close.
+TEST(FinishFile, AFullDiskIsAnErrorEvenForAFewBytes) {
+  if (!fs::exists("/dev/full")) GTEST_SKIP() << "no /dev/full";
+  try {
+    write_text_file("/dev/full", "a few bytes");
+    ADD_FAILURE() << "writing to a full device succeeded";
+  } catch (const IoError& e) {
+    EXPECT_THAT(e.what(), HasSubstr("cannot write /dev/full: No space left on device"));
+  }
 }
 
 }  // namespace

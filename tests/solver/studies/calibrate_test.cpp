@@ -86,7 +86,8 @@ TEST(CalibrateKla, RecoversKnownConstantsExactlyFromModelData) {
   EXPECT_NEAR(r.fitted.prefactor / truth.prefactor, 1.0, 1e-9);
   EXPECT_NEAR(r.fitted.power_exponent, truth.power_exponent, 1e-10);
   EXPECT_NEAR(r.fitted.gas_exponent, truth.gas_exponent, 1e-10);
-  EXPECT_NEAR(r.r_squared, 1.0, 1e-12);
+  ASSERT_TRUE(r.r_squared.has_value());
+  EXPECT_NEAR(*r.r_squared, 1.0, 1e-12);
   EXPECT_LT(r.rms_log, 1e-10);
   EXPECT_EQ(r.parameters, 3);
   EXPECT_EQ(r.points, 12);
@@ -185,6 +186,21 @@ TEST(CalibrateKla, TooFewPointsIsAnError) {
     EXPECT_THAT(e.what(), HasSubstr("points.csv"));
     EXPECT_THAT(e.what(), HasSubstr("3 operating points for 3 unknowns"));
     EXPECT_THAT(e.what(), HasSubstr("at least 4"));
+  }
+}
+
+// Identical operating points (repeats of one measurement) fit neither exponent: refused, where it
+// used to "calibrate" the prefactor alone and report R^2 as NaN.
+TEST(CalibrateKla, PointsWithNoSpreadAreRefused) {
+  const auto base = read_case_file(kPilot);
+  auto d = points({{400, 1.0}, {400, 1.0}, {400, 1.0}, {400, 1.0}, {404, 1.02}});
+  model_values(base, d, {0.026, 0.4, 0.5});
+  try {
+    calibrate_kla(base, {}, d, no_zone_check());
+    FAIL() << "a design with no spread was calibrated";
+  } catch (const CaseError& e) {
+    EXPECT_THAT(e.what(), HasSubstr("points.csv: the 5 operating points have no spread"));
+    EXPECT_THAT(e.what(), HasSubstr("model.kla_factor"));
   }
 }
 

@@ -32,7 +32,7 @@ bool bit_identical(const PointResult& a, const PointResult& b) {
 }
 
 TEST(SweepPlan, FullFactorialVariesTheFirstAxisSlowest) {
-  const auto plan = full_factorial({{"a", 1.0, 3.0, 3, ""}, {"b", 10.0, 20.0, 2, "rpm"}});
+  const auto plan = full_factorial({{"a", 1.0, 3.0, 3, "", ""}, {"b", 10.0, 20.0, 2, "rpm", ""}});
   ASSERT_EQ(plan.points.size(), 6u);
   EXPECT_EQ(plan.points[0], (std::vector<double>{1.0, 10.0}));
   EXPECT_EQ(plan.points[1], (std::vector<double>{1.0, 20.0}));
@@ -42,7 +42,7 @@ TEST(SweepPlan, FullFactorialVariesTheFirstAxisSlowest) {
 
 TEST(SweepPlan, LatinHypercubeFillsEveryStratumOnce) {
   const int n = 17;
-  const auto plan = latin_hypercube({{"a", 0.0, 1.0, 1, ""}, {"b", 5.0, 7.0, 1, ""}}, n, 42);
+  const auto plan = latin_hypercube({{"a", 0.0, 1.0, 1, "", ""}, {"b", 5.0, 7.0, 1, "", ""}}, n, 42);
   for (size_t d = 0; d < 2; ++d) {
     std::vector<int> hits(n, 0);
     for (const auto& p : plan.points) {
@@ -55,6 +55,52 @@ TEST(SweepPlan, LatinHypercubeFillsEveryStratumOnce) {
   EXPECT_EQ(latin_hypercube(plan.axes, n, 42).points, plan.points);
 }
 
+TEST(SweepPlan, PointsAreDealtToRanksInTurnWithinTheBudget) {
+  const std::vector<bool> done{true, false, false, true, false, false, false};
+  const auto a = share_points(done, -1, 0, 2), b = share_points(done, -1, 1, 2);
+  EXPECT_EQ(a.skip, (std::vector<bool>{true, false, true, true, false, true, false}));
+  EXPECT_EQ(b.skip, (std::vector<bool>{true, true, false, true, true, false, true}));
+  EXPECT_EQ(a.here + b.here, 5u);
+  EXPECT_EQ(a.now, 5u);
+  EXPECT_EQ(a.later, 0u);
+  // A budget of 3 new points: the first three not done, the rest left for later on every rank.
+  const auto c = share_points(done, 3, 0, 2), d = share_points(done, 3, 1, 2);
+  EXPECT_EQ(c.here + d.here, 3u);
+  EXPECT_EQ(c.later, 2u);
+  EXPECT_EQ(d.later, 2u);
+}
+
+TEST(SweepPlan, RefusedBeforeBuildingWhenTooLarge) {
+  EXPECT_THROW(check_sweep_size({{"a", 1, 2, 10000, "", ""}, {"b", 1, 2, 10000, "", ""}}, 0), CaseError);
+  EXPECT_NO_THROW(check_sweep_size({{"a", 1, 2, 300, "", ""}, {"b", 1, 2, 300, "", ""}}, 0));
+  EXPECT_NO_THROW(check_sweep_size({{"a", 1, 2, 10000, "", ""}, {"b", 1, 2, 10000, "", ""}}, 50));
+}
+
+TEST(SweepPlan, AxesAreReadAtBothEndsBeforeAnyPointRuns) {
+  const auto base = base_case();
+  const auto check = [&](const std::string& vary) { check_sweep_axes(base, {}, {parse_vary(vary, base)}); };
+  EXPECT_NO_THROW(check("operation.speed=300:500:3"));
+  EXPECT_THROW(check("operation.sped=300:500:3:rpm"), CaseError);    // misspelt key
+  EXPECT_THROW(check("operation.speed=300:500:3:kg"), CaseError);    // wrong unit
+  EXPECT_THROW(check("operation.speed=300:5e6:3"), CaseError);       // out of range at the end
+  EXPECT_THROW(parse_vary("operation.speed=nan:500:3", base), CaseError);
+  EXPECT_THROW(parse_vary("operation.speed=300:inf:3", base), CaseError);
+  EXPECT_THROW(parse_vary("operation.speed=300:500:3x", base), CaseError);
+}
+
+TEST(SweepPlan, ObjectiveIsCheckedAgainstTheValuesThePointsWillHave) {
+  SweepOptions o;
+  EXPECT_NO_THROW(check_objective("power_gassed", o));
+  EXPECT_NO_THROW(check_objective("do_min:max", o));
+  EXPECT_THROW(check_objective("foo", o), CaseError);
+  EXPECT_THROW(check_objective("theta95", o), CaseError);
+  o.with_mixing = true;
+  EXPECT_NO_THROW(check_objective("theta95", o));
+  EXPECT_THROW(check_objective("do_min_p10", o), CaseError);
+  o.uncertainty_samples = 4;
+  EXPECT_NO_THROW(check_objective("do_min_p10:max", o));
+}
+
 TEST(SweepPlan, VaryTakesTheCaseFilesUnitWhenNoneIsGiven) {
   const auto base = base_case();
   EXPECT_EQ(parse_vary("operation.speed=300:500:3", base).unit, "rpm");
@@ -62,6 +108,32 @@ TEST(SweepPlan, VaryTakesTheCaseFilesUnitWhenNoneIsGiven) {
   EXPECT_EQ(parse_vary("operation.speed=5:8:2:rps", base).unit, "rps");
   EXPECT_THROW(parse_vary("operation.speed=300:500", base), CaseError);
   EXPECT_THROW(parse_vary("operation.nothing=1:2:2", base), CaseError);
+}
+
+TEST(Sweep, NamesKnownBeforehandAreTheNamesThePointsCarry) {
+  const auto base = base_case();
+  for (const bool mixing : {false, true}) {
+    const auto r = evaluate_point(base, mixing, false);
+    ASSERT_TRUE(r.ok) << r.error;
+    std::vector<std::string> names;
+    for (const auto& v : r.values) names.push_back(v.name);
+    SweepOptions o;
+    o.with_mixing = mixing;
+    EXPECT_EQ(names, sweep_value_names(o));
+  }
+}
+
+TEST(Sweep, AFailingRecordStopsTheSweepWithItsError) {
+  const auto base = base_case();
+  const auto plan = full_factorial({parse_vary("operation.speed=300:500:6", base)});
+  size_t recorded = 0;
+  EXPECT_THROW(run_sweep(base, {parse_override("grid.radial=4"), parse_override("grid.axial=12")}, plan,
+                         {false, false, 0, 1, 2}, std::vector<bool>(plan.points.size(), false),
+                         [&](size_t, const PointResult&) {
+                           if (++recorded == 2) throw IoError("cannot write the journal");
+                         }),
+               IoError);
+  EXPECT_EQ(recorded, 2u);  // points under way finish, but none is recorded after the failure
 }
 
 TEST(Sweep, EqualsTheSameCasesRunOneByOne) {
