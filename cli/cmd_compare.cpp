@@ -15,6 +15,7 @@
 #include "postproc/io/run_folder.hpp"
 #include "solver/oxygen/summary_values.hpp"
 #include "solver/studies/sweep.hpp"
+#include "solver/studies/sweep_choice.hpp"
 #include "postproc/report/table_output.hpp"
 
 namespace oxystrat::cli {
@@ -73,20 +74,22 @@ void add_compare_command(CLI::App& app) {
     std::vector<std::vector<SummaryValue>> values;
     std::vector<ComparedCase> compared;
     std::vector<bool> feasible_flags;
+    std::vector<std::string> violated;  // per case, the constraints it breaks
     for (size_t i = 0; i < loaded.size(); ++i) {
       values.push_back(summary_values(loaded[i].data, runs[i], o->no_mixing ? std::nullopt : std::optional<double>(theta[i])));
       if (o->uncertainty > 0) append_uncertainty_values(loaded[i].data, o->uncertainty, o->seed, !o->no_mixing, values.back());
       const auto checks = check_constraints(loaded[i].data, runs[i]);
       feasible_flags.push_back(feasible(checks));
+      violated.push_back(broken_constraints(checks));
       compared.push_back({names[i], &loaded[i].data, &runs[i], values.back(), checks});
     }
-    fmt::print("{}", compare_text(names, values, feasible_flags));
+    fmt::print("{}", compare_text(names, values, feasible_flags, violated));
     for (size_t i = 0; i < loaded.size(); ++i) {
       for (const auto& w : runs[i].cautions) fmt::print("caution ({}): {}\n", names[i], w);
     }
     {
       H5Writer h5(folder.file("result.h5").string());
-      write_compare_h5(h5, names, values, feasible_flags);
+      write_compare_h5(h5, names, values, feasible_flags, violated);
       for (size_t i = 0; i < loaded.size(); ++i) {
         h5.set_prefix("/cases/" + names[i]);
         write_case_h5(h5, loaded[i]);
@@ -97,7 +100,7 @@ void add_compare_command(CLI::App& app) {
       h5.set_prefix("");
       h5.close();
     }
-    write_compare_csv(folder.file("compare.csv").string(), names, values);
+    write_compare_csv(folder.file("compare.csv").string(), names, values, violated);
     std::string body = compare_report_body(compared);
     for (size_t i = 0; i < loaded.size(); ++i) {
       body += run_report_body(loaded[i].data, runs[i], o->no_mixing ? std::nullopt : std::optional<double>(theta[i]));

@@ -14,6 +14,8 @@
 #include "postproc/report/report.hpp"
 #include "postproc/io/run_folder.hpp"
 #include "solver/studies/sweep.hpp"
+#include "solver/studies/sweep_choice.hpp"
+#include "postproc/report/sweep_notes.hpp"
 #include "postproc/report/table_output.hpp"
 
 namespace oxystrat::cli {
@@ -49,18 +51,10 @@ SweepPlan make_plan(const SweepCommandOptions& o, const LoadedCase& base) {
   return latin_hypercube(axes, n, o.seed);
 }
 
-// Least objective among feasible points (":max" asks for the largest).
+// Least objective among feasible points (":max" asks for the largest); ties go to the higher DO
+// min, so the choice is never dominated (solver/studies/sweep_choice.hpp).
 int choose(const std::vector<PointResult>& results, const std::string& objective) {
-  const bool maximise = objective.size() > 4 && objective.compare(objective.size() - 4, 4, ":max") == 0;
-  const std::string name = maximise ? objective.substr(0, objective.size() - 4) : objective;
-  int best = -1;
-  double best_v = 0.0;
-  for (size_t i = 0; i < results.size(); ++i) {
-    if (!results[i].ok || !results[i].feasible) continue;
-    const double v = summary_value(results[i].values, name) * (maximise ? -1.0 : 1.0);
-    if (std::isfinite(v) && (best < 0 || v < best_v)) best = static_cast<int>(i), best_v = v;
-  }
-  return best;
+  return choose_objective_point(results, objective);
 }
 
 }  // namespace
@@ -90,6 +84,7 @@ void add_sweep_command(CLI::App& app) {
                   "Run at most this many new points, then stop: the journal keeps them for --resume (a time budget)");
   cmd->callback([o] {
     const auto base = load_case(o->case_opts);
+    check_objective_applies(base.data, o->objective);
     std::vector<Override> base_overrides;
     for (const auto& s : o->case_opts.sets) base_overrides.push_back(parse_override(s));
     const SweepPlan plan = make_plan(*o, base);
@@ -180,6 +175,7 @@ void add_sweep_command(CLI::App& app) {
                  summary_value(results[chosen].values, "do_min"));
     }
     fmt::print("\n");
+    fmt::print("{}", sweep_honesty_text(plan, results, chosen));
     write_sweep_csv(folder.file("sweep.csv").string(), plan, results, pareto, chosen);
     {
       H5Writer h5(folder.file("result.h5").string());

@@ -9,6 +9,7 @@
 #include <numbers>
 #include <sstream>
 
+#include "input/limits_reader.hpp"
 #include "input/toml_source.hpp"
 #include "physics/solubility.hpp"
 #include "physics/vessel_shape.hpp"
@@ -624,6 +625,7 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   read_numerics(src, c);
   read_constraints(src, c);
   read_control(src, c);
+  detail::read_design_limits(src, c);  // heat, shear, cost (input/limits_reader.cpp)
   src.check_no_unknown_keys();
   check_geometry(src, c, out.notes);
   note_unused_rheology_keys(src, c, out.notes);

@@ -5,6 +5,8 @@
 #include <limits>
 #include <stdexcept>
 
+#include "solver/oxygen/limit_values.hpp"
+
 namespace oxystrat {
 
 std::vector<SummaryValue> summary_values(const Case& c, const CaseRun& run, std::optional<double> theta95_s) {
@@ -40,6 +42,7 @@ std::vector<SummaryValue> summary_values(const Case& c, const CaseRun& run, std:
       {"otr_total", "mmol/(L h)", f ? 3600 * f->otr_total_mol_s / run.net.total_volume() : nan, "OTR (vessel mean)"},
       {"cautions", "1", static_cast<double>(run.cautions.size()), "cautions"},
   };
+  append_limit_values(c, run, out);  // heat, shear, cost: only the values that apply
   return out;
 }
 

@@ -1,0 +1,18 @@
+// The heat, shear and cost values of a run as named summary values (the rows of compare, the
+// columns of sweep): only those that apply, never a NaN placeholder.
+#pragma once
+
+#include <vector>
+
+#include "input/case.hpp"
+#include "solver/oxygen/case_run.hpp"
+#include "solver/oxygen/summary_values.hpp"
+
+namespace oxystrat {
+
+//! Appends heat_*, cooling_*, max_biomass_heat, dissipation_max, kolmogorov_min, compressor_power,
+//! total_power, operating_cost, ... in display units. Values of absent tables ([cooling],
+//! [prices]) are left out.
+void append_limit_values(const Case& c, const CaseRun& run, std::vector<SummaryValue>& out);
+
+}  // namespace oxystrat
