@@ -102,6 +102,9 @@ void read_utilities(TomlSource& src, Case& c) {
 // "0.12 EUR/kWh": the value in currency per SI unit, with the currency checked against prices.currency.
 double read_price(TomlSource& src, const std::string& path, const std::string& currency,
                   const std::vector<std::pair<std::string, double>>& per_unit, const std::string& example) {
+  if (src.has(path) && !src.string_if_string(path)) {
+    src.fail(path, "write the price as a string with its currency and unit, e.g. " + example);
+  }
   const auto text = src.string(path);
   if (!text) src.missing(path, "e.g. " + example);
   units::Split q;

@@ -248,7 +248,8 @@ std::string limits_report_html(const Case& c, const CaseRun& run, const std::vec
   std::vector<Row> shear;
   for (size_t i = 0; i < s.impellers.size(); ++i) {
     const auto& m = s.impellers[i];
-    shear.push_back({fmt::format("impeller {}: max dissipation ({:.3g} x mean)", i, m.ratio), num(m.epsilon_max_w_kg), "W/kg"});
+    const std::string how = m.from_zones ? "its swept zones" : fmt::format("{:.3g} x mean", m.ratio);
+    shear.push_back({fmt::format("impeller {}: max dissipation ({})", i, how), num(m.epsilon_max_w_kg), "W/kg"});
     shear.push_back({fmt::format("impeller {}: smallest eddies", i), num(1e6 * m.kolmogorov_min_m), "um"});
   }
   shear.push_back({"largest zone-mean dissipation", num(s.zone_epsilon_max_w_kg), "W/kg"});

@@ -91,6 +91,10 @@ TEST(CaseLimits, APriceInAnotherCurrencyIsRefused) {
 TEST(CaseLimits, APriceWithoutItsUnitIsRefused) {
   const auto c = with("[prices]\ncurrency = \"EUR\"\nelectricity = \"0.1\"");
   EXPECT_THAT(error_of(c), HasSubstr("e.g. electricity = \"0.12 EUR/kWh\""));
+  const auto bare = with("[prices]\ncurrency = \"EUR\"\nelectricity = 0.1");
+  const auto msg = error_of(bare);
+  EXPECT_THAT(msg, HasSubstr(bare.where("electricity") + ": prices.electricity = 0.1"));
+  EXPECT_THAT(msg, HasSubstr("as a string with its currency and unit"));
 }
 
 TEST(CaseLimits, EnrichedGasNeedsAnOxygenPrice) {
