@@ -13,6 +13,7 @@
 #include "postproc/report/report.hpp"
 #include "postproc/io/run_folder.hpp"
 #include "solver/studies/compare.hpp"
+#include "solver/studies/sweep_choice.hpp"
 #include "postproc/report/table_output.hpp"
 
 namespace oxystrat::cli {
@@ -67,18 +68,20 @@ void add_compare_command(CLI::App& app) {
     std::vector<std::vector<SummaryValue>> values;
     std::vector<ComparedCase> compared;
     std::vector<bool> feasible_flags;
+    std::vector<std::string> violated;  // per case, the constraints it breaks
     for (size_t i = 0; i < loaded.size(); ++i) {
       values.push_back(runs[i].values);
       feasible_flags.push_back(runs[i].feasible);
+      violated.push_back(broken_constraints(runs[i].checks));
       compared.push_back({names[i], &loaded[i].data, &runs[i].run, runs[i].values, runs[i].checks});
     }
-    fmt::print("{}", compare_text(names, values, feasible_flags));
+    fmt::print("{}", compare_text(names, values, feasible_flags, violated));
     for (size_t i = 0; i < loaded.size(); ++i) {
       for (const auto& w : runs[i].run.cautions) fmt::print("caution ({}): {}\n", names[i], w);
     }
     {
       H5Writer h5(folder.file("result.h5").string());
-      write_compare_h5(h5, names, values, feasible_flags);
+      write_compare_h5(h5, names, values, feasible_flags, violated);
       for (size_t i = 0; i < loaded.size(); ++i) {
         h5.set_prefix("/cases/" + names[i]);
         write_case_h5(h5, loaded[i]);
@@ -89,7 +92,7 @@ void add_compare_command(CLI::App& app) {
       h5.set_prefix("");
       h5.close();
     }
-    write_compare_csv(folder.file("compare.csv").string(), names, values);
+    write_compare_csv(folder.file("compare.csv").string(), names, values, violated);
     std::string body = compare_report_body(compared);
     for (size_t i = 0; i < loaded.size(); ++i) {
       body += run_report_body(loaded[i].data, runs[i].run, runs[i].theta95_s);

@@ -4,6 +4,7 @@
 #include "cli/common.hpp"
 #include "postproc/io/h5_writer.hpp"
 #include "postproc/report/hydro_output.hpp"
+#include "postproc/report/limits_output.hpp"
 #include "solver/oxygen/case_run.hpp"
 #include "postproc/report/oxygen_output.hpp"
 #include "postproc/report/report.hpp"
@@ -93,6 +94,7 @@ void add_run_command(CLI::App& app) {
     auto arrays = network_cell_arrays(net);
     for (auto& a : hydrodynamics_cell_arrays(hydro)) arrays.push_back(std::move(a));
     for (auto& a : oxygen_cell_arrays(run)) arrays.push_back(std::move(a));
+    for (auto& a : limits_cell_arrays(run)) arrays.push_back(std::move(a));
     write_profile_csv(folder.file("profile.csv").string(), run);
     std::string body = run_report_body(c, run, theta, &verdict);
     if (unc) {

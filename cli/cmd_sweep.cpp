@@ -12,8 +12,10 @@
 #include "postproc/io/run_folder.hpp"
 #include "postproc/io/sweep_session.hpp"
 #include "postproc/report/report.hpp"
+#include "postproc/report/sweep_notes.hpp"
 #include "postproc/report/table_output.hpp"
 #include "solver/studies/sweep.hpp"
+#include "solver/studies/sweep_choice.hpp"
 
 namespace oxystrat::cli {
 namespace {
@@ -71,6 +73,7 @@ void add_sweep_command(CLI::App& app) {
   cmd->callback([o] {
     // Every check before any point runs.
     const auto base = load_case(o->case_opts);
+    check_objective_applies(base.data, o->objective);
     std::vector<Override> base_overrides;
     for (const auto& s : o->case_opts.sets) base_overrides.push_back(parse_override(s));
     const SweepOptions so{o->with_mixing, !o->no_biomass, o->uncertainty, o->seed, o->threads};
@@ -79,7 +82,7 @@ void add_sweep_command(CLI::App& app) {
     const long lhs = sample_size(o->sample);
     check_sweep_size(axes, lhs);
     check_sweep_axes(base, base_overrides, axes);
-    check_objective(o->objective, so);
+    check_objective(base.data, o->objective, so);
     SweepPlan plan = lhs > 0 ? latin_hypercube(axes, static_cast<int>(lhs), o->seed) : full_factorial(axes);
 
     // Under mpirun the points are dealt to the ranks; rank 0 writes the result.
@@ -114,7 +117,7 @@ void add_sweep_command(CLI::App& app) {
     }
     const auto& p = session.plan();
     const auto pareto = pareto_front(results);
-    const int chosen = choose_point(results, o->objective);
+    const int chosen = choose_objective_point(results, o->objective);
     size_t feasible_count = 0, failed = 0;
     for (const auto& r : results) feasible_count += r.ok && r.feasible, failed += !r.ok;
     fmt::print("{} feasible, {} failed", feasible_count, failed);
@@ -125,6 +128,7 @@ void add_sweep_command(CLI::App& app) {
                  summary_value(results[chosen].values, "do_min"));
     }
     fmt::print("\n");
+    fmt::print("{}", sweep_honesty_text(p, results, chosen));
     write_sweep_csv(folder->file("sweep.csv").string(), p, results, pareto, chosen);
     {
       H5Writer h5(folder->file("result.h5").string());

@@ -22,6 +22,8 @@ std::string to_string(SpargerType t) {
 }
 std::string to_string(KlaModel m) { return m == KlaModel::mechanistic ? "mechanistic" : "local-correlation"; }
 
+std::string to_string(CultureKind k) { return k == CultureKind::cell ? "cell" : "microbial"; }
+
 }  // namespace oxystrat
 
 namespace oxystrat {

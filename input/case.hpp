@@ -11,6 +11,7 @@
 #include "physics/mass_transfer.hpp"
 #include "physics/rheology.hpp"
 #include "physics/vessel_shape.hpp"
+#include "input/utilities.hpp"
 
 namespace oxystrat {
 
@@ -55,6 +56,7 @@ struct Impeller {
   std::optional<double> flow_number;        //!< User's pumping number Nq [-]
   std::optional<double> gassed_power_factor;  //!< User's Pg/P0 [-], replaces the correlation
   std::optional<double> circulation_factor;   //!< User's Qc/Qp entrainment ratio [-]
+  std::optional<double> dissipation_ratio;    //!< User's eps_max / eps_mean of its discharge [-]
 };
 
 struct Sparger {
@@ -97,6 +99,9 @@ struct Culture {
   double maintenance_substrate_s = 0.0;      //!< m_S [kg substrate/(kg biomass s)]
   double maintenance_o2_mol_kg_s = 0.0;      //!< m_O [mol O2/(kg biomass s)]
   double substrate_kg_m3 = 0.0;              //!< Substrate at the start [kg/m3]
+  CultureKind kind = CultureKind::microbial;  //!< microbial or animal/insect/plant cells
+  //! Metabolic heat per mol O2 taken up [J/mol] (Cordier et al. 1987; docs/method.md, section 16)
+  double heat_yield_j_mol = 440e3;
   bool grows() const { return growth_rate_max_s > 0.0; }
 };
 
@@ -151,6 +156,11 @@ struct Constraints {
   std::optional<double> max_power_per_volume_w_m3;  //!< gassed P/V [W/m3]
   std::optional<double> max_pco2_pa;            //!< [Pa]
   bool allow_flooding = false;
+  std::optional<double> max_heat_w;             //!< cooling duty required [W]
+  //! (available - required) / required at least this [-]; set when [cooling] is given
+  std::optional<double> min_cooling_margin;
+  std::optional<double> min_kolmogorov_length_m;  //!< smallest eddies anywhere, impeller maxima included [m]
+  std::optional<double> max_dissipation_w_kg;     //!< largest local dissipation, impeller maxima included [W/kg]
 };
 
 //! DO control for transient runs: a PID loop on the DO at a probe, acting in cascade on speed,
@@ -191,6 +201,9 @@ struct Case {
   ControlSettings control;
   std::vector<EventSpec> events;
   Feed feed;
+  Cooling cooling;
+  Utilities utilities;
+  Prices prices;
 };
 
 //! The van 't Riet constants of the broth (physics/mass_transfer.hpp) with the case's
@@ -199,6 +212,7 @@ VantRietConstants vant_riet_constants(Coalescence c, const ModelConstants& m);
 
 std::string to_string(SpargerType t);
 std::string to_string(KlaModel m);
+std::string to_string(CultureKind k);
 
 
 }  // namespace oxystrat

@@ -7,6 +7,7 @@
 #include "input/case_cross_checks.hpp"
 #include "input/case_sections.hpp"
 #include "input/input_file.hpp"
+#include "input/limits_reader.hpp"
 #include "input/toml_source.hpp"
 
 namespace oxystrat {
@@ -54,6 +55,7 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   read_numerics(src, c);
   read_constraints(src, c);
   read_control(src, c);
+  read_design_limits(src, c);  // heat, shear, cost (input/limits_reader.cpp)
   src.check_no_unknown_keys();
   check_geometry(src, c, out.notes);
   note_unused_rheology_keys(src, c, out.notes);

@@ -53,6 +53,19 @@ const std::vector<UnitDef>& table(Dimension dim) {
                                                 {"mL/min", 1e-6 / kMinute}, {"m3/s", 1.0}, {"L/s", 1e-3}};
   static const std::vector<UnitDef> stress{{"Pa", 1.0}, {"mPa", 1e-3}, {"kPa", 1e3}};
   static const std::vector<UnitDef> consistency{{"Pa s^n", 1.0}, {"mPa s^n", 1e-3}, {"Pa.s^n", 1.0}};
+  static const std::vector<UnitDef> area{{"m2", 1.0}, {"m^2", 1.0}, {"cm2", 1e-4}, {"ft2", 0.09290304}};
+  static const std::vector<UnitDef> heat_transfer_coefficient{
+      {"W/(m2 K)", 1.0}, {"W/m2/K", 1.0}, {"kW/(m2 K)", 1e3}, {"kW/m2/K", 1e3}};
+  static const std::vector<UnitDef> mass_flow{{"kg/s", 1.0}, {"kg/h", 1.0 / kHour}, {"t/h", 1e3 / kHour},
+                                              {"kg/min", 1.0 / kMinute}};
+  static const std::vector<UnitDef> specific_heat{{"J/(kg K)", 1.0}, {"kJ/(kg K)", 1e3}, {"J/kg/K", 1.0},
+                                                  {"kJ/kg/K", 1e3}};
+  // kcal is the thermochemical calorie, 4.184 J.
+  static const std::vector<UnitDef> molar_energy{{"kJ/mol", 1e3}, {"J/mol", 1.0}, {"kcal/mol", 4184.0},
+                                                 {"kJ/mmol", 1e6}, {"kcal/mmol", 4.184e6}};
+  static const std::vector<UnitDef> specific_power{{"W/kg", 1.0}, {"mW/kg", 1e-3}, {"kW/kg", 1e3}};
+  static const std::vector<UnitDef> pressure_difference{{"bar", 1e5}, {"Pa", 1.0}, {"kPa", 1e3}, {"mbar", 100.0},
+                                                        {"psi", 6894.757293168361}, {"mmHg", 133.322387415}};
   // Concentrations in molar units; mass units are handled with the molar mass.
   static const std::vector<UnitDef> concentration{
       {"mmol/L", 1.0}, {"mol/m3", 1.0}, {"mM", 1.0}, {"mol/L", 1e3}, {"M", 1e3}, {"umol/L", 1e-3}};
@@ -78,6 +91,13 @@ const std::vector<UnitDef>& table(Dimension dim) {
     case Dimension::volume_flow: return volume_flow;
     case Dimension::stress: return stress;
     case Dimension::consistency: return consistency;
+    case Dimension::area: return area;
+    case Dimension::heat_transfer_coefficient: return heat_transfer_coefficient;
+    case Dimension::mass_flow: return mass_flow;
+    case Dimension::specific_heat: return specific_heat;
+    case Dimension::molar_energy: return molar_energy;
+    case Dimension::specific_power: return specific_power;
+    case Dimension::pressure_difference: return pressure_difference;
   }
   throw UnitError("unknown dimension");
 }

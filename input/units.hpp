@@ -35,6 +35,13 @@ enum class Dimension {
   volume_flow,    // m3/s (liquid feed)
   stress,         // Pa (a yield stress: no absolute or gauge)
   consistency,    // Pa s^n (power-law consistency index)
+  area,           // m2 (heat-transfer surfaces)
+  heat_transfer_coefficient,  // W/(m2 K)
+  mass_flow,      // kg/s (coolant)
+  specific_heat,  // J/(kg K)
+  molar_energy,   // J/mol (heat per mol O2)
+  specific_power, // W/kg (energy dissipation rate)
+  pressure_difference,  // Pa, a difference: no (a)/(g)
 };
 
 //! Number and unit text of a quantity string, e.g. "120 rpm" -> {120, "rpm"}.

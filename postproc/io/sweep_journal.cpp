@@ -44,6 +44,12 @@ int rank_of(const std::string& file, const std::string& stem) {
 std::string encode_point(size_t index, const PointResult& r) {
   std::string s = fmt::format("{}\t{}\t{}\t{}", index, r.ok ? 1 : 0, r.feasible ? 1 : 0, one_line(r.error));
   for (const auto& v : r.values) s += fmt::format("\t{}|{}|{}|{:.17g}", v.name, v.unit, v.label, v.value);
+  // Constraint checks travel as "check:NAME|1|detail|satisfied" (the detail without '|').
+  for (const auto& k : r.checks) {
+    std::string detail = one_line(k.detail);
+    for (auto& ch : detail) ch = ch == '|' ? '/' : ch;
+    s += fmt::format("\tcheck:{}|1|{}|{}", k.name, detail, k.satisfied ? 1 : 0);
+  }
   return s + "\tend";
 }
 
@@ -71,6 +77,10 @@ bool decode_point(const std::string& line, size_t& index, PointResult& r) {
       return false;
     }
     s.value = std::strtod(value.c_str(), nullptr);
+    if (s.name.rfind("check:", 0) == 0) {
+      r.checks.push_back({s.name.substr(6), s.value != 0.0, s.label});
+      continue;
+    }
     r.values.push_back(s);
   }
   return true;

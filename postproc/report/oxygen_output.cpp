@@ -10,6 +10,7 @@
 
 #include "physics/solubility.hpp"
 #include "input/errors.hpp"
+#include "postproc/report/limits_output.hpp"
 
 namespace oxystrat {
 namespace {
@@ -56,6 +57,7 @@ std::pair<double, double> cstar_bottom_top(const ZoneNetwork& net, const OxygenF
 void write_oxygen_h5(H5Writer& h5, const Case& c, const CaseRun& run) {
   h5.write("/cautions", run.cautions);
   h5.write("/notes", run.notes);
+  write_limits_h5(h5, c, run);  // heat, shear, cost
   if (!run.field) return;
   const auto& f = *run.field;
   h5.write("/fields/do", f.do_mol_m3, "mol/m3");
@@ -223,6 +225,7 @@ std::string oxygen_summary(const Case& c, const CaseRun& run) {
       s += fmt::format("                 (every zone above critical DO; case biomass {:.1f} g/L)\n", c.culture.biomass_kg_m3);
     }
   }
+  s += limits_summary(c, run);
   if (!run.cautions.empty()) {
     s += "Cautions (defer to local codes, the vessel's certification and licensed practice)\n";
     for (const auto& w : run.cautions) s += "  - " + w + "\n";

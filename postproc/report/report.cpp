@@ -7,7 +7,10 @@
 #include <fstream>
 #include <stdexcept>
 
+#include "postproc/report/limits_output.hpp"
 #include "postproc/report/svg_plot.hpp"
+#include "postproc/report/sweep_notes.hpp"
+#include "solver/studies/sweep_choice.hpp"
 #include "postproc/report/verdict_output.hpp"
 #include "solver/studies/verdict.hpp"
 #include "input/errors.hpp"
@@ -64,6 +67,7 @@ std::string run_report_body(const Case& c, const CaseRun& run, std::optional<dou
   s += values_table(summary_values(c, run, theta95_s));
   s += "</div><div>\n<h3>Cautions</h3>\n" + list(run.cautions, "None apply.");
   s += "<h3>Notes</h3>\n" + list(run.notes, "None.") + "</div></div>\n";
+  s += limits_report_html(c, run, outlines(c));
   if (!run.field) return s;
   if (!run.single_zone) throw std::logic_error("the run report needs the single-zone field (run_case with single_zone)");
   const auto& f = *run.field;
@@ -93,13 +97,29 @@ std::string compare_report_body(const std::vector<ComparedCase>& cases) {
   for (const auto& c : cases) s += "<th>" + escape(c.name) + "</th>";
   s += "</tr>\n";
   if (!cases.empty()) {
-    for (size_t q = 0; q < cases.front().values.size(); ++q) {
-      s += fmt::format("<tr><td>{}</td><td>{}</td>", escape(cases.front().values[q].label), escape(cases.front().values[q].unit));
-      for (const auto& c : cases) s += "<td class=\"num\">" + number(c.values[q].value) + "</td>";
+    // Rows by name: a value that applies to some cases only (a cost without [prices]) shows a dash.
+    std::vector<const SummaryValue*> rows;
+    for (const auto& c : cases) {
+      for (const auto& v : c.values) {
+        bool seen = false;
+        for (const auto* r : rows) seen = seen || r->name == v.name;
+        if (!seen) rows.push_back(&v);
+      }
+    }
+    for (const auto* r : rows) {
+      s += fmt::format("<tr><td>{}</td><td>{}</td>", escape(r->label), escape(r->unit));
+      for (const auto& c : cases) {
+        double x = std::nan("");
+        for (const auto& v : c.values) x = v.name == r->name ? v.value : x;
+        s += "<td class=\"num\">" + number(x) + "</td>";
+      }
       s += "</tr>\n";
     }
     s += "<tr><td>constraints</td><td></td>";
-    for (const auto& c : cases) s += std::string("<td>") + (feasible(c.checks) ? "all met" : "<b>violated</b>") + "</td>";
+    for (const auto& c : cases) {
+      s += std::string("<td>") + (feasible(c.checks) ? "all met" : "<b>violated</b>: " + escape(broken_constraints(c.checks))) +
+           "</td>";
+    }
     s += "</tr>\n";
   }
   s += "</table>\n<div class=\"row\">\n";
@@ -166,7 +186,7 @@ std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResu
   } else {
     s += "No feasible point.";
   }
-  s += "</p>\n<div class=\"row\">\n";
+  s += "</p>\n" + sweep_honesty_html(plan, results, chosen) + "<div class=\"row\">\n";
   const std::vector<std::string> groups{"failed / infeasible", "feasible", "chosen"};
   const std::vector<std::string> colors{"#cccccc", "#2ca02c", "#d62728"};
   const auto group_of = [&](size_t i) { return static_cast<int>(i) == chosen ? 2 : (results[i].ok && results[i].feasible ? 1 : 0); };
@@ -194,20 +214,20 @@ std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResu
                           {"dominated", "Pareto front", "chosen"}, {"#cccccc", "#1f77b4", "#d62728"});
   s += "</div>\n<h3>Points</h3>\n<table><tr><th>#</th>";
   for (const auto& a : plan.axes) s += "<th>" + escape(a.key) + " [" + escape(a.unit) + "]</th>";
-  s += "<th>feasible</th><th>P gassed [kW]</th><th>DO min [mmol/L]</th><th>below critical [%]</th><th>max biomass [g/L]</th></tr>\n";
+  s += "<th>feasible</th><th>P gassed [kW]</th><th>DO min [mmol/L]</th><th>below critical [%]</th><th>max biomass [g/L]</th><th>violated</th></tr>\n";
   const size_t shown = std::min<size_t>(results.size(), 500);
   for (size_t i = 0; i < shown; ++i) {
     s += fmt::format("<tr{}><td>{}</td>", static_cast<int>(i) == chosen ? " class=\"chosen\"" : "", i);
     for (double v : plan.points[i]) s += "<td class=\"num\">" + number(v) + "</td>";
     if (!results[i].ok) {
-      s += "<td colspan=\"5\">failed: " + escape(results[i].error) + "</td></tr>\n";
+      s += "<td colspan=\"6\">failed: " + escape(results[i].error) + "</td></tr>\n";
       continue;
     }
-    s += fmt::format("<td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td></tr>\n",
+    s += fmt::format("<td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td>{}</td></tr>\n",
                      results[i].feasible ? "yes" : "no", number(summary_value(results[i].values, "power_gassed")),
                      number(summary_value(results[i].values, "do_min")),
                      number(summary_value(results[i].values, "volume_below_critical")),
-                     number(summary_value(results[i].values, "max_biomass")));
+                     number(summary_value(results[i].values, "max_biomass")), escape(broken_constraints(results[i])));
   }
   s += "</table>\n";
   if (shown < results.size()) s += fmt::format("<p>First {} of {} points; all are in sweep.csv.</p>\n", shown, results.size());

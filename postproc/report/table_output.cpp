@@ -1,13 +1,15 @@
 #include "postproc/report/table_output.hpp"
 #include "postproc/io/file_output.hpp"
 #include "input/errors.hpp"
+#include "solver/studies/sweep_choice.hpp"
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
+#include <limits>
 #include <cstdio>
 #include <fstream>
-#include <limits>
 #include <sstream>
 #include <stdexcept>
 
@@ -31,6 +33,34 @@ std::string csv_quote(const std::string& s) {
 
 void check_stream(std::ofstream& out, const std::string& path) { finish_file(out, path); }
 
+// The rows of a table of several value lists: every name in the order first seen. A value that
+// applies to one case only (say operating_cost with a [prices] table) still gets its row.
+std::vector<const SummaryValue*> row_names(const std::vector<std::vector<SummaryValue>>& values) {
+  std::vector<const SummaryValue*> rows;
+  for (const auto& list : values) {
+    for (const auto& v : list) {
+      if (std::none_of(rows.begin(), rows.end(), [&](const SummaryValue* r) { return r->name == v.name; })) rows.push_back(&v);
+    }
+  }
+  return rows;
+}
+
+// The value named `name` in `list`; NaN when it does not apply there.
+double value_named(const std::vector<SummaryValue>& list, const std::string& name) {
+  for (const auto& v : list) {
+    if (v.name == name) return v.value;
+  }
+  return std::numeric_limits<double>::quiet_NaN();
+}
+
+std::vector<std::vector<SummaryValue>> ok_values(const std::vector<PointResult>& results) {
+  std::vector<std::vector<SummaryValue>> v;
+  for (const auto& r : results) {
+    if (r.ok) v.push_back(r.values);
+  }
+  return v;
+}
+
 // One value per case or point. A value that does not apply (no gas) or a failed point has no
 // entry: such entries hold 0 and the attribute has_value (1/0 per entry) marks them; a column with
 // no value at all is not written (docs/outputs.md). NaN is never written.
@@ -52,76 +82,82 @@ void write_column(H5Writer& h5, const std::string& path, const std::vector<doubl
 }  // namespace
 
 void write_compare_csv(const std::string& path, const std::vector<std::string>& names,
-                       const std::vector<std::vector<SummaryValue>>& values) {
+                       const std::vector<std::vector<SummaryValue>>& values, const std::vector<std::string>& violated) {
   std::ofstream out(path);
   out << "quantity,unit";
   for (const auto& n : names) out << "," << csv_quote(n);
   out << "\n";
-  if (!values.empty()) {
-    for (size_t q = 0; q < values.front().size(); ++q) {
-      out << values.front()[q].name << "," << values.front()[q].unit;
-      for (const auto& v : values) out << "," << cell(v[q].value);
-      out << "\n";
-    }
+  for (const auto* row : row_names(values)) {
+    out << row->name << "," << row->unit;
+    for (const auto& v : values) out << "," << cell(value_named(v, row->name));
+    out << "\n";
+  }
+  if (!violated.empty()) {
+    out << "violated,text";
+    for (const auto& v : violated) out << "," << csv_quote(v);
+    out << "\n";
   }
   check_stream(out, path);
 }
 
 std::string compare_text(const std::vector<std::string>& names, const std::vector<std::vector<SummaryValue>>& values,
-                         const std::vector<bool>& feasible) {
+                         const std::vector<bool>& feasible, const std::vector<std::string>& violated) {
   std::string s = fmt::format("{:<28} {:<11}", "", "");
   for (const auto& n : names) s += fmt::format(" {:>16.16}", n);
   s += "\n";
   if (values.empty()) return s;
-  for (size_t q = 0; q < values.front().size(); ++q) {
-    s += fmt::format("{:<28} {:<11}", values.front()[q].label, values.front()[q].unit);
-    for (const auto& v : values) s += fmt::format(" {:>16}", std::isfinite(v[q].value) ? fmt::format("{:.4g}", v[q].value) : "-");
+  for (const auto* row : row_names(values)) {
+    s += fmt::format("{:<28} {:<11}", row->label, row->unit);
+    for (const auto& v : values) {
+      const double x = value_named(v, row->name);
+      s += fmt::format(" {:>16}", std::isfinite(x) ? fmt::format("{:.4g}", x) : "-");
+    }
     s += "\n";
   }
   s += fmt::format("{:<28} {:<11}", "constraints", "");
   for (bool f : feasible) s += fmt::format(" {:>16}", f ? "met" : "VIOLATED");
+  s += "\n";
+  if (std::all_of(violated.begin(), violated.end(), [](const std::string& v) { return v.empty(); })) return s;
+  s += fmt::format("{:<28} {:<11}", "  broken", "");
+  for (const auto& v : violated) s += fmt::format(" {:>16}", v.empty() ? "-" : v);
   return s + "\n";
 }
 
 void write_compare_h5(H5Writer& h5, const std::vector<std::string>& names,
-                      const std::vector<std::vector<SummaryValue>>& values, const std::vector<bool>& feasible) {
+                      const std::vector<std::vector<SummaryValue>>& values, const std::vector<bool>& feasible,
+                      const std::vector<std::string>& violated) {
   h5.write("/compare/names", names);
   std::vector<int> ok(feasible.begin(), feasible.end());
   h5.write("/compare/feasible", ok, "1");
-  if (values.empty()) return;
-  for (size_t q = 0; q < values.front().size(); ++q) {
+  if (!violated.empty()) {
+    h5.write("/compare/violated", violated);
+    h5.attribute("/compare/violated", "meaning", "the constraints each case breaks, '; '-separated; empty: none");
+  }
+  for (const auto* r : row_names(values)) {
     std::vector<double> row;
-    for (const auto& v : values) row.push_back(v[q].value);
-    write_column(h5, "/compare/" + values.front()[q].name, row, values.front()[q].unit, values.front()[q].label);
+    for (const auto& v : values) row.push_back(value_named(v, r->name));
+    write_column(h5, "/compare/" + r->name, row, r->unit, r->label);
   }
 }
 
 void write_sweep_csv(const std::string& path, const SweepPlan& plan, const std::vector<PointResult>& results,
                      const std::vector<bool>& pareto, int chosen) {
   std::ofstream out(path);
-  const std::vector<SummaryValue>* header = nullptr;
-  for (const auto& r : results) {
-    if (r.ok) {
-      header = &r.values;
-      break;
-    }
-  }
+  const auto values = ok_values(results);
+  const auto rows = row_names(values);
   out << "point";
   for (const auto& a : plan.axes) out << "," << a.key << " [" << a.unit << "]";
   out << ",ok,feasible,pareto,chosen";
-  if (header) {
-    for (const auto& v : *header) out << "," << v.name << " [" << v.unit << "]";
-  }
-  out << ",error\n";
+  for (const auto* v : rows) out << "," << v->name << " [" << v->unit << "]";
+  out << ",violated,error\n";
   for (size_t i = 0; i < results.size(); ++i) {
     out << i;
     for (double x : plan.points[i]) out << "," << fmt::format("{:.10g}", x);
     const auto& r = results[i];
     out << "," << (r.ok ? 1 : 0) << "," << (r.ok && r.feasible ? 1 : 0) << "," << (pareto[i] ? 1 : 0) << ","
         << (static_cast<int>(i) == chosen ? 1 : 0);
-    if (header) {
-      for (size_t q = 0; q < header->size(); ++q) out << "," << (r.ok ? cell(r.values[q].value) : "");
-    }
+    for (const auto* v : rows) out << "," << (r.ok ? cell(value_named(r.values, v->name)) : "");
+    out << "," << (r.ok ? csv_quote(broken_constraints(r)) : "\"\"");
     out << "," << (r.ok ? "" : csv_quote(one_line(r.error))) << "\n";
   }
   check_stream(out, path);
@@ -151,20 +187,22 @@ void write_sweep_h5(H5Writer& h5, const SweepPlan& plan, const std::vector<Point
   h5.write("/sweep/chosen", std::vector<int>{chosen}, "1");
   h5.attribute("/sweep/chosen", "meaning", "index of the feasible point with the least objective, -1 if none");
   h5.write("/sweep/objective", objective);
-  const std::vector<SummaryValue>* header = nullptr;
-  for (const auto& r : results) {
-    if (r.ok) {
-      header = &r.values;
-      break;
-    }
-  }
-  if (!header) return;
-  for (size_t q = 0; q < header->size(); ++q) {
+  std::vector<std::string> violated(n);
+  for (size_t i = 0; i < n; ++i) violated[i] = results[i].ok ? broken_constraints(results[i]) : "";
+  h5.write("/sweep/violated", violated);
+  h5.attribute("/sweep/violated", "meaning", "the constraints each solved point breaks, '; '-separated; empty: none");
+  const auto edges = chosen >= 0 ? edge_axes(plan, static_cast<size_t>(chosen)) : std::vector<std::string>{};
+  h5.write("/sweep/chosen_on_edge", std::vector<int>{edges.empty() ? 0 : 1}, "1");
+  h5.attribute("/sweep/chosen_on_edge", "meaning",
+               "1 when the chosen point has the smallest or largest swept value of a varied key: extend the range");
+  h5.write("/sweep/chosen_edge_axes", edges);
+  const auto values = ok_values(results);
+  for (const auto* row : row_names(values)) {
     std::vector<double> col(n, std::numeric_limits<double>::quiet_NaN());
     for (size_t i = 0; i < n; ++i) {
-      if (results[i].ok) col[i] = results[i].values[q].value;
+      if (results[i].ok) col[i] = value_named(results[i].values, row->name);
     }
-    write_column(h5, "/sweep/" + (*header)[q].name, col, (*header)[q].unit, "");
+    write_column(h5, "/sweep/" + row->name, col, row->unit, "");
   }
 }
 

@@ -9,6 +9,7 @@
 #include <functional>
 
 #include "solver/oxygen/cautions.hpp"
+#include "solver/oxygen/heat_balance.hpp"
 #include "postproc/io/h5_writer.hpp"
 #include "postproc/io/network_output.hpp"
 #include "physics/solubility.hpp"
@@ -54,6 +55,7 @@ std::vector<Column> summary_columns() {
       {"growth_rate_mean", "growth rate mean [1/h]", "1/s", 3600.0, [](const S& s) { return s.growth_rate_mean; }},
       {"feed_rate", "feed rate [L/h]", "m3/s", 3.6e6, [](const S& s) { return s.feed_rate_m3_s; }},
       {"fed_volume", "fed volume [L]", "m3", 1e3, [](const S& s) { return s.fed_volume_m3; }},
+      {"heat_load", "heat load [kW]", "W", 1e-3, [](const S& s) { return s.heat_load_w; }},
   };
 }
 
@@ -146,6 +148,15 @@ std::vector<std::string> transient_cautions(const Case& c, const TransientResult
       out.push_back("the DO controller ended at the top of its cascade: the vessel cannot hold the set-point at this "
                     "uptake");
     }
+  }
+  double heat_peak = -1e300, heat_peak_t = 0.0;
+  for (const auto& s : r.trace) {
+    if (s.heat_load_w > heat_peak) heat_peak = s.heat_load_w, heat_peak_t = s.time_s;
+  }
+  if (const auto cooling = cooling_available_w(c); cooling && !r.trace.empty() && heat_peak > *cooling) {
+    out.push_back(fmt::format("COOLING: the heat load reached {:.4g} kW at {:.0f} s, more than the {:.4g} kW the cooling "
+                              "removes: the broth would warm (the run holds its temperature fixed)",
+                              heat_peak / 1e3, heat_peak_t, *cooling / 1e3));
   }
   if (r.grows && worst_below > 0.0) {
     out.push_back(fmt::format("up to {:.1f} % of the volume was below critical DO; growth there is O2-limited",
@@ -271,6 +282,12 @@ void write_transient_outputs(RunFolder& folder, const LoadedCase& loaded, const 
                           {{"OTR", t_h, series(r, cols[11].get), "#1f77b4"},
                            {"OUR", t_h, series(r, cols[12].get), "#d62728", true}},
                           {}, 620, 320);
+  {
+    std::vector<svg::Marker> available;
+    if (const auto cooling = cooling_available_w(c)) available.push_back({false, *cooling / 1e3, "cooling available"});
+    body += svg::line_chart("Heat load (cooling duty required)", "time [h]", "heat load [kW]",
+                            {{"heat load", t_h, series(r, cols[22].get, 1e-3), "#8c564b"}}, available, 620, 320);
+  }
   if (r.grows) {
     body += svg::line_chart("Substrate over the zones", "time [h]", "substrate [g/L]",
                             {{"maximum (near the feed)", t_h, series(r, cols[17].get), "#d62728"},

@@ -6,6 +6,16 @@
 #include "solver/oxygen/cautions.hpp"
 
 namespace oxystrat {
+namespace {
+
+// Heat, shear and cost at the solved point, with their cautions and notes.
+void add_design_limits(const Case& c, CaseRun& run) {
+  run.limits = design_limits(c, run.net, run.hydro, run.field ? &*run.field : nullptr);
+  for (auto& w : limit_cautions(c, run.limits, run.max_biomass_kg_m3)) run.cautions.push_back(std::move(w));
+  for (auto& n : limit_notes(c, run.limits)) run.notes.push_back(std::move(n));
+}
+
+}  // namespace
 
 CaseRun run_case(const Case& c, const CaseRunOptions& opts) {
   CaseRun run;
@@ -15,6 +25,7 @@ CaseRun run_case(const Case& c, const CaseRunOptions& opts) {
   if (run.hydro.gas_molar_flow_mol_s <= 0.0) {
     run.notes.push_back("no gas is sparged: hydrodynamics and mixing only; the oxygen field is not solved");
     run.cautions = cautions(c, run.hydro, nullptr);
+    add_design_limits(c, run);
     return run;
   }
   const OxygenContext ctx{c, run.net, run.hydro, run.routing};
@@ -36,6 +47,7 @@ CaseRun run_case(const Case& c, const CaseRunOptions& opts) {
     }
   }
   run.cautions = cautions(c, run.hydro, &*run.field);
+  add_design_limits(c, run);
   return run;
 }
 

@@ -9,6 +9,7 @@
 #include "input/case.hpp"
 #include "solver/flow/gas_routing.hpp"
 #include "solver/flow/hydrodynamics.hpp"
+#include "solver/oxygen/design_limits.hpp"
 #include "solver/oxygen/oxygen_field.hpp"
 #include "mesh/zone_network.hpp"
 
@@ -24,6 +25,7 @@ struct CaseRun {
   double max_biomass_single_zone_kg_m3 = 0.0;
   std::vector<std::string> cautions;
   std::vector<std::string> notes;          //!< what was skipped and why
+  DesignLimits limits;                     //!< heat, shear and cost at this point
 };
 
 struct CaseRunOptions {

@@ -185,7 +185,6 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   const auto& transport = setup.transport;
   const double in_o2 = setup.inlet_o2_mol_s, in_co2 = setup.inlet_co2_mol_s;
   const double h_co2 = setup.henry_co2;
-  const double salt_o2 = physics::salting_out_factor(physics::Gas::o2, t, c.broth.ions_mol_m3);
   OxygenField f;
   Eigen::VectorXd x;
   if (warm != nullptr && warm->state.size() == 4 * n) {

@@ -5,6 +5,8 @@
 #include <limits>
 #include <stdexcept>
 
+#include "solver/oxygen/limit_values.hpp"
+
 namespace oxystrat {
 
 std::vector<SummaryValue> summary_values(const Case& c, const CaseRun& run, std::optional<double> theta95_s) {
@@ -41,6 +43,7 @@ std::vector<SummaryValue> summary_values(const Case& c, const CaseRun& run, std:
   };
   // Not computed is not there: no column of NaN (docs/outputs.md).
   if (theta95_s) out.insert(out.begin() + 5, {"theta95", "s", *theta95_s, "mixing time theta95"});
+  append_limit_values(c, run, out);  // heat, shear, cost: only the values that apply
   return out;
 }
 

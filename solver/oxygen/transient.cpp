@@ -8,6 +8,9 @@
 
 #include "solver/oxygen/culture_growth.hpp"
 #include "solver/oxygen/do_control.hpp"
+#include "solver/flow/gas_routing.hpp"
+#include "solver/flow/hydrodynamics.hpp"
+#include "solver/oxygen/heat_balance.hpp"
 #include "solver/oxygen/oxygen_field.hpp"
 #include "solver/oxygen/transient_step.hpp"
 
@@ -217,6 +220,8 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
       smp.controller_output = u;
       smp.feed_rate_m3_s = current.feed.rate_at(t);
       smp.fed_volume_m3 = current.feed.volume_until(t);
+      smp.heat_load_w = heat_balance(current, {plant->hydro.power_gassed_w, plant->hydro.gas_molar_flow_mol_s,
+                                               smp.our_mol_s, smp.otr_mol_s, smp.cer_mol_s}).required_w;
       res.trace.push_back(smp);
       if (t >= next_output - 1e-9 || t >= opts.duration_s - 1e-9) {
         store_frame(fl);

@@ -47,6 +47,7 @@ struct TransientSample {
   double biomass_mean = 0.0;                            //!< [kg/m3]
   double growth_rate_mean = 0.0;                        //!< volume mean of mu [1/s]
   double feed_rate_m3_s = 0.0, fed_volume_m3 = 0.0;
+  double heat_load_w = 0.0;                             //!< cooling duty required (heat_balance.hpp) [W]
 };
 
 //! Fields of every zone at one output time.

@@ -4,6 +4,8 @@
 
 #include <algorithm>
 
+#include "solver/studies/limit_constraints.hpp"
+
 namespace oxystrat {
 
 std::vector<ConstraintCheck> check_constraints(const Case& c, const CaseRun& run) {
@@ -45,6 +47,7 @@ std::vector<ConstraintCheck> check_constraints(const Case& c, const CaseRun& run
                                *k.max_pco2_pa / 133.322387415)});
   }
   if (!k.allow_flooding) out.push_back({"flooding", !flooded, flooded ? "an impeller is flooded" : "no impeller flooded"});
+  append_limit_checks(c, run, out);  // heat and shear
   return out;
 }
 

@@ -74,7 +74,8 @@ Evaluation evaluate(const LoadedCase& base, const std::vector<Override>& overrid
 // then bisection between the last failing and the first passing value.
 LeverResult move_lever(const LoadedCase& base, const std::vector<Override>& overrides, const LeverSpec& s,
                        const LeverOptions& o) {
-  LeverResult r{s.name, s.key, s.unit, s.current, s.limit, s.reason};
+  LeverResult r;
+  r.name = s.name, r.key = s.key, r.unit = s.unit, r.current = s.current, r.limit = s.limit, r.limit_reason = s.reason;
   if (!(s.limit > s.current)) {
     r.value = s.current;
     r.note = fmt::format("no room: the case is already at the limit ({})", s.reason);

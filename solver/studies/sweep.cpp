@@ -13,6 +13,7 @@
 #include "input/units.hpp"
 #include "solver/flow/hydrodynamics.hpp"
 #include "solver/flow/mixing_time.hpp"
+#include "solver/oxygen/limit_values.hpp"
 #include "solver/studies/uncertainty.hpp"
 #include "solver/random/latin_hypercube.hpp"
 
@@ -182,8 +183,9 @@ PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supp
   return r;
 }
 
-std::vector<std::string> sweep_value_names(const SweepOptions& opts) {
+std::vector<std::string> sweep_value_names(const Case& base, const SweepOptions& opts) {
   auto names = summary_value_names(opts.with_mixing);
+  for (auto& n : limit_value_names(base)) names.push_back(std::move(n));
   if (opts.uncertainty_samples > 0) {
     for (const auto& q : uncertainty_output_names()) {
       if (q == "theta95" && !opts.with_mixing) continue;
@@ -193,10 +195,10 @@ std::vector<std::string> sweep_value_names(const SweepOptions& opts) {
   return names;
 }
 
-void check_objective(const std::string& objective, const SweepOptions& opts) {
+void check_objective(const Case& base, const std::string& objective, const SweepOptions& opts) {
   const bool maximise = objective.size() > 4 && objective.compare(objective.size() - 4, 4, ":max") == 0;
   const std::string name = maximise ? objective.substr(0, objective.size() - 4) : objective;
-  const auto names = sweep_value_names(opts);
+  const auto names = sweep_value_names(base, opts);
   if (std::find(names.begin(), names.end(), name) != names.end()) return;
   std::string list;
   for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
@@ -204,19 +206,6 @@ void check_objective(const std::string& objective, const SweepOptions& opts) {
   throw CaseError(fmt::format("--objective '{}': no value named {} in this sweep{}; expected NAME or NAME:max with NAME "
                               "one of {}",
                               objective, name, needs_mixing ? " (theta95 needs --with-mixing)" : "", list));
-}
-
-int choose_point(const std::vector<PointResult>& results, const std::string& objective) {
-  const bool maximise = objective.size() > 4 && objective.compare(objective.size() - 4, 4, ":max") == 0;
-  const std::string name = maximise ? objective.substr(0, objective.size() - 4) : objective;
-  int best = -1;
-  double best_v = 0.0;
-  for (size_t i = 0; i < results.size(); ++i) {
-    if (!results[i].ok || !results[i].feasible) continue;
-    const double v = summary_value(results[i].values, name) * (maximise ? -1.0 : 1.0);
-    if (std::isfinite(v) && (best < 0 || v < best_v)) best = static_cast<int>(i), best_v = v;
-  }
-  return best;
 }
 
 PointShare share_points(const std::vector<bool>& done, long max_points, int rank, int ranks) {

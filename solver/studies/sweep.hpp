@@ -66,13 +66,13 @@ struct SweepOptions {
   int threads = 0;                    //!< 0: OpenMP default
 };
 
-//! The names of the values every point carries with these options: the summary values, theta95
-//! with mixing, the P10/P50/P90 quantiles with uncertainty samples.
-std::vector<std::string> sweep_value_names(const SweepOptions& opts);
+//! The names of the values a point of `base` carries with these options: the summary values,
+//! theta95 with mixing, the heat, shear and cost values that apply, the P10/P50/P90 quantiles
+//! with uncertainty samples.
+std::vector<std::string> sweep_value_names(const Case& base, const SweepOptions& opts);
 //! Throws CaseError unless `objective` is NAME or NAME:max with NAME one of sweep_value_names().
-void check_objective(const std::string& objective, const SweepOptions& opts);
-//! The feasible point with the least `objective` value (NAME:max: the largest); -1 if none.
-int choose_point(const std::vector<PointResult>& results, const std::string& objective);
+//! The feasible point is then chosen by choose_objective_point (solver/studies/sweep_choice.hpp).
+void check_objective(const Case& base, const std::string& objective, const SweepOptions& opts);
 
 //! Which points one of `ranks` processes runs now.
 struct PointShare {

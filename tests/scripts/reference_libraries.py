@@ -3,7 +3,7 @@
 independent, well-kept libraries (Debian packages):
   - TEOS-10 Gibbs SeaWater toolbox `gsw`: O2 solubility (Garcia & Gordon 1992 fit of Benson &
     Krause's data), in umol/kg, at practical salinity 0;
-  - `iapws`: IAPWS-IF97 saturation pressure and density of water;
+  - `iapws`: IAPWS-IF97 saturation pressure, latent heat and density of water;
   - `pint`: unit conversions.
 Usage: reference_libraries.py PROPERTY_TABLE_EXE OXYSTRAT_EXE CASE_FILE WORK_DIR
 """
@@ -48,6 +48,13 @@ def main():
             check(f"O2 saturation at {t - 273.15:.0f} degC vs gsw", o2, o2_saturation_gsw(t), 5e-4)
             # The same IAPWS-IF97 equation: round-off only.
             check(f"water vapour pressure at {t - 273.15:.0f} degC vs iapws", pw, iapws.IAPWS97(T=t, x=0).P * 1e6, 1e-7)
+        elif line.startswith("latent,"):
+            _, t, latent = line.split(",")
+            t, latent = float(t), float(latent)
+            ref = (iapws.IAPWS97(T=t, x=1).h - iapws.IAPWS97(T=t, x=0).h) * 1e3  # kJ/kg -> J/kg
+            # Our cubic fit of the IAPWS-IF97 saturation enthalpies, 0-80 degC (docs/method.md,
+            # section 16): 1.4e-5 at worst with the rounded coefficients; 5e-5 allows for it.
+            check(f"latent heat of water at {t - 273.15:.0f} degC vs iapws", latent, ref, 5e-5)
         elif line.startswith("unit,"):
             _, text, si = line.split(",")
             number, unit = text.split(" ", 1)
@@ -55,7 +62,8 @@ def main():
             unit = unit.replace("(a)", "").replace("(g)", "").replace("degC", "degree_Celsius")
             unit = {"mmol/g/h": "mmol/g/hour", "cP": "centipoise", "L": "liter", "rpm": "revolutions_per_minute",
                     "g/cm3": "g/cm**3",
-                    "1/h": "1/hour", "L/h": "liter/hour", "m3/h": "m**3/hour", "g/g/h": "g/g/hour"}.get(unit, unit)
+                    "1/h": "1/hour", "L/h": "liter/hour", "m3/h": "m**3/hour", "g/g/h": "g/g/hour",
+                    "m2": "m**2", "t/h": "tonne/hour", "kcal/mol": "kilocalorie/mol"}.get(unit, unit)
             q = ureg.Quantity(float(number), ureg(unit).units) if unit != "degree_Celsius" else ureg.Quantity(float(number), ureg.degC)
             ref = q.to_base_units().magnitude
             if "revolution" in unit:

@@ -83,7 +83,9 @@ TEST(GasRouting, BubblesAreSmallerWhereTheDissipationIsHigher) {
   const Chain ch(c);
   for (int i = 0; i < ch.net.size(); ++i) {
     for (int j = 0; j < ch.net.size(); ++j) {
-      if (ch.hydro.epsilon[i] > ch.hydro.epsilon[j]) EXPECT_LE(ch.routing.sauter_m[i], ch.routing.sauter_m[j]);
+      if (ch.hydro.epsilon[i] > ch.hydro.epsilon[j]) {
+        EXPECT_LE(ch.routing.sauter_m[i], ch.routing.sauter_m[j]);
+      }
     }
   }
   const auto [lo, hi] = std::minmax_element(ch.routing.sauter_m.begin(), ch.routing.sauter_m.end());

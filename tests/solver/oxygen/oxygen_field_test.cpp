@@ -61,7 +61,7 @@ TEST(OxygenField, AnalyticJacobianMatchesFiniteDifferences) {
     coeff.inert_mol_m3.push_back(f.state[4 * k + 2] * 3.0);
   }
   const SparseMatrix l = transport_matrix(ch.net, ch.hydro.face_flow, ch.hydro.face_exchange);
-  Uptake u{c.culture.q_o2_max_mol_kg_s * c.culture.biomass_kg_m3, c.culture.k_o2_mol_m3, 1.1};
+  Uptake u{c.culture.q_o2_max_mol_kg_s * c.culture.biomass_kg_m3, c.culture.k_o2_mol_m3, 1.1, {}};
   const OxygenProblem p(ch.net, ch.routing, l, coeff, u, 1.0, 0.01);
   Eigen::VectorXd x = f.state;
   for (int i = 0; i < x.size(); ++i) x[i] = x[i] * (1.0 + 0.1 * std::sin(i)) + 1e-4;  // away from kinks

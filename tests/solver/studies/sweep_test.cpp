@@ -89,6 +89,10 @@ TEST(SweepPlan, AxesAreReadAtBothEndsBeforeAnyPointRuns) {
 }
 
 TEST(SweepPlan, ObjectiveIsCheckedAgainstTheValuesThePointsWillHave) {
+  const auto base = base_case();
+  const auto check_objective = [&](const std::string& objective, const SweepOptions& o) {
+    oxystrat::check_objective(base.data, objective, o);
+  };
   SweepOptions o;
   EXPECT_NO_THROW(check_objective("power_gassed", o));
   EXPECT_NO_THROW(check_objective("do_min:max", o));
@@ -119,7 +123,7 @@ TEST(Sweep, NamesKnownBeforehandAreTheNamesThePointsCarry) {
     for (const auto& v : r.values) names.push_back(v.name);
     SweepOptions o;
     o.with_mixing = mixing;
-    EXPECT_EQ(names, sweep_value_names(o));
+    EXPECT_EQ(names, sweep_value_names(base.data, o));
   }
 }
 
