@@ -1,4 +1,4 @@
-// oxystrat validate --out DIR: every published check the model makes, in one table.
+// oxystrat validate --out DIR: verification checks and validation against measured data.
 #include <fmt/format.h>
 
 #include "cli/common.hpp"
@@ -12,7 +12,7 @@
 namespace oxystrat::cli {
 
 void add_validate_command(CLI::App& app) {
-  auto* cmd = app.add_subcommand("validate", "Run every published check of the model and write the validation report");
+  auto* cmd = app.add_subcommand("validate", "Verify the code against its equations and validate the model against measured data (report)");
   auto out = std::make_shared<OutputOptions>();
   add_output_options(*cmd, *out);
   cmd->callback([out] {
@@ -22,19 +22,25 @@ void add_validate_command(CLI::App& app) {
 #pragma omp parallel for schedule(dynamic, 1)
     for (long i = 0; i < static_cast<long>(checks.size()); ++i) results[i] = run_check(checks[i]);
     fmt::print("{}", validation_text(results));
-    size_t failed = 0;
-    for (const auto& r : results) failed += !r.passed;
     write_validation_csv(folder.file("validation.csv").string(), results);
     {
       H5Writer h5(folder.file("result.h5").string());
       write_validation_h5(h5, results);
       h5.close();
     }
-    write_text_file(folder.file("report.html").string(), report_page("oxystrat validation", validation_html(results), false));
+    write_text_file(folder.file("report.html").string(),
+                    report_page("oxystrat: verification and validation", validation_html(results), false));
     folder.commit();
-    fmt::print("{} of {} checks pass. Wrote {}/validation.csv, result.h5, report.html\n", results.size() - failed,
-               results.size(), folder.target().string());
-    if (failed > 0) throw Error(fmt::format("{} validation check(s) FAILED (listed above)", failed));
+    const auto t = tally(results);
+    fmt::print("Verification: {} of {} checks pass. Validation: {} of {} rows of measured data inside their band. "
+               "Wrote {}/validation.csv, result.h5, report.html\n",
+               t.verification_checks - t.verification_failed, t.verification_checks, t.inside_band, t.validation_rows,
+               folder.target().string());
+    // A failed verification is a bug; a validation row outside its band is a finding, reported above.
+    if (t.verification_failed > 0) {
+      throw Error(fmt::format("{} verification check(s) FAILED (listed above)", t.verification_failed));
+    }
+    if (t.errors > 0) throw Error(fmt::format("{} validation row(s) could not be computed (listed above)", t.errors));
   });
 }
 

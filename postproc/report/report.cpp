@@ -248,14 +248,18 @@ std::string report_page(const std::string& title, const std::string& body, bool 
 <p>The vessel is split into axisymmetric annular zones aligned with every impeller and the sparger.
 Liquid flows follow a stream function built from one loop per impeller discharge (exact zone
 balance); turbulent exchange scales with local dissipation (calibrated once against the
-Grenville/Nienow mixing-time correlation). Gas rises zone by zone, spread by non-flooded impellers;
+Grenville/Nienow mixing-time correlation). Gas moves between zones by drift flux: bubbles rise at
+their slip velocity on the liquid flow (bubble size from break-up in the local dissipation, Hinze),
+so holdup, bubble size and gas composition are found per zone; non-flooded impellers spread it.
 C* follows Henry's law at each zone's pressure and gas composition (Benson &amp; Krause 1984); kLa
-from van 't Riet (1979) per zone; uptake is Monod in dissolved O2. Power numbers, gassed power (Cui
-et al. 1996), flooding (Nienow et al. 1985). The single-zone column is the textbook answer: one
-well-mixed zone with the vessel-average kLa. Correlations were fitted on vessels up to a few m3 and
-scatter by 20-40 %; read the numbers as engineering estimates, calibrate with your own data, and
-defer to local codes, the vessel's certification and licensed practice. Full method and references:
-README.md of oxystrat.</p>
+per zone from van 't Riet (1979) or from the bubble size and surface renewal; uptake is Monod in
+dissolved O2. Power numbers, gassed power (Cui et al. 1996), flooding (Nienow et al. 1985); viscous
+broths through Metzner-Otto, damped turbulence and Elson caverns. The single-zone column is the
+textbook answer: one well-mixed zone with the vessel-average kLa. Correlations were fitted on
+vessels up to a few m3 and scatter by 20-40 %; read the numbers as engineering estimates,
+calibrate with your own data, and defer to local codes, the vessel's certification and licensed
+practice. Full method and references: docs/method.md of oxystrat; measured data the model was
+checked against: <code>oxystrat validate</code>.</p>
 </body></html>
 )html";
   return s;

@@ -26,6 +26,32 @@ axial = {}
   return read_case_text(text, "reference_single_impeller").data;
 }
 
+Case reference_gassed_single_rushton(double speed_rpm, double vvm) {
+  const std::string text = fmt::format(R"toml(
+[vessel]
+diameter = "1.0 m"
+liquid_height = "1.0 m"
+bottom = "flat"
+temperature = "20 degC"
+[[impeller]]
+type = "rushton"
+diameter = "0.333 m"
+elevation = "0.333 m"
+[sparger]
+type = "ring"
+elevation = "0.15 m"
+diameter = "0.25 m"
+[operation]
+speed = "{} rpm"
+gas_flow = "{} vvm"
+[grid]
+radial = 10
+axial = 30
+)toml",
+                                       speed_rpm, vvm);
+  return read_case_text(text, "reference_gassed_single_rushton").data;
+}
+
 Case reference_gassed_vessel(int radial, int axial, double biomass_g_l) {
   const std::string text = fmt::format(R"toml(
 [vessel]

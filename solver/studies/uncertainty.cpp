@@ -78,11 +78,11 @@ std::vector<UncertainConstant> uncertain_constants() {
        }},
       {"kla_gas_exponent", false, 0.05, "spread of the vs exponent between published fits, +- 0.1 [mem], as 2 sigma",
        [](Case& c, double s) { c.model.kla_gas_exponent = vant_riet_constants(c.broth.coalescence, c.model).gas_exponent + s; }},
-      {"power_number", true, 0.07, "Rushton Np 4.6-6.0 with blade thickness and clearance (MODEL.md [sec]) as a 95 % range",
+      {"power_number", true, 0.07, "Rushton Np 4.6-6.0 with blade thickness and clearance (docs/method.md [sec]) as a 95 % range",
        [](Case& c, double f) {
          for (auto& i : c.impellers) i.power_number = i.power_number.value_or(impeller_data(i.type).power_number) * f;
        }},
-      {"flow_number", true, 0.05, "Rushton Nq 0.70-0.85 (MODEL.md [sec]) as a 95 % range",
+      {"flow_number", true, 0.05, "Rushton Nq 0.70-0.85 (docs/method.md [sec]) as a 95 % range",
        [](Case& c, double f) {
          for (auto& i : c.impellers) i.flow_number = i.flow_number.value_or(impeller_data(i.type).flow_number) * f;
        }},

@@ -105,7 +105,8 @@ TEST_F(CliFullDisk, CompareFailsCleanlyWhenResultH5CannotBeWritten) {
 }
 
 TEST_F(CliFullDisk, ValidateFailsCleanlyWhenResultH5CannotBeWritten) {
-  expect_clean_failure(8 << 10, {"validate", "--out", "res"}, "result.h5: File too large");
+  // 24 KiB: validation.csv (about 15 KiB) fits, result.h5 (about 40 KiB) does not.
+  expect_clean_failure(24 << 10, {"validate", "--out", "res"}, "result.h5: File too large");
 }
 
 // 1 KiB: the sweep journal (a line per finished point) passes it after a point or two. Before the

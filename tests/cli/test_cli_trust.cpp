@@ -13,13 +13,21 @@ class TrustCli : public CliTest {};
 TEST_F(TrustCli, ValidateListsEveryCheckAndPasses) {
   const auto r = oxystrat({"validate", "--out", "val"});
   ASSERT_EQ(r.exit_code, 0) << r.err;
-  EXPECT_THAT(r.out, HasSubstr("checks pass"));
+  EXPECT_THAT(r.out, HasSubstr("Verification:"));
+  EXPECT_THAT(r.out, HasSubstr("Validation against measured data"));
+  EXPECT_THAT(r.out, HasSubstr("model error"));  // the statistics per quantity
   const auto csv = read_file(work() / "val/validation.csv");
-  // One printed line per check plus the closing line; one CSV row per check plus the header.
-  EXPECT_EQ(std::count(csv.begin(), csv.end(), '\n'), std::count(r.out.begin(), r.out.end(), '\n'));
+  // One CSV row per check plus the header; one printed row per check, each starting with its outcome.
+  const auto rows = std::count(csv.begin(), csv.end(), '\n') - 1;
+  long printed = 0;
+  for (const char* o : {"\npass ", "\ninside ", "\nMISS ", "\nFAIL ", "\nERROR "}) {
+    for (auto at = r.out.find(o); at != std::string::npos; at = r.out.find(o, at + 1)) ++printed;
+  }
+  EXPECT_EQ(printed, rows);
   EXPECT_THAT(csv, HasSubstr("Benson & Krause 1984"));
-  EXPECT_EQ(csv.find("FAIL"), std::string::npos);
-  EXPECT_TRUE(fs::exists(work() / "val/report.html"));
+  EXPECT_THAT(csv, HasSubstr("Montgomery, Thom & Cockburn 1964"));
+  EXPECT_EQ(csv.find(",FAIL,"), std::string::npos);  // verification never fails
+  EXPECT_THAT(read_file(work() / "val/report.html"), HasSubstr("Validation against measured data"));
 }
 
 TEST_F(TrustCli, RunPrintsBandsAndTheGridConvergenceIndex) {
