@@ -29,32 +29,45 @@ std::string change_text(const LeverResult& r) {
 }
 
 std::string safety(const LeverResult& r, const LeverEffects& base) {
-  std::string s;
+  std::vector<std::string> w;
   const auto& e = r.effects;
-  if (e.oxygen_fraction > 0.2146) s += fmt::format("O2-enriched gas ({:.0f} % O2): oxygen service; ", 100.0 * e.oxygen_fraction);
-  if (e.flooded_impellers > base.flooded_impellers) s += fmt::format("{} impeller(s) flooded; ", e.flooded_impellers);
-  if (e.pco2_max_pa > 150.0 * kMmHg) s += fmt::format("pCO2 {:.0f} mmHg; ", e.pco2_max_pa / kMmHg);
-  if (e.head_pressure_pa > base.head_pressure_pa) s += fmt::format("vessel at {:.2f} bar(a); ", e.head_pressure_pa / 1e5);
+  // Enrichment is flagged where the lever raises the O2 above air and above the case's own.
+  if (e.oxygen_fraction > 0.2146 && e.oxygen_fraction > base.oxygen_fraction + 1e-9) {
+    w.push_back(fmt::format("O2-enriched gas ({:.0f} % O2): oxygen service", 100.0 * e.oxygen_fraction));
+  }
+  if (e.flooded_impellers > base.flooded_impellers) w.push_back(fmt::format("{} impeller(s) flooded", e.flooded_impellers));
+  if (e.pco2_max_pa > 150.0 * kMmHg) w.push_back(fmt::format("pCO2 {:.0f} mmHg", e.pco2_max_pa / kMmHg));
+  if (e.head_pressure_pa > base.head_pressure_pa) w.push_back(fmt::format("vessel at {:.2f} bar(a)", e.head_pressure_pa / 1e5));
+  if (e.cooling_margin && *e.cooling_margin < 0.0) w.push_back("cooling too small");
+  std::string s;
+  for (const auto& x : w) s += (s.empty() ? "" : "; ") + x;
   return s;
+}
+
+std::string watch_and_note(const LeverResult& r, const LeverEffects& base) {
+  const auto w = safety(r, base);
+  return w.empty() ? r.note : r.note.empty() ? w : w + "; " + r.note;
 }
 
 }  // namespace
 
 std::string levers_text(const Case& c, const LeversStudy& s) {
+  const bool priced = s.base.cost_per_h.has_value();
   std::string t = fmt::format("Levers for {} (each moved alone towards its limit; smallest change that meets [constraints])\n",
                               c.title);
   t += fmt::format("  now: DO min {:.4f} mmol/L, {:.1f} % of the volume below the floor, Pg {:.3g} kW, {}\n",
                    s.base.do_min_mol_m3, 100.0 * s.base.volume_fraction_below_critical, s.base.power_gassed_w / 1e3,
                    s.base.feasible ? "meets its constraints" : "does NOT meet its constraints");
-  t += fmt::format("  {:<14} {:<14} {:<28} {:>7} {:>9} {:>8} {:>9} {:>8} {:>9}\n", "lever", "result", "value", "change",
-                   "Pg [kW]", "P/V", "tip [m/s]", "eps max", "pCO2");
-  t += fmt::format("  {:<14} {:<14} {:<28} {:>7} {:>9} {:>8} {:>9} {:>8} {:>9}\n", "", "", "", "", "", "[kW/m3]", "",
-                   "[W/kg]", "[mmHg]");
+  t += fmt::format("  {:<14} {:<14} {:<28} {:>7} {:>9} {:>9} {:>8} {:>9} {:>8} {:>9}{}\n", "lever", "result", "value",
+                   "change", "Pg [kW]", "drawn", "P/V", "tip [m/s]", "eps max", "pCO2", priced ? "      cost" : "");
+  t += fmt::format("  {:<14} {:<14} {:<28} {:>7} {:>9} {:>9} {:>8} {:>9} {:>8} {:>9}{}\n", "", "", "", "", "", "[kW]",
+                   "[kW/m3]", "", "[W/kg]", "[mmHg]", priced ? fmt::format(" {:>9}", "[" + c.prices.currency + "/h]") : "");
   for (const auto& r : s.levers) {
     const auto& e = r.effects;
-    t += fmt::format("  {:<14} {:<14} {:<28} {:>7} {:>9.4g} {:>8.3g} {:>9.3g} {:>8.3g} {:>9.0f}\n", r.name, status(r),
-                     value_text(r), change_text(r), e.power_gassed_w / 1e3, e.power_per_volume_w_m3 / 1e3,
-                     e.tip_speed_m_s, e.epsilon_max_w_kg, e.pco2_max_pa / kMmHg);
+    t += fmt::format("  {:<14} {:<14} {:<28} {:>7} {:>9.4g} {:>9.4g} {:>8.3g} {:>9.3g} {:>8.3g} {:>9.0f}{}\n", r.name,
+                     status(r), value_text(r), change_text(r), e.power_gassed_w / 1e3, e.total_power_w / 1e3,
+                     e.power_per_volume_w_m3 / 1e3, e.tip_speed_m_s, e.epsilon_max_w_kg, e.pco2_max_pa / kMmHg,
+                     priced && e.cost_per_h ? fmt::format(" {:>9.4g}", *e.cost_per_h) : "");
     const auto warn = safety(r, s.base);
     if (!warn.empty()) t += "      watch: " + warn + "\n";
     if (!r.note.empty()) t += "      " + r.note + "\n";
@@ -108,6 +121,10 @@ void write_levers_h5(H5Writer& h5, const LeversStudy& s) {
   h5.write("/levers/limit", limit, "see value_unit");
   h5.write("/levers/value", value, "see value_unit");
   h5.write("/levers/power_gassed", pg, "W");
+  std::vector<double> drawn;
+  for (const auto& r : s.levers) drawn.push_back(r.effects.total_power_w);
+  h5.write("/levers/total_power", drawn, "W");
+  h5.attribute("/levers/total_power", "meaning", "drawn: agitator drive + compressor");
   h5.write("/levers/power_per_volume", pv, "W/m3");
   h5.write("/levers/tip_speed", tip, "m/s");
   h5.write("/levers/flooded_impellers", flooded, "1");
@@ -130,7 +147,7 @@ std::string levers_report_body(const Case& c, const LeversStudy& s) {
                                            "case's own value."
                                          : "The case does not meet its constraints. Each lever was moved alone, from the "
                                            "case's value towards its limit, to the smallest value that meets them.") +
-                  "</p>\n<table><tr><th>lever</th><th>result</th><th>value</th><th>change</th><th>Pg [kW]</th>"
+                  "</p>\n<table><tr><th>lever</th><th>result</th><th>value</th><th>change</th><th>Pg [kW]</th><th>drawn [kW]</th>"
                   "<th>P/V [kW/m3]</th><th>tip speed [m/s]</th><th>&epsilon; max [W/kg]</th><th>pCO2 max [mmHg]</th>"
                   "<th>DO min [mmol/L]</th><th>watch</th></tr>\n";
   std::vector<std::string> cats;
@@ -138,11 +155,11 @@ std::string levers_report_body(const Case& c, const LeversStudy& s) {
   for (const auto& r : s.levers) {
     const auto& e = r.effects;
     b += fmt::format("<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{:.4g}</td>"
-                     "<td class=\"num\">{:.3g}</td><td class=\"num\">{:.3g}</td><td class=\"num\">{:.3g}</td>"
+                     "<td class=\"num\">{:.4g}</td><td class=\"num\">{:.3g}</td><td class=\"num\">{:.3g}</td><td class=\"num\">{:.3g}</td>"
                      "<td class=\"num\">{:.0f}</td><td class=\"num\">{:.4f}</td><td>{}</td></tr>\n",
                      escape(r.name), escape(status(r)), escape(value_text(r)), escape(change_text(r)),
-                     e.power_gassed_w / 1e3, e.power_per_volume_w_m3 / 1e3, e.tip_speed_m_s, e.epsilon_max_w_kg,
-                     e.pco2_max_pa / kMmHg, e.do_min_mol_m3, escape(safety(r, s.base) + r.note));
+                     e.power_gassed_w / 1e3, e.total_power_w / 1e3, e.power_per_volume_w_m3 / 1e3, e.tip_speed_m_s, e.epsilon_max_w_kg,
+                     e.pco2_max_pa / kMmHg, e.do_min_mol_m3, escape(watch_and_note(r, s.base)));
     cats.push_back(r.name);
     pg.push_back(e.power_gassed_w / 1e3);
     dmin.push_back(e.do_min_mol_m3);

@@ -71,8 +71,10 @@ ImpellerState impeller_state(const Case& c, const Impeller& imp, double gas_m3_s
 
 // Spreads each impeller's gassed power over zones: model.discharge_power_share in its swept
 // volume (uniform), the rest over its domain, weighted by 1/(1 + (d/D)^2) with d the distance
-// from the swept volume, so dissipation falls off away from the blades.
-std::vector<double> dissipation(const Case& c, const ZoneNetwork& net, const std::vector<ImpellerState>& states) {
+// from the swept volume, so dissipation falls off away from the blades. Broth outside every cavern
+// of a yield-stress broth does not move, so it takes none of the power.
+std::vector<double> dissipation(const Case& c, const ZoneNetwork& net, const std::vector<ImpellerState>& states,
+                                const Caverns& caverns) {
   const int nz = net.size();
   std::vector<double> power(nz, 0.0);
   for (size_t m = 0; m < c.impellers.size(); ++m) {
@@ -84,7 +86,7 @@ std::vector<double> dissipation(const Case& c, const ZoneNetwork& net, const std
       if (net.region[k].discharge == static_cast<int>(m)) {
         w_dis[k] = net.volume[k];
         sum_dis += w_dis[k];
-      } else if (net.region[k].domain == static_cast<int>(m)) {
+      } else if (net.region[k].domain == static_cast<int>(m) && caverns.contains(net.r[k], net.z[k])) {
         const double dr = std::max(0.0, net.r[k] - ri);
         const double dz = std::max(0.0, std::abs(net.z[k] - imp.elevation_m) - 0.5 * imp.blade_height_m);
         const double dist2 = (dr * dr + dz * dz) / (imp.diameter_m * imp.diameter_m);
@@ -148,7 +150,7 @@ Hydrodynamics compute_hydrodynamics(const Case& c, const ZoneNetwork& net) {
     h.face_flow[f] = face.orientation == FaceOrientation::radial ? two_pi * (pb - pa) : -two_pi * (pb - pa);
   }
 
-  h.epsilon = dissipation(c, net, h.impellers);
+  h.epsilon = dissipation(c, net, h.impellers, caverns);
   zone_viscosity(c, h.epsilon, h.shear_rate, h.apparent_viscosity);
   const auto share = turbulence_share(c, net, np, h.apparent_viscosity, caverns);
   h.stagnant_volume_fraction = 0.0;

@@ -67,16 +67,18 @@ GasState gas_state(const OxygenContext& ctx, const std::vector<double>& dry_mol_
 }
 
 double local_kla(const Case& c, double eps, double vs, double holdup, double sauter_m, double viscosity_pa_s) {
-  double kla = 0.0;
   if (c.model.kla_model == KlaModel::local_correlation) {
-    kla = vant_riet_kla(vant_riet_constants(c.broth.coalescence, c.model), c.broth.density_kg_m3 * eps, vs);
-  } else if (holdup > 0.0) {
-    const double t = c.vessel.temperature_k;
-    const double nu = viscosity_pa_s / c.broth.density_kg_m3;
-    const double sc = nu / physics::o2_diffusivity_water(t);
-    kla = eddy_model_kl(eps, nu, sc) * interfacial_area(holdup, sauter_m);
+    // The correlation was fitted near 20 degC: the usual factor carries it to the broth's temperature.
+    return vant_riet_kla(vant_riet_constants(c.broth.coalescence, c.model), c.broth.density_kg_m3 * eps, vs) *
+           kla_temperature_factor(c.vessel.temperature_k) * c.model.kla_factor;
   }
-  return kla * kla_temperature_factor(c.vessel.temperature_k) * c.model.kla_factor;
+  if (holdup <= 0.0) return 0.0;
+  // kL from the broth's own viscosity and the O2 diffusivity at its temperature: the temperature
+  // is already in it, so no temperature factor on top.
+  const double t = c.vessel.temperature_k;
+  const double nu = viscosity_pa_s / c.broth.density_kg_m3;
+  const double sc = nu / physics::o2_diffusivity_water(t);
+  return eddy_model_kl(eps, nu, sc) * interfacial_area(holdup, sauter_m) * c.model.kla_factor;
 }
 
 std::vector<double> scaled(const std::vector<double>& v, double f) {

@@ -154,7 +154,11 @@ LeverEffects lever_effects(const Case& c, const CaseRun& run) {
     e.tip_speed_m_s = std::max(e.tip_speed_m_s, i.tip_speed_m_s);
     e.flooded_impellers += i.regime == GasRegime::flooded ? 1 : 0;
   }
-  for (double eps : h.epsilon) e.epsilon_max_w_kg = std::max(e.epsilon_max_w_kg, eps);
+  e.epsilon_max_w_kg = run.limits.shear.epsilon_max_w_kg;  // the impeller maxima, as the constraint uses
+  e.total_power_w = run.limits.cost.total_power_w;
+  e.cost_per_h = run.limits.cost.total_per_h;
+  e.cooling_required_w = run.limits.heat.required_w;
+  e.cooling_margin = run.limits.heat.margin;
   e.head_pressure_pa = c.vessel.head_pressure_pa;
   e.bottom_pressure_pa = c.vessel.head_pressure_pa + c.broth.density_kg_m3 * kG * c.vessel.liquid_height_m;
   e.oxygen_fraction = c.operation.oxygen_fraction;
@@ -195,10 +199,12 @@ LeversStudy study_levers(const LoadedCase& loaded, const std::vector<Override>& 
       s.levers[i] = swap_impellers(loaded, overrides, o.impeller_case);
     }
   }
-  // Ranked: the levers that work first, the cheapest in added gassed power first.
+  // Ranked: the levers that work first; among them the cheapest per hour when the case is priced,
+  // else the least drawn power (agitator and compressor: more gas costs compressor power).
   std::stable_sort(s.levers.begin(), s.levers.end(), [](const LeverResult& a, const LeverResult& b) {
     if (a.found != b.found) return a.found;
-    return a.effects.power_gassed_w < b.effects.power_gassed_w;
+    if (a.effects.cost_per_h && b.effects.cost_per_h) return *a.effects.cost_per_h < *b.effects.cost_per_h;
+    return a.effects.total_power_w < b.effects.total_power_w;
   });
   return s;
 }

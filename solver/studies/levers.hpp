@@ -17,10 +17,14 @@ namespace oxystrat {
 //! What a case gives at one operating point, in SI: the side effects a lever is judged by.
 struct LeverEffects {
   double power_gassed_w = 0.0;
+  double total_power_w = 0.0;          //!< drawn: agitator drive + compressor [W]
+  std::optional<double> cost_per_h;    //!< with [prices], in the case's currency
+  double cooling_required_w = 0.0;     //!< heat the cooling must remove [W]
+  std::optional<double> cooling_margin;  //!< with [cooling]: (available - required) / required
   double power_per_volume_w_m3 = 0.0;
   double tip_speed_m_s = 0.0;
   int flooded_impellers = 0;
-  double epsilon_max_w_kg = 0.0;
+  double epsilon_max_w_kg = 0.0;      //!< largest dissipation, impeller discharges included [W/kg]
   double pco2_max_pa = 0.0;
   double head_pressure_pa = 0.0;
   double bottom_pressure_pa = 0.0;

@@ -35,8 +35,9 @@ TEST(Levers, EachLeverMeetsTheConstraintsAtItsValueAndNotMuchBelow) {
                                       {parse_override(fmt::format("{}=\"{:.10g} {}\"", r.key, back, r.unit))});
     EXPECT_FALSE(lever_effects(below.data, run_case(below.data, {false, false})).feasible) << r.name;
   }
-  // Ranked by the gassed power the fix needs, least first.
-  for (size_t i = 1; i < s.levers.size(); ++i) EXPECT_LE(s.levers[i - 1].effects.power_gassed_w, s.levers[i].effects.power_gassed_w);
+  // Ranked by the power the fix draws (agitator and compressor: the case has no prices), least first.
+  for (size_t i = 1; i < s.levers.size(); ++i) EXPECT_LE(s.levers[i - 1].effects.total_power_w, s.levers[i].effects.total_power_w);
+  for (const auto& r : s.levers) EXPECT_GT(r.effects.total_power_w, r.effects.power_gassed_w) << r.name;
 }
 
 TEST(Levers, AFeasibleCaseNeedsNoChange) {
