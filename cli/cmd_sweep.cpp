@@ -124,8 +124,8 @@ void add_sweep_command(CLI::App& app) {
     if (chosen >= 0) {
       fmt::print("; chosen point {} (least {}):", chosen, o->objective);
       for (const auto& ov : point_overrides(p, static_cast<size_t>(chosen))) fmt::print(" {}", ov.raw);
-      fmt::print(", P gassed {:.4g} kW, DO min {:.4g} mmol/L", summary_value(results[chosen].values, "power_gassed"),
-                 summary_value(results[chosen].values, "do_min"));
+      fmt::print(", P gassed {:.4g} kW, DO min {:.4g} mmol/L", summary_display(results[chosen].values, "power_gassed"),
+                 summary_display(results[chosen].values, "do_min"));
     }
     fmt::print("\n");
     fmt::print("{}", sweep_honesty_text(p, results, chosen));

@@ -86,6 +86,9 @@ struct Broth {
 
 struct Culture {
   double biomass_kg_m3 = 0.0;          //!< Dry biomass X [kg/m3]
+  //! Dry mass of one cell [kg]; 0 when not given. With it, a cell culture's biomass is shown back
+  //! in cells/mL (the reader converts culture.cell_density with it).
+  double cell_dry_mass_kg = 0.0;
   double q_o2_max_mol_kg_s = 0.0;      //!< Maximum specific O2 uptake [mol/(kg s)]
   double k_o2_mol_m3 = 0.0;            //!< Monod constant for O2 [mol/m3]
   double critical_do_mol_m3 = 0.0;     //!< Critical dissolved O2 [mol/m3]

@@ -102,9 +102,7 @@ void read_culture(TomlSource& src, Case& c) {
   src.allow_table("culture");
   if (!src.has("culture")) return;
   auto& k = c.culture;
-  k.biomass_kg_m3 = src.require_quantity("culture.biomass", Dimension::biomass, {0.0, 300.0}, "40 g/L");
-  k.q_o2_max_mol_kg_s = src.require_quantity("culture.q_o2_max", Dimension::specific_rate,
-                                             {0.0, 100.0 / 3600.0}, "8 mmol/g/h");
+  read_culture_amounts(src, k);  // biomass or cells/mL; q_O2 per mass or per cell
   k.k_o2_mol_m3 = read_o2_concentration(src, "culture.k_o2", c, {0.0, 1.0}, "0.003 mmol/L");
   k.critical_do_mol_m3 = read_o2_concentration(src, "culture.critical_do", c, {0.0, 2.0}, "0.01 mmol/L");
   k.rq = src.number("culture.rq", {0.0, 3.0}).value_or(1.0);

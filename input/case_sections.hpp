@@ -41,6 +41,10 @@ void read_operation(TomlSource& src, Case& c);
 void read_do_calibration(TomlSource& src, Case& c);
 void read_broth(TomlSource& src, Case& c);
 void read_culture(TomlSource& src, Case& c);
+//! The culture's amount and uptake (input/case_culture_amounts.cpp): culture.biomass, or
+//! culture.cell_density with culture.cell_dry_mass; culture.q_o2_max per dry mass, or per cell
+//! with culture.cell_dry_mass. Everything leaves in SI per dry mass.
+void read_culture_amounts(TomlSource& src, Culture& k);
 
 // What changes it in time and the limits it must keep (input/case_control.cpp).
 void read_feed(TomlSource& src, Case& c);

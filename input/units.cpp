@@ -66,6 +66,14 @@ const std::vector<UnitDef>& table(Dimension dim) {
   static const std::vector<UnitDef> specific_power{{"W/kg", 1.0}, {"mW/kg", 1e-3}, {"kW/kg", 1e3}};
   static const std::vector<UnitDef> pressure_difference{{"bar", 1e5}, {"Pa", 1.0}, {"kPa", 1e3}, {"mbar", 100.0},
                                                         {"psi", 6894.757293168361}, {"mmHg", 133.322387415}};
+  // Cell-culture units: counts per volume, the dry mass of one cell, uptake per cell.
+  static const std::vector<UnitDef> cell_density{{"cells/mL", 1e6}, {"cells/L", 1e3}, {"cells/m3", 1.0},
+                                                 {"cells/uL", 1e9}};
+  static const std::vector<UnitDef> cell_mass{{"pg", 1e-15}, {"ng", 1e-12}, {"fg", 1e-18}, {"kg", 1.0}};
+  static const std::vector<UnitDef> cell_specific_rate{
+      {"pmol/cell/h", 1e-12 / kHour},    {"pmol/(cell h)", 1e-12 / kHour},   {"pmol/cell/day", 1e-12 / 86400.0},
+      {"pmol/(cell day)", 1e-12 / 86400.0}, {"pmol/cell/d", 1e-12 / 86400.0}, {"fmol/cell/h", 1e-15 / kHour},
+      {"mol/cell/s", 1.0}};
   // Concentrations in molar units; mass units are handled with the molar mass.
   static const std::vector<UnitDef> concentration{
       {"mmol/L", 1.0}, {"mol/m3", 1.0}, {"mM", 1.0}, {"mol/L", 1e3}, {"M", 1e3}, {"umol/L", 1e-3}};
@@ -98,6 +106,9 @@ const std::vector<UnitDef>& table(Dimension dim) {
     case Dimension::molar_energy: return molar_energy;
     case Dimension::specific_power: return specific_power;
     case Dimension::pressure_difference: return pressure_difference;
+    case Dimension::cell_density: return cell_density;
+    case Dimension::cell_mass: return cell_mass;
+    case Dimension::cell_specific_rate: return cell_specific_rate;
   }
   throw UnitError("unknown dimension");
 }

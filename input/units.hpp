@@ -42,6 +42,9 @@ enum class Dimension {
   molar_energy,   // J/mol (heat per mol O2)
   specific_power, // W/kg (energy dissipation rate)
   pressure_difference,  // Pa, a difference: no (a)/(g)
+  cell_density,   // 1/m3 (cells per volume: "5e6 cells/mL")
+  cell_mass,      // kg (dry mass of one cell: "350 pg")
+  cell_specific_rate,  // mol/s per cell (O2 uptake of one cell: "0.2 pmol/cell/h")
 };
 
 //! Number and unit text of a quantity string, e.g. "120 rpm" -> {120, "rpm"}.

@@ -58,6 +58,14 @@ H5Writer::H5Writer(const std::string& path) : path_(path) {
   file_ = checked(H5Fcreate(path.c_str(), H5F_ACC_TRUNC, H5P_DEFAULT, H5P_DEFAULT), "create " + path);
   link_props_ = H5Pcreate(H5P_LINK_CREATE);
   H5Pset_create_intermediate_group(link_props_, 1);
+  // Here, once: no file of ours can be written without it.
+  try {
+    string_attribute(file_, "format_version", kH5FormatVersion);
+  } catch (...) {
+    H5Pclose(link_props_);  // the destructor does not run for a constructor that throws
+    H5Fclose(file_);
+    throw;
+  }
 }
 
 H5Writer::~H5Writer() {

@@ -1,5 +1,5 @@
 // A small RAII writer for HDF5 files: datasets of numbers or strings, created with their parent
-// groups, each carrying a "units" attribute.
+// groups, each carrying a "units" attribute; the root carries "format_version".
 #pragma once
 
 #include <hdf5.h>
@@ -9,9 +9,13 @@
 
 namespace oxystrat {
 
+//! Version of the layout and units of every file oxystrat writes, the root attribute
+//! `format_version`. 2.0: every dataset SI, one name per quantity (docs/outputs.md, CHANGELOG).
+inline constexpr const char* kH5FormatVersion = "2.0";
+
 class H5Writer {
  public:
-  //! Creates (truncates) the file.
+  //! Creates (truncates) the file and marks its root with `format_version`.
   explicit H5Writer(const std::string& path);
   ~H5Writer();
   H5Writer(const H5Writer&) = delete;

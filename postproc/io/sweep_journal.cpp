@@ -43,7 +43,10 @@ int rank_of(const std::string& file, const std::string& stem) {
 
 std::string encode_point(size_t index, const PointResult& r) {
   std::string s = fmt::format("{}\t{}\t{}\t{}", index, r.ok ? 1 : 0, r.feasible ? 1 : 0, one_line(r.error));
-  for (const auto& v : r.values) s += fmt::format("\t{}|{}|{}|{:.17g}", v.name, v.unit, v.label, v.value);
+  // A value travels as "NAME|SI unit|label|SI value|display unit|display per SI".
+  for (const auto& v : r.values) {
+    s += fmt::format("\t{}|{}|{}|{:.17g}|{}|{:.17g}", v.name, v.unit, v.label, v.value, v.display_unit, v.display_per_si);
+  }
   // Constraint checks travel as "check:NAME|1|detail|satisfied" (the detail without '|').
   for (const auto& k : r.checks) {
     std::string detail = one_line(k.detail);
@@ -71,9 +74,9 @@ bool decode_point(const std::string& line, size_t& index, PointResult& r) {
   for (size_t k = 4; k + 1 < f.size(); ++k) {
     std::istringstream v(f[k]);
     SummaryValue s;
-    std::string value;
+    std::string value, per_si;
     if (!std::getline(v, s.name, '|') || !std::getline(v, s.unit, '|') || !std::getline(v, s.label, '|') ||
-        !std::getline(v, value)) {
+        !std::getline(v, value, '|')) {
       return false;
     }
     s.value = std::strtod(value.c_str(), nullptr);
@@ -81,6 +84,8 @@ bool decode_point(const std::string& line, size_t& index, PointResult& r) {
       r.checks.push_back({s.name.substr(6), s.value != 0.0, s.label});
       continue;
     }
+    if (!std::getline(v, s.display_unit, '|') || !std::getline(v, per_si)) return false;
+    s.display_per_si = std::strtod(per_si.c_str(), nullptr);
     r.values.push_back(s);
   }
   return true;
@@ -88,7 +93,8 @@ bool decode_point(const std::string& line, size_t& index, PointResult& r) {
 
 std::string sweep_signature(const LoadedCase& base, const std::vector<std::string>& sets,
                             const std::vector<std::string>& vary, const std::string& sample, const SweepOptions& opts) {
-  std::string s = fmt::format("{:x}", std::hash<std::string>{}(base.source_text));
+  // "si": values are journaled in SI since format 2.0; a journal of an earlier release is not resumed.
+  std::string s = fmt::format("{:x} si", std::hash<std::string>{}(base.source_text));
   for (const auto& x : sets) s += " --set " + x;
   for (const auto& v : vary) s += " --vary " + v;
   s += " --sample " + sample + " --seed " + std::to_string(opts.seed) + (opts.with_mixing ? " mixing" : "") +

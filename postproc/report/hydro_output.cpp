@@ -5,6 +5,7 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 #include <fstream>
 #include <stdexcept>
@@ -74,6 +75,16 @@ void write_hydrodynamics_h5(H5Writer& h5, const Case& c, const Hydrodynamics& h)
   h5.attribute("/summary/power_per_volume", "meaning", "gassed power per ungassed working volume");
   h5.write("/summary/power_per_volume_ungassed", h.power_ungassed_w / c.vessel.working_volume_m3, "W/m3");
   h5.write("/summary/exchange_constant", h.exchange_constant, "1");
+  // Also rows of compare and sweep: the same name and unit in every file (format 2.0).
+  double tip_max = 0.0;
+  int flooded = 0;
+  for (const auto& i : h.impellers) {
+    tip_max = std::max(tip_max, i.tip_speed_m_s);
+    flooded += i.regime == GasRegime::flooded ? 1 : 0;
+  }
+  h5.write("/summary/tip_speed", tip_max, "m/s");
+  h5.attribute("/summary/tip_speed", "meaning", "largest impeller tip speed");
+  h5.write("/summary/flooded_impellers", static_cast<double>(flooded), "1");
 }
 
 std::string impeller_flow_regime(const ImpellerState& s) {

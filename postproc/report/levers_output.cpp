@@ -79,8 +79,8 @@ std::string levers_text(const Case& c, const LeversStudy& s) {
 void write_levers_csv(const std::string& path, const LeversStudy& s) {
   std::ofstream out(path, std::ios::binary);
   out << "lever,key,result,unit,current,limit,value,power_gassed [kW],power_per_volume [kW/m3],tip_speed [m/s],"
-         "flooded_impellers,epsilon_max [W/kg],pco2_max [mmHg],head_pressure [bar(a)],oxygen_fraction [%],"
-         "do_min [mmol/L],volume_below_critical [%],kla_mean [1/h],note\n";
+         "flooded_impellers,dissipation_max [W/kg],pco2_max [mmHg],head_pressure [bar(a)],oxygen_fraction [%],"
+         "do_min [mmol/L],volume_fraction_below_critical [%],kla_mean [1/h],note\n";
   for (const auto& r : s.levers) {
     const auto& e = r.effects;
     std::string note = r.note;
@@ -102,9 +102,12 @@ void write_levers_h5(H5Writer& h5, const LeversStudy& s) {
   std::vector<double> current, limit, value, pg, pv, tip, eps, pco2, head, o2, gas, dmin, below, kla;
   for (const auto& r : s.levers) {
     const auto& e = r.effects;
-    names.push_back(r.name), keys.push_back(r.key), notes.push_back(r.note), units.push_back(r.unit);
+    names.push_back(r.name), keys.push_back(r.key), notes.push_back(r.note);
+    units.push_back(r.si_unit.empty() ? "1" : r.si_unit);
     found.push_back(r.found), already.push_back(r.already), flooded.push_back(e.flooded_impellers);
-    current.push_back(r.current), limit.push_back(r.limit), value.push_back(r.value);
+    // Files hold SI: the lever's own unit (rpm, vvm, bar(a), %) stays in the CSV and the text.
+    current.push_back(r.current * r.si_per_unit), limit.push_back(r.limit * r.si_per_unit);
+    value.push_back(r.value * r.si_per_unit);
     pg.push_back(e.power_gassed_w), pv.push_back(e.power_per_volume_w_m3), tip.push_back(e.tip_speed_m_s);
     eps.push_back(e.epsilon_max_w_kg), pco2.push_back(e.pco2_max_pa), head.push_back(e.head_pressure_pa);
     o2.push_back(e.oxygen_fraction), gas.push_back(e.gas_flow_normal_m3_s), dmin.push_back(e.do_min_mol_m3);
@@ -114,12 +117,12 @@ void write_levers_h5(H5Writer& h5, const LeversStudy& s) {
   h5.write("/levers/key", keys);
   h5.write("/levers/note", notes);
   h5.write("/levers/value_unit", units);
-  h5.attribute("/levers/value_unit", "meaning", "unit of current, limit and value (as written in the case file)");
+  h5.attribute("/levers/value_unit", "meaning", "SI unit of current, limit and value of each lever (gas flow: normal m3/s)");
   h5.write("/levers/meets", found, "1");
   h5.write("/levers/meets_already", already, "1");
-  h5.write("/levers/current", current, "see value_unit");
-  h5.write("/levers/limit", limit, "see value_unit");
-  h5.write("/levers/value", value, "see value_unit");
+  h5.write("/levers/current", current, "see /levers/value_unit");
+  h5.write("/levers/limit", limit, "see /levers/value_unit");
+  h5.write("/levers/value", value, "see /levers/value_unit");
   h5.write("/levers/power_gassed", pg, "W");
   std::vector<double> drawn;
   for (const auto& r : s.levers) drawn.push_back(r.effects.total_power_w);
@@ -128,7 +131,7 @@ void write_levers_h5(H5Writer& h5, const LeversStudy& s) {
   h5.write("/levers/power_per_volume", pv, "W/m3");
   h5.write("/levers/tip_speed", tip, "m/s");
   h5.write("/levers/flooded_impellers", flooded, "1");
-  h5.write("/levers/epsilon_max", eps, "W/kg");
+  h5.write("/levers/dissipation_max", eps, "W/kg");  // the name of /summary (format 2.0)
   h5.write("/levers/pco2_max", pco2, "Pa");
   h5.write("/levers/head_pressure", head, "Pa");
   h5.write("/levers/oxygen_fraction", o2, "1");

@@ -100,6 +100,10 @@ void write_oxygen_h5(H5Writer& h5, const Case& c, const CaseRun& run) {
   h5.write("/summary/offgas_y_co2", f.offgas_y_co2, "1");
   h5.write("/summary/otr_total", f.otr_total_mol_s, "mol/s");
   h5.write("/summary/our_total", f.our_total_mol_s, "mol/s");
+  h5.write("/summary/otr_mean", f.otr_total_mol_s / run.net.total_volume(), "mol/(m3 s)");
+  h5.attribute("/summary/otr_mean", "meaning", "otr_total per liquid volume (the OTR row of compare and sweep)");
+  h5.write("/summary/do_min_saturation", f.do_min / f.air_saturation_mol_m3, "1");
+  h5.attribute("/summary/do_min_saturation", "meaning", "do_min over air saturation at 1 atm and broth temperature");
   h5.write("/summary/o2_balance_error", f.o2_balance_error, "1");
   h5.write("/summary/pco2_max", f.pco2_max_pa, "Pa");
   h5.write("/summary/max_biomass", run.max_biomass_kg_m3, "kg/m3");

@@ -27,8 +27,8 @@ std::string number(double v) { return std::isfinite(v) ? fmt::format("{:.4g}", v
 std::string values_table(const std::vector<SummaryValue>& values) {
   std::string s = "<table><tr><th>quantity</th><th>value</th><th>unit</th></tr>\n";
   for (const auto& v : values) {
-    s += fmt::format("<tr><td>{}</td><td class=\"num\">{}</td><td>{}</td></tr>\n", escape(v.label), number(v.value),
-                     escape(v.unit));
+    s += fmt::format("<tr><td>{}</td><td class=\"num\">{}</td><td>{}</td></tr>\n", escape(v.label), number(v.display()),
+                     escape(v.shown_unit()));
   }
   return s + "</table>\n";
 }
@@ -107,10 +107,10 @@ std::string compare_report_body(const std::vector<ComparedCase>& cases) {
       }
     }
     for (const auto* r : rows) {
-      s += fmt::format("<tr><td>{}</td><td>{}</td>", escape(r->label), escape(r->unit));
+      s += fmt::format("<tr><td>{}</td><td>{}</td>", escape(r->label), escape(r->shown_unit()));
       for (const auto& c : cases) {
         double x = std::nan("");
-        for (const auto& v : c.values) x = v.name == r->name ? v.value : x;
+        for (const auto& v : c.values) x = v.name == r->name ? v.display() : x;
         s += "<td class=\"num\">" + number(x) + "</td>";
       }
       s += "</tr>\n";
@@ -127,11 +127,11 @@ std::string compare_report_body(const std::vector<ComparedCase>& cases) {
   std::vector<double> do_min, do_single, xmax, xmax_single, pg;
   for (const auto& c : cases) {
     names.push_back(c.name);
-    do_min.push_back(summary_value(c.values, "do_min"));
-    do_single.push_back(summary_value(c.values, "do_single_zone"));
-    xmax.push_back(summary_value(c.values, "max_biomass"));
-    xmax_single.push_back(summary_value(c.values, "max_biomass_single_zone"));
-    pg.push_back(summary_value(c.values, "power_gassed"));
+    do_min.push_back(summary_display(c.values, "do_min"));
+    do_single.push_back(summary_display(c.values, "do_single_zone"));
+    xmax.push_back(summary_display(c.values, "max_biomass"));
+    xmax_single.push_back(summary_display(c.values, "max_biomass_single_zone"));
+    pg.push_back(summary_display(c.values, "power_gassed"));
   }
   // Whiskers (P10-P90) where the comparison ran with --uncertainty.
   const auto band = [&](const char* name) {
@@ -139,8 +139,8 @@ std::string compare_report_body(const std::vector<ComparedCase>& cases) {
     for (const auto& c : cases) {
       bool found = false;
       for (const auto& v : c.values) found = found || v.name == std::string(name) + "_p10";
-      lo[0].push_back(found ? summary_value(c.values, std::string(name) + "_p10") : std::nan(""));
-      hi[0].push_back(found ? summary_value(c.values, std::string(name) + "_p90") : std::nan(""));
+      lo[0].push_back(found ? summary_display(c.values, std::string(name) + "_p10") : std::nan(""));
+      hi[0].push_back(found ? summary_display(c.values, std::string(name) + "_p90") : std::nan(""));
     }
     return std::pair{lo, hi};
   };
@@ -199,7 +199,7 @@ std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResu
   if (!plan.axes.empty()) {
     std::vector<svg::ScatterPoint> pts;
     for (size_t i = 0; i < results.size(); ++i) {
-      if (results[i].ok) pts.push_back({plan.points[i][0], summary_value(results[i].values, "do_min"), group_of(i)});
+      if (results[i].ok) pts.push_back({plan.points[i][0], summary_display(results[i].values, "do_min"), group_of(i)});
     }
     s += svg::scatter_chart("DO min over the first axis", plan.axes[0].key + " [" + plan.axes[0].unit + "]",
                             "DO min [mmol/L]", pts, groups, colors);
@@ -208,7 +208,7 @@ std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResu
   for (size_t i = 0; i < results.size(); ++i) {
     if (!results[i].ok) continue;
     const int g = static_cast<int>(i) == chosen ? 2 : (pareto[i] ? 1 : 0);
-    front.push_back({summary_value(results[i].values, "power_gassed"), summary_value(results[i].values, "do_min"), g});
+    front.push_back({summary_display(results[i].values, "power_gassed"), summary_display(results[i].values, "do_min"), g});
   }
   s += svg::scatter_chart("Power against DO min", "gassed power [kW]", "DO min [mmol/L]", front,
                           {"dominated", "Pareto front", "chosen"}, {"#cccccc", "#1f77b4", "#d62728"});
@@ -224,10 +224,10 @@ std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResu
       continue;
     }
     s += fmt::format("<td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td>{}</td></tr>\n",
-                     results[i].feasible ? "yes" : "no", number(summary_value(results[i].values, "power_gassed")),
-                     number(summary_value(results[i].values, "do_min")),
-                     number(summary_value(results[i].values, "volume_below_critical")),
-                     number(summary_value(results[i].values, "max_biomass")), escape(broken_constraints(results[i])));
+                     results[i].feasible ? "yes" : "no", number(summary_display(results[i].values, "power_gassed")),
+                     number(summary_display(results[i].values, "do_min")),
+                     number(summary_display(results[i].values, "volume_fraction_below_critical")),
+                     number(summary_display(results[i].values, "max_biomass")), escape(broken_constraints(results[i])));
   }
   s += "</table>\n";
   if (shown < results.size()) s += fmt::format("<p>First {} of {} points; all are in sweep.csv.</p>\n", shown, results.size());

@@ -102,7 +102,7 @@ void write_scale_up_h5(H5Writer& h5, const ScaleUpStudy& s) {
   field("gas_flow_normal", "m3/s", [](const ScaleMetrics& m) { return m.gas_normal_m3_s; });
   field("power_per_volume", "W/m3", [](const ScaleMetrics& m) { return m.power_per_volume_w_m3; });
   field("tip_speed", "m/s", [](const ScaleMetrics& m) { return m.tip_speed_m_s; });
-  field("kla", "1/s", [](const ScaleMetrics& m) { return m.kla_1_s; });
+  field("kla_vessel_correlation", "1/s", [](const ScaleMetrics& m) { return m.kla_1_s; });  // /summary's name
   field("superficial_gas_velocity", "m/s", [](const ScaleMetrics& m) { return m.superficial_gas_m_s; });
   field("theta95", "s", [](const ScaleMetrics& m) { return m.theta95_s; });
   field("do_min", "mol/m3", [](const ScaleMetrics& m) { return m.do_min_mol_m3; });

@@ -45,10 +45,11 @@ std::vector<const SummaryValue*> row_names(const std::vector<std::vector<Summary
   return rows;
 }
 
-// The value named `name` in `list`; NaN when it does not apply there.
-double value_named(const std::vector<SummaryValue>& list, const std::string& name) {
+// The value named `name` in `list`, SI (files for programs) or in its display unit (tables for
+// people); NaN when it does not apply there.
+double value_named(const std::vector<SummaryValue>& list, const std::string& name, bool display) {
   for (const auto& v : list) {
-    if (v.name == name) return v.value;
+    if (v.name == name) return display ? v.display() : v.value;
   }
   return std::numeric_limits<double>::quiet_NaN();
 }
@@ -88,8 +89,8 @@ void write_compare_csv(const std::string& path, const std::vector<std::string>& 
   for (const auto& n : names) out << "," << csv_quote(n);
   out << "\n";
   for (const auto* row : row_names(values)) {
-    out << row->name << "," << row->unit;
-    for (const auto& v : values) out << "," << cell(value_named(v, row->name));
+    out << row->name << "," << row->shown_unit();
+    for (const auto& v : values) out << "," << cell(value_named(v, row->name, true));
     out << "\n";
   }
   if (!violated.empty()) {
@@ -107,9 +108,9 @@ std::string compare_text(const std::vector<std::string>& names, const std::vecto
   s += "\n";
   if (values.empty()) return s;
   for (const auto* row : row_names(values)) {
-    s += fmt::format("{:<28} {:<11}", row->label, row->unit);
+    s += fmt::format("{:<28} {:<11}", row->label, row->shown_unit());
     for (const auto& v : values) {
-      const double x = value_named(v, row->name);
+      const double x = value_named(v, row->name, true);
       s += fmt::format(" {:>16}", std::isfinite(x) ? fmt::format("{:.4g}", x) : "-");
     }
     s += "\n";
@@ -135,8 +136,8 @@ void write_compare_h5(H5Writer& h5, const std::vector<std::string>& names,
   }
   for (const auto* r : row_names(values)) {
     std::vector<double> row;
-    for (const auto& v : values) row.push_back(value_named(v, r->name));
-    write_column(h5, "/compare/" + r->name, row, r->unit, r->label);
+    for (const auto& v : values) row.push_back(value_named(v, r->name, false));
+    write_column(h5, "/compare/" + r->name, row, r->unit, r->label);  // SI, as /summary
   }
 }
 
@@ -148,7 +149,7 @@ void write_sweep_csv(const std::string& path, const SweepPlan& plan, const std::
   out << "point";
   for (const auto& a : plan.axes) out << "," << a.key << " [" << a.unit << "]";
   out << ",ok,feasible,pareto,chosen";
-  for (const auto* v : rows) out << "," << v->name << " [" << v->unit << "]";
+  for (const auto* v : rows) out << "," << v->name << " [" << v->shown_unit() << "]";
   out << ",violated,error\n";
   for (size_t i = 0; i < results.size(); ++i) {
     out << i;
@@ -156,7 +157,7 @@ void write_sweep_csv(const std::string& path, const SweepPlan& plan, const std::
     const auto& r = results[i];
     out << "," << (r.ok ? 1 : 0) << "," << (r.ok && r.feasible ? 1 : 0) << "," << (pareto[i] ? 1 : 0) << ","
         << (static_cast<int>(i) == chosen ? 1 : 0);
-    for (const auto* v : rows) out << "," << (r.ok ? cell(value_named(r.values, v->name)) : "");
+    for (const auto* v : rows) out << "," << (r.ok ? cell(value_named(r.values, v->name, true)) : "");
     out << "," << (r.ok ? csv_quote(broken_constraints(r)) : "\"\"");
     out << "," << (r.ok ? "" : csv_quote(one_line(r.error))) << "\n";
   }
@@ -200,9 +201,9 @@ void write_sweep_h5(H5Writer& h5, const SweepPlan& plan, const std::vector<Point
   for (const auto* row : row_names(values)) {
     std::vector<double> col(n, std::numeric_limits<double>::quiet_NaN());
     for (size_t i = 0; i < n; ++i) {
-      if (results[i].ok) col[i] = value_named(results[i].values, row->name);
+      if (results[i].ok) col[i] = value_named(results[i].values, row->name, false);
     }
-    write_column(h5, "/sweep/" + row->name, col, row->unit, "");
+    write_column(h5, "/sweep/" + row->name, col, row->unit, "");  // SI, as /summary
   }
 }
 

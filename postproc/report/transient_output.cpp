@@ -39,7 +39,7 @@ std::vector<Column> summary_columns() {
       {"do_min", "DO min [mmol/L]", "mol/m3", 1.0, [](const S& s) { return s.do_min; }},
       {"do_mean", "DO mean [mmol/L]", "mol/m3", 1.0, [](const S& s) { return s.do_mean; }},
       {"do_max", "DO max [mmol/L]", "mol/m3", 1.0, [](const S& s) { return s.do_max; }},
-      {"volume_below_critical", "volume below critical [-]", "1", 1.0, [](const S& s) { return s.volume_below_critical; }},
+      {"volume_fraction_below_critical", "volume below critical [-]", "1", 1.0, [](const S& s) { return s.volume_below_critical; }},
       {"speed_rps", "speed [rpm]", "1/s", 60.0, [](const S& s) { return s.speed_rps; }},
       {"gas_flow_normal", "gas [Nm3/h]", "m3/s", 3600.0, [](const S& s) { return s.gas_normal_m3_s; }},
       {"oxygen_fraction", "O2 in inlet gas [-]", "1", 1.0, [](const S& s) { return s.oxygen_fraction; }},

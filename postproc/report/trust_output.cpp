@@ -8,12 +8,16 @@
 #include <stdexcept>
 
 #include "postproc/report/svg_plot.hpp"
+#include "input/display_units.hpp"
 #include "input/errors.hpp"
 
 namespace oxystrat {
 namespace {
 
 std::string num(double v) { return std::isfinite(v) ? fmt::format("{:.4g}", v) : "-"; }
+
+// The samples are SI; tables for people show them in the output's display unit.
+double shown(const UncertaintyOutput& o, double si) { return si * units::display_per_si(o.unit, o.display_unit); }
 
 }  // namespace
 
@@ -23,7 +27,8 @@ std::string uncertainty_text(const UncertaintyResult& u) {
                               u.failed ? fmt::format(", {} failed", u.failed) : "");
   s += fmt::format("  {:<26} {:>10} {:>10} {:>10}  {}\n", "", "P10", "P50", "P90", "unit");
   for (const auto& o : u.outputs) {
-    s += fmt::format("  {:<26} {:>10} {:>10} {:>10}  {}\n", o.name, num(o.q.p10), num(o.q.p50), num(o.q.p90), o.unit);
+    s += fmt::format("  {:<26} {:>10} {:>10} {:>10}  {}\n", o.name, num(shown(o, o.q.p10)), num(shown(o, o.q.p50)),
+                     num(shown(o, o.q.p90)), o.display_unit);
   }
   s += "  What moves DO min most (Spearman rank correlation; measure these first):\n";
   for (size_t i = 0; i < u.sensitivity.size() && i < 5; ++i) {
@@ -70,12 +75,14 @@ void write_uncertainty_csv(const std::string& path, const UncertaintyResult& u) 
   std::ofstream out(path);
   out << "sample";
   for (const auto& k : u.constants) out << ",draw " << k.name << " [-]";
-  for (const auto& o : u.outputs) out << "," << o.name << " [" << o.unit << "]";
+  for (const auto& o : u.outputs) out << "," << o.name << " [" << o.display_unit << "]";
   out << "\n";
   for (size_t i = 0; i < u.draws.size(); ++i) {
     out << i;
     for (double z : u.draws[i]) out << fmt::format(",{:.6g}", z);
-    for (const auto& o : u.outputs) out << "," << (std::isfinite(o.samples[i]) ? fmt::format("{:.6g}", o.samples[i]) : "");
+    for (const auto& o : u.outputs) {
+      out << "," << (std::isfinite(o.samples[i]) ? fmt::format("{:.6g}", shown(o, o.samples[i])) : "");
+    }
     out << "\n";
   }
   finish_file(out, path);
@@ -88,7 +95,7 @@ std::string uncertainty_html(const UncertaintyResult& u, double critical) {
   s += "<table><tr><th>quantity</th><th>P10</th><th>P50</th><th>P90</th><th>unit</th></tr>\n";
   for (const auto& o : u.outputs) {
     s += fmt::format("<tr><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td>{}</td></tr>\n",
-                     o.name, num(o.q.p10), num(o.q.p50), num(o.q.p90), o.unit);
+                     o.name, num(shown(o, o.q.p10)), num(shown(o, o.q.p50)), num(shown(o, o.q.p90)), o.display_unit);
   }
   s += "</table>\n<h3>What moves DO min most</h3>\n<table><tr><th>constant</th><th>rank correlation</th></tr>\n";
   for (const auto& k : u.sensitivity) {
@@ -128,14 +135,16 @@ void write_grid_check_h5(H5Writer& h5, const GridCheck& g) {
   std::vector<std::string> names, units, verdicts;
   std::vector<double> values, order, gci, band, extrapolated;
   for (const auto& q : g.quantities) {
+    // The check is read in table units (mmol/L, %); the file holds SI.
+    const auto si = units::display_scale(q.unit);
     names.push_back(q.name);
-    units.push_back(q.unit);
+    units.push_back(si.si_unit);
     verdicts.push_back(q.verdict);
-    values.insert(values.end(), {q.fine, q.medium, q.coarse});
+    values.insert(values.end(), {q.fine / si.per_si, q.medium / si.per_si, q.coarse / si.per_si});
     order.push_back(q.convergence.observed_order);
     gci.push_back(q.convergence.gci_fine);
-    band.push_back(q.convergence.gci_fine_absolute);
-    extrapolated.push_back(q.convergence.extrapolated);
+    band.push_back(q.convergence.gci_fine_absolute / si.per_si);
+    extrapolated.push_back(q.convergence.extrapolated / si.per_si);
   }
   h5.write("/grid_check/quantities", names);
   h5.write("/grid_check/units", units);

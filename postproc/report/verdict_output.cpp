@@ -29,6 +29,16 @@ std::string impellers_text(const Case& c) {
 
 }  // namespace
 
+std::string cell_culture_text(const Culture& k) {
+  // A cell culture is counted in cells/mL and its uptake per cell; only the cell's dry mass links
+  // them to the biomass the model uses, so without it there is nothing to show.
+  if (k.kind != CultureKind::cell || k.cell_dry_mass_kg <= 0.0) return "";
+  const double cells_per_ml = k.biomass_kg_m3 / k.cell_dry_mass_kg * 1e-6;          // 1/m3 -> 1/mL
+  const double pmol_cell_h = k.q_o2_max_mol_kg_s * k.cell_dry_mass_kg * 3600.0 * 1e12;  // mol/(cell s) -> pmol/cell/h
+  return fmt::format("  cells {:.3g} cells/mL at {:.3g} pg dry mass each; q_O2,max {:.3g} pmol/cell/h ({:.3g} pmol/cell/day)\n",
+                     cells_per_ml, k.cell_dry_mass_kg * 1e15, pmol_cell_h, 24.0 * pmol_cell_h);
+}
+
 std::string operating_point_text(const Case& c) {
   const auto& o = c.operation;
   const double vvm = 60.0 * o.gas_flow_normal_m3_s / c.vessel.working_volume_m3;
@@ -39,7 +49,7 @@ std::string operating_point_text(const Case& c) {
                    c.vessel.diameter_m, c.vessel.liquid_height_m / c.vessel.diameter_m, impellers_text(c));
   s += fmt::format("  biomass {:.3g} g/L at q_O2,max {:.3g} mmol/(g h): uptake up to {:.3g} mmol/(L h)\n", c.culture.biomass_kg_m3,
                    3600.0 * c.culture.q_o2_max_mol_kg_s, 3600.0 * c.culture.biomass_kg_m3 * c.culture.q_o2_max_mol_kg_s);
-  return s;
+  return s + cell_culture_text(c.culture);
 }
 
 std::string verdict_text(const Case& c, const Verdict& v) {

@@ -12,6 +12,9 @@ namespace oxystrat {
 //! The operating point as an engineer states it: speed, gas in vvm, Nm3/h and actual m3/h at the
 //! sparger, O2 fraction, head pressure, impellers, biomass.
 std::string operating_point_text(const Case& c);
+//! For a cell culture (kind "cell") with a cell dry mass: its biomass back in cells/mL and its
+//! q_O2,max per cell, one line; "" otherwise.
+std::string cell_culture_text(const Culture& k);
 std::string verdict_text(const Case& c, const Verdict& v);
 std::string verdict_html(const Case& c, const Verdict& v);
 

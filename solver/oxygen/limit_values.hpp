@@ -11,8 +11,8 @@
 
 namespace oxystrat {
 
-//! Appends heat_*, cooling_*, max_biomass_heat, dissipation_max, kolmogorov_min, compressor_power,
-//! total_power, operating_cost, ... in display units. Values of absent tables ([cooling],
+//! Appends heat_*, cooling_*, max_biomass_heat, dissipation_max, kolmogorov_length_min, compressor_power,
+//! total_power, operating_cost, ... in SI with their display units. Values of absent tables ([cooling],
 //! [prices]) are left out.
 void append_limit_values(const Case& c, const CaseRun& run, std::vector<SummaryValue>& out);
 //! The names append_limit_values can give for this case, in its order: those of [cooling] and

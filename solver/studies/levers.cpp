@@ -18,8 +18,17 @@ struct LeverSpec {
   std::string name, key, unit;
   double current = 0.0, limit = 0.0;
   std::string reason;
-  double to_case_unit = 1.0;  // printed value x this = the number written with `unit`
+  std::string si_unit;         // the SI unit of the lever's quantity, for files
+  double si_per_unit = 1.0;    // SI value = value in `unit` x this
 };
+
+// The SI unit and factor of each lever unit: files hold SI (docs/outputs.md).
+void set_si(LeverSpec& s, const Case& c) {
+  if (s.unit == "rpm") s.si_unit = "1/s", s.si_per_unit = 1.0 / 60.0;
+  if (s.unit == "vvm") s.si_unit = "m3/s", s.si_per_unit = c.vessel.working_volume_m3 / 60.0;  // normal m3/s
+  if (s.unit == "bar(a)") s.si_unit = "Pa", s.si_per_unit = 1e5;
+  if (s.unit == "%") s.si_unit = "1", s.si_per_unit = 0.01;
+}
 
 std::vector<LeverSpec> lever_specs(const Case& c) {
   std::vector<LeverSpec> out;
@@ -46,6 +55,7 @@ std::vector<LeverSpec> lever_specs(const Case& c) {
   }
   out.push_back({"O2 fraction", "operation.oxygen_fraction", "%", 100.0 * c.operation.oxygen_fraction, 100.0,
                  "pure O2 (oxygen service of every wetted part required)"});
+  for (auto& s : out) set_si(s, c);
   return out;
 }
 
@@ -76,6 +86,7 @@ LeverResult move_lever(const LoadedCase& base, const std::vector<Override>& over
                        const LeverOptions& o) {
   LeverResult r;
   r.name = s.name, r.key = s.key, r.unit = s.unit, r.current = s.current, r.limit = s.limit, r.limit_reason = s.reason;
+  r.si_unit = s.si_unit, r.si_per_unit = s.si_per_unit;
   if (!(s.limit > s.current)) {
     r.value = s.current;
     r.note = fmt::format("no room: the case is already at the limit ({})", s.reason);
@@ -188,6 +199,7 @@ LeversStudy study_levers(const LoadedCase& loaded, const std::vector<Override>& 
     if (i < static_cast<int>(specs.size())) {
       if (s.base.feasible) {
         LeverResult r{specs[i].name, specs[i].key, specs[i].unit, specs[i].current, specs[i].limit, specs[i].reason};
+        r.si_unit = specs[i].si_unit, r.si_per_unit = specs[i].si_per_unit;
         r.already = r.found = true;
         r.value = specs[i].current;
         r.effects = s.base;

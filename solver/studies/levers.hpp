@@ -52,6 +52,8 @@ struct LeverResult {
   double value = 0.0;      //!< the smallest such value (the limit when none)
   LeverEffects effects;    //!< at `value`
   std::string note;        //!< why it failed, or what to watch
+  std::string si_unit;     //!< SI unit of the lever's quantity ("1/s"; normal m3/s for vvm); empty: none
+  double si_per_unit = 1.0;  //!< SI value = `current`, `limit` or `value` x this
 };
 
 struct LeverOptions {

@@ -159,7 +159,7 @@ void append_uncertainty_values(const Case& c, int samples, std::uint64_t seed, b
   for (const auto& out : u.outputs) {
     if (out.name == "theta95" && !with_mixing) continue;
     for (const auto& [suffix, v] : {std::pair{"_p10", out.q.p10}, std::pair{"_p50", out.q.p50}, std::pair{"_p90", out.q.p90}}) {
-      values.push_back({out.name + suffix, out.unit, v, out.name + " " + std::string(suffix + 1)});
+      values.push_back(summary_entry(out.name + suffix, v, out.unit, out.display_unit, out.name + " " + std::string(suffix + 1)));
     }
   }
 }
@@ -197,7 +197,8 @@ std::vector<std::string> sweep_value_names(const Case& base, const SweepOptions&
 
 void check_objective(const Case& base, const std::string& objective, const SweepOptions& opts) {
   const bool maximise = objective.size() > 4 && objective.compare(objective.size() - 4, 4, ":max") == 0;
-  const std::string name = maximise ? objective.substr(0, objective.size() - 4) : objective;
+  // A name of an earlier release (volume_below_critical) still names its value.
+  const std::string name = current_summary_name(maximise ? objective.substr(0, objective.size() - 4) : objective);
   const auto names = sweep_value_names(base, opts);
   if (std::find(names.begin(), names.end(), name) != names.end()) return;
   std::string list;

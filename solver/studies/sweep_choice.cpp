@@ -20,9 +20,14 @@ std::optional<double> value_of(const PointResult& r, const std::string& name) {
 
 double finite_or(std::optional<double> v, double fallback) { return v && std::isfinite(*v) ? *v : fallback; }
 
+// The value an objective names; a name of an earlier release is taken in its current spelling.
 std::string objective_name(const std::string& objective) {
   const bool maximise = objective.size() > 4 && objective.compare(objective.size() - 4, 4, ":max") == 0;
-  return maximise ? objective.substr(0, objective.size() - 4) : objective;
+  return current_summary_name(maximise ? objective.substr(0, objective.size() - 4) : objective);
+}
+
+bool is_maximise(const std::string& objective) {
+  return objective.size() > 4 && objective.compare(objective.size() - 4, 4, ":max") == 0;
 }
 
 }  // namespace
@@ -43,7 +48,7 @@ void check_objective_applies(const Case& base, const std::string& objective) {
 }
 
 int choose_objective_point(const std::vector<PointResult>& results, const std::string& objective) {
-  const bool maximise = objective_name(objective) != objective;
+  const bool maximise = is_maximise(objective);
   const std::string name = objective_name(objective);
   const PointResult* any = nullptr;
   for (const auto& r : results) {

@@ -103,7 +103,7 @@ std::vector<UncertainConstant> uncertain_constants() {
 }
 
 std::vector<std::string> uncertainty_output_names() {
-  return {"do_min", "volume_below_critical", "max_biomass", "theta95"};
+  return {"do_min", "volume_fraction_below_critical", "max_biomass", "theta95"};
 }
 
 UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts) {
@@ -121,9 +121,10 @@ UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts)
     for (double& x : draw) x = normal_quantile(x);
   }
   const auto names = uncertainty_output_names();
-  const char* units_[4] = {"mmol/L", "%", "g/L", "s"};
+  const char* units_[4] = {"mol/m3", "1", "kg/m3", "s"};       // SI, as /summary
+  const char* shown[4] = {"mmol/L", "%", "g/L", "s"};          // for the tables people read
   for (int q = 0; q < 4; ++q) {
-    res.outputs.push_back({names[q], units_[q], std::vector<double>(static_cast<size_t>(n), std::nan("")), {}});
+    res.outputs.push_back({names[q], units_[q], shown[q], std::vector<double>(static_cast<size_t>(n), std::nan("")), {}});
   }
   const auto net0 = build_zone_geometry(c);
   std::vector<std::vector<double>> profiles(static_cast<size_t>(n));
@@ -142,7 +143,7 @@ UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts)
       const auto run = run_case(ci, {true, false, 1e-3});
       if (run.field) {
         res.outputs[0].samples[i] = run.field->do_min;
-        res.outputs[1].samples[i] = 100.0 * run.field->volume_fraction_below_critical;
+        res.outputs[1].samples[i] = run.field->volume_fraction_below_critical;
         res.outputs[2].samples[i] = run.max_biomass_kg_m3;
         profiles[i] = height_profile(run.net, run.field->do_mol_m3).mean;
       }

@@ -38,7 +38,9 @@ struct Quantiles {
 };
 
 struct UncertaintyOutput {
-  std::string name, unit;
+  std::string name;
+  std::string unit;          //!< SI unit of the samples
+  std::string display_unit;  //!< unit of the tables people read (units::display_scale)
   std::vector<double> samples;  //!< one per sample (NaN where a sample failed)
   Quantiles q;
 };
@@ -51,7 +53,7 @@ struct Sensitivity {
 struct UncertaintyResult {
   std::vector<UncertainConstant> constants;
   std::vector<std::vector<double>> draws;  //!< [sample][constant] standard-normal draws
-  std::vector<UncertaintyOutput> outputs;  //!< do_min, volume_below_critical, max_biomass, theta95
+  std::vector<UncertaintyOutput> outputs;  //!< do_min, volume_fraction_below_critical, max_biomass, theta95
   std::vector<Sensitivity> sensitivity;    //!< sorted by |spearman|, largest first
   std::vector<double> profile_z;           //!< level heights [m]
   std::vector<Quantiles> profile_do;       //!< mean DO per level [mol/m3]

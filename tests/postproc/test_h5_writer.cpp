@@ -53,6 +53,19 @@ TEST(H5Writer, NumbersStringsAndAttributesReadBack) {
   EXPECT_EQ(read_attribute(f, "/", "creator"), "test");
 }
 
+TEST(H5Writer, EveryFileCarriesTheFormatVersion) {
+  // Written by the constructor: a file with nothing else in it has it, so every command's file has.
+  TempFolder tmp;
+  const auto path = (tmp / "empty.h5").string();
+  {
+    H5Writer w(path);
+    w.close();
+  }
+  const auto f = open_h5(path);
+  EXPECT_EQ(read_attribute(f, "/", "format_version"), "2.0");
+  EXPECT_EQ(std::string(kH5FormatVersion), "2.0");
+}
+
 TEST(H5Writer, EmptyArraysAreWritten) {
   TempFolder tmp;
   const auto path = (tmp / "empty.h5").string();

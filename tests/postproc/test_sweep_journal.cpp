@@ -19,7 +19,7 @@ namespace fs = std::filesystem;
 PointResult point(double v) {
   PointResult r;
   r.ok = true;
-  r.values.push_back({"do_min", "mmol/L", v, "DO min"});
+  r.values.push_back({"do_min", "mol/m3", v, "DO min", "mmol/L", 1.0});
   return r;
 }
 
@@ -68,6 +68,24 @@ TEST(SweepJournal, ALineCutShortIsSkippedAndTheNextStartsAfresh) {
   const auto done = again.load();
   ASSERT_EQ(done.size(), 2u);
   EXPECT_EQ(done.at(2).values.at(0).value, 2.0);
+}
+
+TEST(SweepJournal, SiValueAndDisplayUnitRoundTrip) {
+  // A journal holds SI with the display unit beside it (format 2.0): resuming loses neither.
+  PointResult r;
+  r.ok = true;
+  r.values.push_back({"power_gassed", "W", 2345.678901234567, "P gassed", "kW", 1e-3});
+  size_t index = 0;
+  PointResult back;
+  ASSERT_TRUE(decode_point(encode_point(7, r), index, back));
+  EXPECT_EQ(index, 7u);
+  ASSERT_EQ(back.values.size(), 1u);
+  const auto& v = back.values[0];
+  EXPECT_EQ(v.unit, "W");
+  EXPECT_EQ(v.value, 2345.678901234567);  // %.17g: exact
+  EXPECT_EQ(v.display_unit, "kW");
+  EXPECT_EQ(v.display_per_si, 1e-3);
+  EXPECT_EQ(v.display(), 2345.678901234567 * 1e-3);
 }
 
 }  // namespace

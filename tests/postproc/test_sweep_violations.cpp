@@ -16,7 +16,7 @@ PointResult infeasible_point() {
   PointResult r;
   r.ok = true;
   r.feasible = false;
-  r.values = {{"power_gassed", "kW", 2.5, "P gassed"}, {"operating_cost", "EUR/h", 0.75, "operating cost"}};
+  r.values = {{"power_gassed", "W", 2500.0, "P gassed", "kW", 1e-3}, {"operating_cost", "EUR/h", 0.75, "operating cost", "EUR/h", 1.0}};
   r.checks = {{"do_min", false, "DO min 0.01 mmol/L | 3 % below"}, {"cooling", false, "cooling 10 kW for 12 kW"},
               {"tip_speed", true, "3 m/s"}};
   return r;
@@ -47,7 +47,7 @@ TEST(SweepViolations, SweepCsvNamesTheBrokenConstraints) {
   PointResult good;
   good.ok = true;
   good.feasible = true;
-  good.values = {{"power_gassed", "kW", 3.0, "P gassed"}};  // no operating_cost here: an empty cell
+  good.values = {{"power_gassed", "W", 3000.0, "P gassed", "kW", 1e-3}};  // no operating_cost here: an empty cell
   const std::vector<PointResult> results{infeasible_point(), good};
   write_sweep_csv((dir / "sweep.csv").string(), plan, results, {false, true}, 1);
   const auto text = read(dir / "sweep.csv");
@@ -58,8 +58,8 @@ TEST(SweepViolations, SweepCsvNamesTheBrokenConstraints) {
 
 TEST(SweepViolations, CompareKeepsRowsThatApplyToSomeCases) {
   TempFolder dir;
-  const std::vector<std::vector<SummaryValue>> values{{{"power_gassed", "kW", 2.0, "P"}, {"operating_cost", "EUR/h", 1.5, "c"}},
-                                                      {{"power_gassed", "kW", 3.0, "P"}}};
+  const std::vector<std::vector<SummaryValue>> values{{{"power_gassed", "W", 2000.0, "P", "kW", 1e-3}, {"operating_cost", "EUR/h", 1.5, "c", "EUR/h", 1.0}},
+                                                      {{"power_gassed", "W", 3000.0, "P", "kW", 1e-3}}};
   write_compare_csv((dir / "compare.csv").string(), {"a", "b"}, values, {"", "do_min; heat"});
   const auto text = read(dir / "compare.csv");
   EXPECT_NE(text.find("power_gassed,kW,2,3\n"), std::string::npos) << text;

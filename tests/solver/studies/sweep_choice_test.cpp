@@ -17,7 +17,7 @@ PointResult point(double objective, double do_min, bool feasible = true) {
   PointResult r;
   r.ok = true;
   r.feasible = feasible;
-  r.values = {{"power_gassed", "kW", objective, ""}, {"do_min", "mmol/L", do_min, ""}};
+  r.values = {{"power_gassed", "W", objective, "", "kW", 1e-3}, {"do_min", "mol/m3", do_min, "", "mmol/L", 1.0}};
   if (!feasible) r.checks = {{"do_min", false, "too low"}, {"flooding", false, "flooded"}, {"tip_speed", true, "ok"}};
   return r;
 }
@@ -27,6 +27,18 @@ TEST(SweepChoice, LeastObjectiveAmongFeasiblePoints) {
   EXPECT_EQ(choose_objective_point(r, "power_gassed"), 2);
   EXPECT_EQ(choose_objective_point(r, "power_gassed:max"), 0);
   EXPECT_EQ(choose_objective_point({point(1.0, 0.1, false)}, "power_gassed"), -1);
+}
+
+TEST(SweepChoice, ANameOfAnEarlierReleaseStillNamesItsValue) {
+  // Format 2.0 renamed volume_below_critical to /summary's volume_fraction_below_critical.
+  std::vector<PointResult> r{point(5.0, 0.1), point(3.0, 0.1)};
+  r[0].values.push_back({"volume_fraction_below_critical", "1", 0.02, "", "%", 100.0});
+  r[1].values.push_back({"volume_fraction_below_critical", "1", 0.01, "", "%", 100.0});
+  EXPECT_EQ(choose_objective_point(r, "volume_below_critical"), 1);
+  EXPECT_EQ(choose_objective_point(r, "volume_below_critical:max"), 0);
+  EXPECT_EQ(current_summary_name("offgas_o2"), "offgas_y_o2");
+  EXPECT_EQ(current_summary_name("volume_below_critical_p90"), "volume_fraction_below_critical_p90");
+  EXPECT_EQ(current_summary_name("do_min"), "do_min");
 }
 
 TEST(SweepChoice, TiesGoToTheHigherDoMinSoTheChoiceIsNotDominated) {

@@ -197,7 +197,7 @@ TEST(Pareto, KeepsOnlyUndominatedPoints) {
   const auto point = [](double power, double do_min) {
     PointResult r;
     r.ok = true;
-    r.values = {{"power_gassed", "kW", power, ""}, {"do_min", "mmol/L", do_min, ""}};
+    r.values = {{"power_gassed", "W", power, "", "kW", 1e-3}, {"do_min", "mol/m3", do_min, "", "mmol/L", 1.0}};
     return r;
   };
   const std::vector<PointResult> pts{point(10, 0.1), point(20, 0.2), point(15, 0.05), point(30, 0.2), point(5, 0.01)};
