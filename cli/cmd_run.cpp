@@ -87,6 +87,7 @@ void add_run_command(CLI::App& app) {
       write_hydrodynamics_h5(h5, c, hydro);
       write_oxygen_h5(h5, c, run);
       h5.write("/summary/theta95", theta, "s");
+      write_verdict_h5(h5, verdict);
       if (unc) write_uncertainty_h5(h5, *unc);
       if (grid) write_grid_check_h5(h5, *grid);
       h5.close();

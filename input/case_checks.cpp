@@ -89,7 +89,7 @@ void note_unused_rheology_keys(const TomlSource& src, const Case& c, std::vector
   const bool power = kind == RheologyKind::power_law || kind == RheologyKind::herschel_bulkley;
   const bool yield = kind == RheologyKind::herschel_bulkley || kind == RheologyKind::casson;
   for (const auto& [key, used] : {std::pair{"broth.consistency", power}, std::pair{"broth.flow_index", power},
-                                  std::pair{"broth.yield_stress", yield}}) {
+                                  std::pair{"broth.yield_stress", yield}, std::pair{"broth.viscosity", !power}}) {
     if (!used && src.has(key)) notes.push_back(fmt::format("{} is ignored: it does not apply to a {} broth", key, to_string(kind)));
   }
 }

@@ -3,6 +3,8 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
+
 #include <fstream>
 
 #include "input/errors.hpp"
@@ -69,15 +71,16 @@ void write_scale_up_csv(const std::string& path, const ScaleUpStudy& s) {
   out << "criterion";
   for (const auto& c : kColumns) out << "," << c.head << " [" << c.unit << "]";
   out << ",reached,meets constraints,breaks\n";
-  const auto row = [&](const std::string& name, const ScaleMetrics& m, bool reached, bool production) {
+  // A criterion that was not reached has no operating point: its cells stay empty.
+  const auto row = [&](const std::string& name, const ScaleMetrics& m, bool reached) {
     out << name;
-    for (const auto& c : kColumns) out << fmt::format(",{:.8g}", c.get(m));
-    std::string b = broken(m);
+    for (const auto& c : kColumns) out << (reached ? fmt::format(",{:.8g}", c.get(m)) : ",");
+    std::string b = reached ? broken(m) : "";
     for (auto& ch : b) ch = ch == ',' ? ';' : ch;
-    out << "," << (reached ? "yes" : "no") << "," << (production ? (m.effects.feasible ? "yes" : "no") : "") << "," << b << "\n";
+    out << "," << (reached ? "yes" : "no") << "," << (reached ? (m.effects.feasible ? "yes" : "no") : "") << "," << b << "\n";
   };
-  row("pilot", s.pilot, true, false);
-  for (const auto& r : s.rows) row(r.criterion, r.production, r.reached, true);
+  row("pilot", s.pilot, true);
+  for (const auto& r : s.rows) row(r.criterion, r.production, r.reached);
   finish_file(out, path);
 }
 
@@ -85,15 +88,24 @@ void write_scale_up_h5(H5Writer& h5, const ScaleUpStudy& s) {
   std::vector<std::string> names{"pilot"};
   std::vector<const ScaleMetrics*> rows{&s.pilot};
   std::vector<int> reached{1}, meets{s.pilot.effects.feasible};
+  std::vector<std::string> breaks{broken(s.pilot)}, notes{""};
   for (const auto& r : s.rows) {
     names.push_back(r.criterion), rows.push_back(&r.production);
-    reached.push_back(r.reached), meets.push_back(r.production.effects.feasible);
+    reached.push_back(r.reached), meets.push_back(r.reached && r.production.effects.feasible);
+    breaks.push_back(r.reached ? broken(r.production) : ""), notes.push_back(r.note);
   }
+  const bool all_reached = std::all_of(reached.begin(), reached.end(), [](int x) { return x != 0; });
+  // A criterion not reached has no operating point: 0 there, marked by has_value (never NaN).
   const auto field = [&](const char* name, const char* unit, double (*get)(const ScaleMetrics&)) {
     std::vector<double> v;
-    for (const auto* m : rows) v.push_back(get(*m));
-    h5.write(std::string("/scale_up/") + name, v, unit);
+    for (size_t i = 0; i < rows.size(); ++i) v.push_back(reached[i] ? get(*rows[i]) : 0.0);
+    const std::string path = std::string("/scale_up/") + name;
+    h5.write(path, v, unit);
+    if (!all_reached) h5.attribute(path, "has_value", reached);
   };
+  h5.write("/scale_up/breaks", breaks);
+  h5.attribute("/scale_up/breaks", "meaning", "the constraints each row breaks, '; '-separated; empty: none");
+  h5.write("/scale_up/note", notes);
   h5.write("/scale_up/criterion", names);
   h5.attribute("/scale_up/criterion", "meaning", "row 0 is the pilot, row 1 the production case as written");
   h5.write("/scale_up/reached", reached, "1");

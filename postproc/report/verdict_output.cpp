@@ -75,4 +75,26 @@ std::string verdict_html(const Case& c, const Verdict& v) {
   return s + "</table>\n";
 }
 
+void write_verdict_h5(H5Writer& h5, const Verdict& v) {
+  h5.write("/verdict/meets", std::vector<int>{v.meets ? 1 : 0}, "1");
+  h5.attribute("/verdict/meets", "meaning", "1: every constraint holds (the case's [constraints], DO floor included)");
+  h5.write("/verdict/headline", v.headline);
+  if (!v.binding.empty()) h5.write("/verdict/binding", v.binding);
+  if (!v.advice.empty()) h5.write("/verdict/advice", v.advice);
+  h5.write("/verdict/do_floor", v.do_floor_mol_m3, "mol/m3");
+  h5.write("/verdict/starved_volume_fraction", v.starved.volume_fraction, "1");
+  if (v.starved.volume_fraction > 0.0) {
+    h5.write("/verdict/starved_where", v.starved.where);
+    h5.write("/verdict/starved_height_range", std::vector<double>{v.starved.z_lo, v.starved.z_hi}, "m");
+    h5.write("/verdict/starved_radius_range", std::vector<double>{v.starved.r_lo, v.starved.r_hi}, "m");
+  }
+  std::vector<std::string> names, details;
+  std::vector<int> ok;
+  for (const auto& k : v.checks) names.push_back(k.name), details.push_back(k.detail), ok.push_back(k.satisfied);
+  if (names.empty()) return;
+  h5.write("/verdict/constraints/name", names);
+  h5.write("/verdict/constraints/satisfied", ok, "1");
+  h5.write("/verdict/constraints/detail", details);
+}
+
 }  // namespace oxystrat

@@ -4,6 +4,7 @@
 #include <string>
 
 #include "input/case.hpp"
+#include "postproc/io/h5_writer.hpp"
 #include "solver/oxygen/case_run.hpp"
 #include "solver/studies/verdict.hpp"
 
@@ -17,5 +18,8 @@ std::string operating_point_text(const Case& c);
 std::string cell_culture_text(const Culture& k);
 std::string verdict_text(const Case& c, const Verdict& v);
 std::string verdict_html(const Case& c, const Verdict& v);
+//! /verdict in result.h5: meets, headline, binding, advice, the starved region (SI) and every
+//! constraint check.
+void write_verdict_h5(H5Writer& h5, const Verdict& v);
 
 }  // namespace oxystrat

@@ -24,7 +24,7 @@ struct Verdict {
   std::vector<ConstraintCheck> checks;
   double do_floor_mol_m3 = 0.0;
   StarvedRegion starved;
-  std::string binding;                  //!< the constraint that fails, or the one with least margin
+  std::string binding;                  //!< the constraints that fail ('; '-separated); empty when all hold
   std::string headline;                 //!< one sentence: fine or not, and why
   std::string advice;                   //!< what to change, or what to watch
 };
