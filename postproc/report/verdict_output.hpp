@@ -15,4 +15,8 @@ std::string operating_point_text(const Case& c);
 std::string verdict_text(const Case& c, const Verdict& v);
 std::string verdict_html(const Case& c, const Verdict& v);
 
+//! The box every report opens with: one bold sentence (green edge when `ok`, red when not) and a
+//! second paragraph with what follows from it. Plain text in, escaped here.
+std::string verdict_box_html(bool ok, const std::string& headline, const std::string& detail);
+
 }  // namespace oxystrat
