@@ -141,8 +141,8 @@ std::string run_report_body(const Case& c, const CaseRun& run, std::optional<dou
   s += values_table(summary_values(c, run, theta95_s));
   s += "</div><div>\n<h3>Cautions</h3>\n" + list(run.cautions, "None apply.");
   s += "<h3>Notes</h3>\n" + list(run.notes, "None.") + "</div></div>\n";
-  s += limits_report_html(c, run, outlines(c));
-  if (!run.field) return s;
+  // The oxygen figures before heat, shear and cost: they answer the question the verdict raises.
+  if (!run.field) return s + limits_report_html(c, run, outlines(c));
   if (!run.single_zone) throw std::logic_error("the run report needs the single-zone field (run_case with single_zone)");
   const auto& f = *run.field;
   const auto p = height_profile(run.net, f.do_mol_m3);
@@ -163,7 +163,7 @@ std::string run_report_body(const Case& c, const CaseRun& run, std::optional<dou
   s += svg::line_chart("C* by height", "C* [mmol/L]", "height [m]", {{"C* (gassed zones)", ps.mean, ps.z, "#9467bd"}});
   s += svg::line_chart("kLa by height", "kLa [1/h]", "height [m]", {{"kLa (level mean)", kla_h, pk.z, "#ff7f0e"}});
   s += "</div>\n";
-  return s;
+  return s + limits_report_html(c, run, outlines(c));
 }
 
 std::string compare_report_body(const std::vector<ComparedCase>& cases) {
