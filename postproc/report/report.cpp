@@ -140,13 +140,14 @@ std::string run_report_body(const Case& c, const CaseRun& run, std::optional<dou
                   "<div class=\"row\"><div>\n<h3>Summary</h3>\n";
   s += values_table(summary_values(c, run, theta95_s));
   s += "</div><div>\n<h3>Cautions</h3>\n" + list(run.cautions, "None apply.");
-  s += "<h3>Notes</h3>\n" + list(run.notes, "None.") + "</div></div>\n";
-  // The oxygen figures before heat, shear and cost: they answer the question the verdict raises.
-  if (!run.field) return s + limits_report_html(c, run, outlines(c));
+  s += "<h3>Notes</h3>\n" + list(run.notes, "None.");
+  // Without a DO field (no gas) there is nothing to draw for oxygen.
+  if (!run.field) return s + "</div></div>\n" + limits_report_html(c, run, outlines(c));
   if (!run.single_zone) throw std::logic_error("the run report needs the single-zone field (run_case with single_zone)");
   const auto& f = *run.field;
   const auto p = height_profile(run.net, f.do_mol_m3);
   const double crit = c.culture.critical_do_mol_m3;
+  // Where the tank starves, beside the summary: on the first screen, under the verdict it explains.
   s += "<div class=\"row\">\n";
   s += svg::line_chart("Dissolved O2 by height", "DO [mmol/L]", "height [m]",
                        {{"min", p.min, p.z, "#d62728"}, {"mean", p.mean, p.z, "#1f77b4"}, {"max", p.max, p.z, "#2ca02c"},
@@ -154,6 +155,7 @@ std::string run_report_body(const Case& c, const CaseRun& run, std::optional<dou
                          "#7f7f7f", true}},
                        {{true, crit, "critical DO"}});
   s += svg::zone_map(run.net, f.do_mol_m3, "DO in the (r, z) section", "mmol/L", outlines(c), crit);
+  s += "</div></div></div>\n<div class=\"row\">\n";
   std::vector<bool> gassed(f.holdup.size());
   for (size_t k = 0; k < gassed.size(); ++k) gassed[k] = f.holdup[k] > 0.0;
   const auto ps = height_profile(run.net, f.cstar_mol_m3, gassed);
