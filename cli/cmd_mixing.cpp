@@ -7,6 +7,8 @@
 #include "cli/common.hpp"
 #include "postproc/io/h5_writer.hpp"
 #include "postproc/report/hydro_output.hpp"
+#include "postproc/report/mixing_output.hpp"
+#include "postproc/report/report.hpp"
 #include "solver/flow/mixing_time.hpp"
 #include "postproc/io/network_output.hpp"
 #include "postproc/io/run_folder.hpp"
@@ -58,7 +60,7 @@ void add_mixing_command(CLI::App& app) {
     if (!o->probe.empty()) std::tie(mo.probe_r_m, mo.probe_z_m) = parse_position("--probe", o->probe);
     const auto mix = tracer_mixing_time(net, hydro, mo);
     const int pct = static_cast<int>(std::lround(100 * mo.homogeneity));
-    fmt::print("{}\n{}", c.title, power_table(c, hydro));
+    fmt::print("{}\n{}\n{}", c.title, mixing_headline(c, mix, mo.homogeneity), power_table(c, hydro));
     fmt::print("Mixing ({} zones, {} implicit steps, {} factorisations)\n", net.size(), mix.stats.steps,
                mix.stats.factorisations);
     fmt::print("  theta{} whole vessel  {:.4g} s  (N theta = {:.4g})\n", pct, mix.theta_s, c.operation.speed_rps * mix.theta_s);
@@ -77,6 +79,8 @@ void add_mixing_command(CLI::App& app) {
       h5.close();
     }
     write_mixing_csv(folder.file("tracer.csv").string(), mix);
+    write_text_file(folder.file("report.html").string(),
+                    report_page("oxystrat mixing: " + c.title, mixing_report_body(c, net, hydro, mix, mo.homogeneity)));
     // A ParaView time series of the tracer field on the (r, z) section and the revolved network.
     std::filesystem::create_directory(folder.file("tracer"));
     std::vector<std::string> sections, volumes;
@@ -95,7 +99,7 @@ void add_mixing_command(CLI::App& app) {
     write_pvd(folder.file("tracer_section.pvd").string(), mix.snapshot_time_s, sections);
     write_pvd(folder.file("tracer.pvd").string(), mix.snapshot_time_s, volumes);
     folder.commit();
-    fmt::print("Wrote {}/result.h5, tracer.csv, tracer.pvd, tracer_section.pvd\n", folder.target().string());
+    fmt::print("Wrote {}/result.h5, tracer.csv, tracer.pvd, tracer_section.pvd, report.html\n", folder.target().string());
   });
 }
 

@@ -3,10 +3,13 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <fstream>
 
 #include "input/errors.hpp"
+#include "postproc/report/number_format.hpp"
 #include "postproc/report/svg_plot.hpp"
+#include "postproc/report/verdict_output.hpp"
 
 namespace oxystrat {
 namespace {
@@ -47,6 +50,32 @@ std::string safety(const LeverResult& r, const LeverEffects& base) {
 std::string watch_and_note(const LeverResult& r, const LeverEffects& base) {
   const auto w = safety(r, base);
   return w.empty() ? r.note : r.note.empty() ? w : w + "; " + r.note;
+}
+
+// First in the report: does any single lever fix the case, and which costs least power.
+std::string levers_verdict_html(const LeversStudy& s) {
+  if (s.base.feasible) {
+    return verdict_box_html(true, "The case meets its constraints as it is; nothing needs to move.",
+                            "The table shows each lever at the case's own value, for reference.");
+  }
+  std::vector<const LeverResult*> fixes;
+  for (const auto& r : s.levers) {
+    if (r.found) fixes.push_back(&r);
+  }
+  if (fixes.empty()) {
+    return verdict_box_html(false, fmt::format("No single lever fixes the case within its limits (of {} tried).", s.levers.size()),
+                            "Combine levers (a sweep over two of them), or change the equipment.");
+  }
+  const auto& best = *fixes.front();  // ranked: feasible first, least drawn power (or cost) first
+  std::string each;
+  for (const auto* r : fixes) {
+    each += fmt::format("{}{} {} ({}, drawn power {} kW)", each.empty() ? "Each alone: " : "; ", r->name, value_text(*r),
+                        change_text(*r), report::format_number(r->effects.total_power_w / 1e3));
+  }
+  return verdict_box_html(false,
+                          fmt::format("{} of {} levers fix the case alone; least drawn power: {} {}.", fixes.size(),
+                                      s.levers.size(), best.name, value_text(best)),
+                          each + ". The table below gives their side effects.");
 }
 
 }  // namespace
@@ -145,24 +174,30 @@ void write_levers_h5(H5Writer& h5, const LeversStudy& s) {
 
 std::string levers_report_body(const Case& c, const LeversStudy& s) {
   using svg::escape;
-  std::string b = "<h2>Levers: what fixes the oxygen supply, and what it costs</h2>\n<p>" +
+  // One P/V unit for the column, W/m3 for a gently stirred cell culture.
+  double pv_largest = 0.0;
+  for (const auto& r : s.levers) pv_largest = std::max(pv_largest, r.effects.power_per_volume_w_m3);
+  const auto pv_unit = report::adapt_unit("W/m3", pv_largest);
+  std::string b = levers_verdict_html(s) + "<h2>Levers: what fixes the oxygen supply, and what it costs</h2>\n<p>" +
                   escape(s.base.feasible ? "The case meets its constraints as it is; the table shows each lever at the "
                                            "case's own value."
                                          : "The case does not meet its constraints. Each lever was moved alone, from the "
                                            "case's value towards its limit, to the smallest value that meets them.") +
                   "</p>\n<table><tr><th>lever</th><th>result</th><th>value</th><th>change</th><th>Pg [kW]</th><th>drawn [kW]</th>"
-                  "<th>P/V [kW/m3]</th><th>tip speed [m/s]</th><th>&epsilon; max [W/kg]</th><th>pCO2 max [mmHg]</th>"
+                  "<th>P/V [" + pv_unit.unit + "]</th><th>tip speed [m/s]</th><th>&epsilon; max [W/kg]</th><th>pCO2 max [mmHg]</th>"
                   "<th>DO min [mmol/L]</th><th>watch</th></tr>\n";
   std::vector<std::string> cats;
   std::vector<double> pg, dmin;
   for (const auto& r : s.levers) {
     const auto& e = r.effects;
-    b += fmt::format("<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{:.4g}</td>"
-                     "<td class=\"num\">{:.4g}</td><td class=\"num\">{:.3g}</td><td class=\"num\">{:.3g}</td><td class=\"num\">{:.3g}</td>"
-                     "<td class=\"num\">{:.0f}</td><td class=\"num\">{:.4f}</td><td>{}</td></tr>\n",
+    using report::format_number;
+    b += fmt::format("<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td>"
+                     "<td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td>"
+                     "<td class=\"num\">{}</td><td class=\"num\">{}</td><td>{}</td></tr>\n",
                      escape(r.name), escape(status(r)), escape(value_text(r)), escape(change_text(r)),
-                     e.power_gassed_w / 1e3, e.total_power_w / 1e3, e.power_per_volume_w_m3 / 1e3, e.tip_speed_m_s, e.epsilon_max_w_kg,
-                     e.pco2_max_pa / kMmHg, e.do_min_mol_m3, escape(watch_and_note(r, s.base)));
+                     format_number(e.power_gassed_w / 1e3), format_number(e.total_power_w / 1e3), format_number(e.power_per_volume_w_m3 * pv_unit.factor),
+                     format_number(e.tip_speed_m_s, 3), format_number(e.epsilon_max_w_kg, 3),
+                     format_number(e.pco2_max_pa / kMmHg, 3), format_number(e.do_min_mol_m3), escape(watch_and_note(r, s.base)));
     cats.push_back(r.name);
     pg.push_back(e.power_gassed_w / 1e3);
     dmin.push_back(e.do_min_mol_m3);

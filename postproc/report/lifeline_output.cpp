@@ -7,6 +7,7 @@
 #include <fstream>
 #include <stdexcept>
 
+#include "postproc/report/display_bins.hpp"
 #include "postproc/report/svg_plot.hpp"
 #include "solver/studies/uncertainty.hpp"
 #include "input/errors.hpp"
@@ -14,10 +15,11 @@
 namespace oxystrat {
 namespace {
 
-std::vector<std::string> bin_labels(const Histogram& h) {
-  std::vector<std::string> labels;
-  for (size_t i = 0; i + 1 < h.edges.size(); ++i) labels.push_back(i % 4 == 0 ? fmt::format("{:.3g}", h.edges[i]) : "");
-  return labels;
+// A histogram of durations on a log time axis, with the floor of display_bins.
+template <class Source>
+std::string duration_histogram(const std::string& title, const std::string& x_label, const Source& source) {
+  const auto b = report::display_bins(source);
+  return svg::histogram_chart(title, x_label, b.edges, b.counts, true, b.below);
 }
 
 std::string side(const FieldStatistics& f) { return f.below ? "below" : "above"; }
@@ -235,28 +237,26 @@ std::string lifeline_html(const LifelineResult& r, const ZoneNetwork& net, const
   std::string s = "<h2>What cells experience</h2>\n<pre>" + svg::escape(lifeline_text(r, critical)) + "</pre>\n<div class=\"row\">\n";
   for (const auto& f : r.fields) {
     const std::string what = side(f) + " " + f.label;
-    if (!f.excursion_histogram.counts.empty()) {
-      s += svg::bar_chart("Excursions " + what, "number", bin_labels(f.excursion_histogram), {"duration [s], log bins"},
-                          {f.excursion_histogram.counts});
-    }
-    if (!f.between_histogram.counts.empty()) {
-      s += svg::bar_chart("Time between excursions " + what, "number", bin_labels(f.between_histogram), {"interval [s], log bins"},
-                          {f.between_histogram.counts});
-    }
-    if (!f.long_excursion_histogram.counts.empty()) {
-      s += svg::bar_chart(fmt::format("Excursions {} of at least {:.3g} s", what, f.min_excursion_s), "number",
-                          bin_labels(f.long_excursion_histogram), {"duration [s], log bins"}, {f.long_excursion_histogram.counts});
-    }
-    if (!f.between_long_histogram.counts.empty()) {
-      s += svg::bar_chart(fmt::format("Time between excursions of at least {:.3g} s", f.min_excursion_s), "number",
-                          bin_labels(f.between_long_histogram), {"interval [s], log bins"}, {f.between_long_histogram.counts});
-    }
+    // From the lists themselves where the result keeps them, so that the bins are exact.
+    const auto plot = [&](const std::string& title, const std::string& x_label, const std::vector<double>& raw,
+                          const Histogram& h) {
+      if (!raw.empty()) {
+        s += duration_histogram(title, x_label, raw);
+      } else if (!h.counts.empty()) {
+        s += duration_histogram(title, x_label, h);
+      }
+    };
+    plot("Excursions " + what, "duration [s]", f.excursion_durations_s, f.excursion_histogram);
+    plot("Time between excursions " + what, "interval [s]", f.between_excursions_s, f.between_histogram);
+    plot(fmt::format("Excursions {} of at least {:.3g} s", what, f.min_excursion_s), "duration [s]",
+         f.long_excursion_durations_s, f.long_excursion_histogram);
+    plot(fmt::format("Time between excursions of at least {:.3g} s", f.min_excursion_s), "interval [s]",
+         f.between_long_excursions_s, f.between_long_histogram);
   }
   for (size_t a = 0; a < r.regimes.names.size(); ++a) {
     const auto& h = r.regimes.return_histograms[a];
     if (r.regimes.names[a].rfind("impeller", 0) == 0 && !h.counts.empty()) {
-      s += svg::bar_chart("Time between entries into " + r.regimes.names[a], "number", bin_labels(h), {"interval [s], log bins"},
-                          {h.counts});
+      s += duration_histogram("Time between entries into " + r.regimes.names[a], "interval [s]", h);
     }
   }
   if (!r.trajectories.empty() && !do_field.empty()) {

@@ -6,6 +6,7 @@
 #include <cmath>
 
 #include "input/units.hpp"
+#include "postproc/report/number_format.hpp"
 #include "physics/solubility.hpp"
 
 namespace oxystrat {
@@ -38,7 +39,7 @@ std::string table(const std::string& title, const std::vector<Row>& rows) {
   return s + "</table></div>\n";
 }
 
-std::string num(double v) { return fmt::format("{:.4g}", v); }
+std::string num(double v) { return report::format_number(v); }
 
 }  // namespace
 

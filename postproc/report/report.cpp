@@ -3,11 +3,13 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 #include <fstream>
 #include <stdexcept>
 
 #include "postproc/report/limits_output.hpp"
+#include "postproc/report/number_format.hpp"
 #include "postproc/report/svg_plot.hpp"
 #include "postproc/report/sweep_notes.hpp"
 #include "solver/studies/sweep_choice.hpp"
@@ -22,15 +24,85 @@ using svg::escape;
 
 const char* kColors[] = {"#1f77b4", "#ff7f0e", "#2ca02c", "#9467bd", "#8c564b", "#e377c2"};
 
-std::string number(double v) { return std::isfinite(v) ? fmt::format("{:.4g}", v) : "&ndash;"; }
+std::string number(double v) { return report::format_number(v); }
 
 std::string values_table(const std::vector<SummaryValue>& values) {
   std::string s = "<table><tr><th>quantity</th><th>value</th><th>unit</th></tr>\n";
   for (const auto& v : values) {
-    s += fmt::format("<tr><td>{}</td><td class=\"num\">{}</td><td>{}</td></tr>\n", escape(v.label), number(v.display()),
-                     escape(v.shown_unit()));
+    const auto d = report::adapt_unit(v.shown_unit(), v.display());
+    s += fmt::format("<tr><td>{}</td><td class=\"num\">{}</td><td>{}</td></tr>\n", escape(v.label), number(d.factor * v.display()),
+                     escape(d.unit));
   }
   return s + "</table>\n";
+}
+
+// A named summary value with its own unit, adapted to its size: "0.0123 mmol/L", "350 W/m3".
+std::string value_text(const std::vector<SummaryValue>& values, const std::string& name) {
+  for (const auto& v : values) {
+    if (v.name == name) return report::format_quantity(v.value, v.unit);
+  }
+  return "\xE2\x80\x93";
+}
+
+// What each compared case runs at, so that 100 and 125 rpm read apart.
+std::string operating_rows(const std::vector<ComparedCase>& cases) {
+  struct Row {
+    const char* label;
+    const char* unit;
+    std::string (*get)(const Case&);
+  };
+  static const Row rows[] = {
+      {"speed", "rpm", [](const Case& c) { return number(60.0 * c.operation.speed_rps); }},
+      {"gas flow", "vvm", [](const Case& c) { return number(60.0 * c.operation.gas_flow_normal_m3_s / c.vessel.working_volume_m3); }},
+      {"gas flow", "Nm3/h", [](const Case& c) { return number(3600.0 * c.operation.gas_flow_normal_m3_s); }},
+      {"O2 in the inlet gas", "%", [](const Case& c) { return number(100.0 * c.operation.oxygen_fraction); }},
+      {"head pressure", "bar(a)", [](const Case& c) { return number(c.vessel.head_pressure_pa / 1e5); }},
+      {"working volume", "m3", [](const Case& c) { return number(c.vessel.working_volume_m3); }},
+      {"impellers (bottom up)", "",
+       [](const Case& c) {
+         std::string t;
+         for (const auto& i : c.impellers) t += (t.empty() ? "" : ", ") + to_string(i.type);
+         return escape(t);
+       }},
+      {"biomass", "g/L", [](const Case& c) { return number(c.culture.biomass_kg_m3); }},
+  };
+  std::string s = fmt::format("<tr><th colspan=\"{}\" style=\"text-align:left\">operating point</th></tr>\n", cases.size() + 2);
+  for (const auto& r : rows) {
+    s += fmt::format("<tr><td>{}</td><td>{}</td>", r.label, r.unit);
+    for (const auto& c : cases) s += "<td class=\"num\">" + r.get(*c.data) + "</td>";
+    s += "</tr>\n";
+  }
+  return s + fmt::format("<tr><th colspan=\"{}\" style=\"text-align:left\">results</th></tr>\n", cases.size() + 2);
+}
+
+// The first sentence of a comparison: how many meet their constraints, and which has most oxygen.
+std::string compare_verdict(const std::vector<ComparedCase>& cases) {
+  std::vector<std::string> ok;
+  for (const auto& c : cases) {
+    if (feasible(c.checks)) ok.push_back(c.name);
+  }
+  std::string headline;
+  if (ok.size() == cases.size()) {
+    headline = fmt::format("All {} configurations meet their constraints.", cases.size());
+  } else if (ok.empty()) {
+    headline = fmt::format("None of the {} configurations meets its constraints.", cases.size());
+  } else {
+    std::string names;
+    for (const auto& n : ok) names += (names.empty() ? "" : ", ") + n;
+    headline = fmt::format("{} of {} configurations meet their constraints: {}.", ok.size(), cases.size(), names);
+  }
+  std::string detail;
+  const ComparedCase* best = nullptr;
+  for (const auto& c : cases) {
+    const auto it = std::find_if(c.values.begin(), c.values.end(), [](const SummaryValue& v) { return v.name == "do_min"; });
+    if (it == c.values.end() || !std::isfinite(it->value)) continue;
+    if (best == nullptr || it->value > summary_value(best->values, "do_min")) best = &c;
+  }
+  if (best != nullptr) detail = fmt::format("Highest DO minimum: {} ({}). ", best->name, value_text(best->values, "do_min"));
+  for (const auto& c : cases) {
+    if (!feasible(c.checks)) detail += c.name + " breaks: " + broken_constraints(c.checks) + ". ";
+  }
+  return verdict_box_html(ok.size() == cases.size(), headline, detail);
 }
 
 std::string list(const std::vector<std::string>& items, const std::string& empty) {
@@ -61,18 +133,21 @@ void write_text_file(const std::string& path, const std::string& text) {
   finish_file(out, path);
 }
 
-std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s, const Verdict* verdict) {
-  std::string s = "<h2>" + escape(c.title) + "</h2>\n" + verdict_html(c, verdict ? *verdict : make_verdict(c, run)) +
+std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s, const Verdict* verdict,
+                            bool heading) {
+  std::string s = (heading ? "<h2>" + escape(c.title) + "</h2>\n" : std::string()) +
+                  verdict_html(c, verdict ? *verdict : make_verdict(c, run)) +
                   "<div class=\"row\"><div>\n<h3>Summary</h3>\n";
   s += values_table(summary_values(c, run, theta95_s));
   s += "</div><div>\n<h3>Cautions</h3>\n" + list(run.cautions, "None apply.");
-  s += "<h3>Notes</h3>\n" + list(run.notes, "None.") + "</div></div>\n";
-  s += limits_report_html(c, run, outlines(c));
-  if (!run.field) return s;
+  s += "<h3>Notes</h3>\n" + list(run.notes, "None.");
+  // Without a DO field (no gas) there is nothing to draw for oxygen.
+  if (!run.field) return s + "</div></div>\n" + limits_report_html(c, run, outlines(c));
   if (!run.single_zone) throw std::logic_error("the run report needs the single-zone field (run_case with single_zone)");
   const auto& f = *run.field;
   const auto p = height_profile(run.net, f.do_mol_m3);
   const double crit = c.culture.critical_do_mol_m3;
+  // Where the tank starves, beside the summary: on the first screen, under the verdict it explains.
   s += "<div class=\"row\">\n";
   s += svg::line_chart("Dissolved O2 by height", "DO [mmol/L]", "height [m]",
                        {{"min", p.min, p.z, "#d62728"}, {"mean", p.mean, p.z, "#1f77b4"}, {"max", p.max, p.z, "#2ca02c"},
@@ -80,6 +155,7 @@ std::string run_report_body(const Case& c, const CaseRun& run, std::optional<dou
                          "#7f7f7f", true}},
                        {{true, crit, "critical DO"}});
   s += svg::zone_map(run.net, f.do_mol_m3, "DO in the (r, z) section", "mmol/L", outlines(c), crit);
+  s += "</div></div></div>\n<div class=\"row\">\n";
   std::vector<bool> gassed(f.holdup.size());
   for (size_t k = 0; k < gassed.size(); ++k) gassed[k] = f.holdup[k] > 0.0;
   const auto ps = height_profile(run.net, f.cstar_mol_m3, gassed);
@@ -89,14 +165,15 @@ std::string run_report_body(const Case& c, const CaseRun& run, std::optional<dou
   s += svg::line_chart("C* by height", "C* [mmol/L]", "height [m]", {{"C* (gassed zones)", ps.mean, ps.z, "#9467bd"}});
   s += svg::line_chart("kLa by height", "kLa [1/h]", "height [m]", {{"kLa (level mean)", kla_h, pk.z, "#ff7f0e"}});
   s += "</div>\n";
-  return s;
+  return s + limits_report_html(c, run, outlines(c));
 }
 
 std::string compare_report_body(const std::vector<ComparedCase>& cases) {
-  std::string s = "<h2>Configurations side by side</h2>\n<table><tr><th>quantity</th><th>unit</th>";
+  std::string s = compare_verdict(cases) + "<h2>Configurations side by side</h2>\n<table><tr><th>quantity</th><th>unit</th>";
   for (const auto& c : cases) s += "<th>" + escape(c.name) + "</th>";
   s += "</tr>\n";
   if (!cases.empty()) {
+    s += operating_rows(cases);
     // Rows by name: a value that applies to some cases only (a cost without [prices]) shows a dash.
     std::vector<const SummaryValue*> rows;
     for (const auto& c : cases) {
@@ -107,11 +184,17 @@ std::string compare_report_body(const std::vector<ComparedCase>& cases) {
       }
     }
     for (const auto* r : rows) {
-      s += fmt::format("<tr><td>{}</td><td>{}</td>", escape(r->label), escape(r->shown_unit()));
+      // One unit per row, chosen by the row's largest value (in the row's display unit).
+      double largest = 0.0;
+      for (const auto& c : cases) {
+        for (const auto& v : c.values) largest = v.name == r->name && std::isfinite(v.value) ? std::max(largest, std::abs(v.display())) : largest;
+      }
+      const auto d = report::adapt_unit(r->shown_unit(), largest);
+      s += fmt::format("<tr><td>{}</td><td>{}</td>", escape(r->label), escape(d.unit));
       for (const auto& c : cases) {
         double x = std::nan("");
         for (const auto& v : c.values) x = v.name == r->name ? v.display() : x;
-        s += "<td class=\"num\">" + number(x) + "</td>";
+        s += "<td class=\"num\">" + number(d.factor * x) + "</td>";
       }
       s += "</tr>\n";
     }
@@ -174,19 +257,25 @@ std::string compare_report_body(const std::vector<ComparedCase>& cases) {
 
 std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResult>& results,
                               const std::vector<bool>& pareto, int chosen, const std::string& objective) {
-  std::string s = "<h2>Operating window</h2>\n";
   size_t feasible_count = 0;
   for (const auto& r : results) feasible_count += r.ok && r.feasible ? 1 : 0;
-  s += fmt::format("<p>{} points, {} feasible. ", results.size(), feasible_count);
+  std::string headline, detail = fmt::format("{} of {} points meet the constraints.", feasible_count, results.size());
   if (chosen >= 0) {
-    s += "Chosen (least " + escape(objective) + " among feasible points): ";
+    std::string at;
     for (size_t d = 0; d < plan.axes.size(); ++d) {
-      s += fmt::format("{} = {:.4g} {}; ", escape(plan.axes[d].key), plan.points[chosen][d], escape(plan.axes[d].unit));
+      at += fmt::format("{}{} = {} {}", d ? ", " : "", plan.axes[d].key, number(plan.points[chosen][d]), plan.axes[d].unit);
     }
+    std::string what = objective;
+    std::replace(what.begin(), what.end(), '_', ' ');
+    headline = "Run at " + at + ": the least " + what + " that meets the constraints.";
+    const auto& v = results[chosen].values;
+    detail += fmt::format(" There: DO min {}, gassed power {}.", value_text(v, "do_min"), value_text(v, "power_gassed"));
   } else {
-    s += "No feasible point.";
+    headline = "No point of the sweep meets the constraints.";
+    detail += " Widen the ranges, or see `oxystrat levers` for what else to move.";
   }
-  s += "</p>\n" + sweep_honesty_html(plan, results, chosen) + "<div class=\"row\">\n";
+  std::string s = verdict_box_html(chosen >= 0, headline, detail) + "<h2>Operating window</h2>\n";
+  s += sweep_honesty_html(plan, results, chosen) + "<div class=\"row\">\n";
   const std::vector<std::string> groups{"failed / infeasible", "feasible", "chosen"};
   const std::vector<std::string> colors{"#cccccc", "#2ca02c", "#d62728"};
   const auto group_of = [&](size_t i) { return static_cast<int>(i) == chosen ? 2 : (results[i].ok && results[i].feasible ? 1 : 0); };
@@ -239,7 +328,8 @@ std::string report_page(const std::string& title, const std::string& body, bool 
                   "</title>\n<style>body{font-family:sans-serif;margin:24px;max-width:1400px;color:#222}"
                   "table{border-collapse:collapse;margin:8px 0}td,th{border:1px solid #ccc;padding:3px 8px;font-size:13px}"
                   "td.num{text-align:right;font-variant-numeric:tabular-nums}tr.chosen{background:#fde0dd}"
-                  ".row{display:flex;flex-wrap:wrap;gap:16px;align-items:flex-start}svg{border:1px solid #eee}"
+                  ".row{display:flex;flex-wrap:wrap;gap:16px;align-items:flex-start}.row>div{flex:0 1 auto;min-width:280px}"
+                  ".row>div:last-child:not(:first-child){flex:1 1 320px}svg{border:1px solid #eee}"
                   "h2{border-bottom:2px solid #1f77b4}</style></head>\n<body>\n<h1>" +
                   escape(title) + "</h1>\n";
   s += body;

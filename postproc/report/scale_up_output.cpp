@@ -4,11 +4,14 @@
 #include <fmt/format.h>
 
 #include <algorithm>
-
+#include <cmath>
 #include <fstream>
+#include <iterator>
 
 #include "input/errors.hpp"
+#include "postproc/report/number_format.hpp"
 #include "postproc/report/svg_plot.hpp"
+#include "postproc/report/verdict_output.hpp"
 
 namespace oxystrat {
 namespace {
@@ -42,6 +45,46 @@ std::string broken(const ScaleMetrics& m) {
     if (!c.satisfied) s += (s.empty() ? "" : "; ") + c.detail;
   }
   return s;
+}
+
+// A bar label for a criterion: "equal P/V (gassed), equal superficial gas velocity" -> "P/V + vs".
+std::string short_criterion(const std::string& criterion) {
+  if (criterion.rfind("production case", 0) == 0) return "as written";
+  std::string s = criterion;
+  const auto erase = [&s](const std::string& what, const std::string& with = "") {
+    for (auto at = s.find(what); at != std::string::npos; at = s.find(what)) s.replace(at, what.size(), with);
+  };
+  erase(", equal vvm");
+  erase(", equal superficial gas velocity", " + vs");
+  erase("equal ");
+  for (auto open = s.find(" ("); open != std::string::npos; open = s.find(" (")) s.erase(open, s.find(')', open) - open + 1);
+  return s;
+}
+
+// First in the report: which criteria give a production point that meets its constraints.
+std::string scale_up_verdict_html(const ScaleUpStudy& s) {
+  std::vector<std::string> ok;
+  size_t criteria = 0;
+  for (const auto& r : s.rows) {
+    if (r.criterion == "production case as written") continue;
+    ++criteria;
+    if (r.reached && r.production.effects.feasible) ok.push_back(r.criterion);
+  }
+  std::string as_written;
+  for (const auto& r : s.rows) {
+    if (r.criterion == "production case as written") {
+      as_written = r.production.effects.feasible ? "The production case as written meets its constraints. "
+                                                 : "The production case as written does not meet its constraints. ";
+    }
+  }
+  if (ok.empty()) {
+    return verdict_box_html(false, fmt::format("None of the {} scale-up criteria gives a production point that meets its constraints.", criteria),
+                            as_written + "The table shows what each criterion breaks; `oxystrat levers` on the production case shows what else could move.");
+  }
+  std::string list;
+  for (const auto& n : ok) list += (list.empty() ? "" : "; ") + n;
+  return verdict_box_html(true, fmt::format("{} of {} scale-up criteria give a production point that meets its constraints.", ok.size(), criteria),
+                          as_written + "Meeting them: " + list + ".");
 }
 
 }  // namespace
@@ -125,15 +168,24 @@ void write_scale_up_h5(H5Writer& h5, const ScaleUpStudy& s) {
 
 std::string scale_up_report_body(const Case& pilot, const Case& production, const ScaleUpStudy& s) {
   using svg::escape;
-  std::string b = "<h2>Scale-up: " + escape(pilot.title) + " &rarr; " + escape(production.title) + "</h2>\n";
+  std::string b = scale_up_verdict_html(s) + "<h2>" + escape(pilot.title) + " &rarr; " + escape(production.title) + "</h2>\n";
   b += "<p>Each row keeps one quantity of the pilot's operating point and finds the production speed (and gas flow) "
        "that does so; every row is then run through the zone model of the production vessel and checked against its "
        "constraints.</p>\n<table><tr><th>criterion</th>";
-  for (const auto& c : kColumns) b += fmt::format("<th>{} [{}]</th>", escape(c.head), escape(c.unit));
+  // Each column in one unit sized for its largest value (P/V of a cell culture in W/m3).
+  std::vector<report::DisplayUnit> units;
+  for (const auto& c : kColumns) {
+    double largest = std::abs(c.get(s.pilot));
+    for (const auto& r : s.rows) largest = std::max(largest, std::abs(c.get(r.production)));
+    units.push_back(report::adapt_unit(c.unit, largest));
+    b += fmt::format("<th>{} [{}]</th>", escape(c.head), escape(units.back().unit));
+  }
   b += "<th>result</th></tr>\n";
   const auto line = [&](const std::string& name, const ScaleMetrics& m, const std::string& result, const std::string& note) {
     std::string l = "<tr><td>" + escape(name) + "</td>";
-    for (const auto& c : kColumns) l += fmt::format("<td class=\"num\">{:.4g}</td>", c.get(m));
+    for (size_t i = 0; i < std::size(kColumns); ++i) {
+      l += "<td class=\"num\">" + report::format_number(units[i].factor * kColumns[i].get(m)) + "</td>";
+    }
     return l + "<td>" + escape(result) + (note.empty() ? "" : ": " + escape(note)) + "</td></tr>\n";
   };
   b += line("pilot", s.pilot, "", "");
@@ -142,13 +194,15 @@ std::string scale_up_report_body(const Case& pilot, const Case& production, cons
   for (const auto& r : s.rows) {
     b += line(r.criterion, r.production, r.reached ? verdict(r.production) : "not reached",
               r.reached ? broken(r.production) : r.note);
-    cats.push_back(r.criterion.substr(0, r.criterion.find(',')));
+    cats.push_back(short_criterion(r.criterion));
     dmin.push_back(r.production.do_min_mol_m3);
-    pv.push_back(r.production.power_per_volume_w_m3 / 1e3);
+    pv.push_back(r.production.power_per_volume_w_m3);
   }
+  const auto pv_unit = units[2];  // the P/V column
+  for (auto& x : pv) x *= pv_unit.factor / 1e3;  // kColumns' P/V is in kW/m3
   b += "</table>\n<div class=\"row\">";
   b += svg::bar_chart("DO min at scale, by criterion", "DO min [mmol/L]", cats, {"DO min"}, {dmin}, 640, 320);
-  b += svg::bar_chart("Gassed P/V at scale, by criterion", "P/V [kW/m3]", cats, {"P/V"}, {pv}, 640, 320);
+  b += svg::bar_chart("Gassed P/V at scale, by criterion", "P/V [" + pv_unit.unit + "]", cats, {"P/V"}, {pv}, 640, 320);
   b += "</div>\n";
   return b;
 }

@@ -13,7 +13,9 @@
 #include "postproc/io/h5_writer.hpp"
 #include "postproc/io/network_output.hpp"
 #include "physics/solubility.hpp"
+#include "postproc/report/number_format.hpp"
 #include "postproc/report/report.hpp"
+#include "postproc/report/verdict_output.hpp"
 #include "postproc/report/svg_plot.hpp"
 #include "postproc/io/vtk_writer.hpp"
 #include "input/errors.hpp"
@@ -105,6 +107,34 @@ void write_csv(const std::string& path, const std::vector<std::string>& headers,
     out << "\n";
   }
   finish_file(out, path);
+}
+
+// The first lines of the report: did the broth starve, for how long, and where the run ended.
+std::string transient_verdict_html(const Case& c, const TransientResult& r) {
+  if (r.trace.empty()) return {};
+  const double air = c.do_percent.reference_mol_m3, crit = c.culture.critical_do_mol_m3;
+  double worst = 0.0, starving_s = 0.0;
+  for (size_t i = 0; i < r.trace.size(); ++i) {
+    worst = std::max(worst, r.trace[i].volume_below_critical);
+    if (i > 0 && r.trace[i].do_min < crit) starving_s += r.trace[i].time_s - r.trace[i - 1].time_s;
+  }
+  const double duration = r.trace.back().time_s - r.trace.front().time_s;
+  const auto minutes = [](double t) { return report::format_number(t / 60.0, 3, 1) + " min"; };
+  std::string headline;
+  if (worst <= 0.0) {
+    headline = fmt::format("DO stayed above the critical DO everywhere for the whole {}.", minutes(duration));
+  } else {
+    const std::string when = starving_s >= 0.999 * duration ? "throughout the " + minutes(duration)
+                                                             : "during " + minutes(starving_s) + " of the " + minutes(duration);
+    headline = fmt::format("Part of the broth starves: up to {} % of the volume was below the critical DO, {}.",
+                           report::format_number(100.0 * worst, 3, 1), when);
+  }
+  const auto& last = r.trace.back();
+  std::string detail = fmt::format("At the end: probe DO {} % of air saturation", report::format_number(100.0 * last.probe_do / air, 3, 1));
+  if (c.control.enabled) detail += fmt::format(" (set-point {} %)", report::format_number(100.0 * c.control.setpoint_mol_m3 / air, 3, 1));
+  detail += fmt::format("; speed {} rpm, gas {} Nm3/h, O2 in the inlet gas {} %.", report::format_number(60.0 * last.speed_rps),
+                        report::format_number(3600.0 * last.gas_normal_m3_s), report::format_number(100.0 * last.oxygen_fraction, 3, 1));
+  return verdict_box_html(worst <= 0.0, headline, detail);
 }
 
 }  // namespace
@@ -238,9 +268,15 @@ void write_transient_outputs(RunFolder& folder, const LoadedCase& loaded, const 
   // Report.
   const Case& c = loaded.data;
   const double air = c.do_percent.reference_mol_m3;
-  std::vector<double> t_h = series(r, cols[0].get, 1.0 / 3600.0);
+  // Time in the unit that suits the run's length: a 10-minute run on an hour axis is mostly blank.
+  const double duration_s = r.trace.empty() ? 0.0 : r.trace.back().time_s - r.trace.front().time_s;
+  const auto [t_unit, t_per_s] = duration_s <= 180.0    ? std::pair<std::string, double>{"s", 1.0}
+                                 : duration_s <= 7200.0 ? std::pair<std::string, double>{"min", 1.0 / 60.0}
+                                                        : std::pair<std::string, double>{"h", 1.0 / 3600.0};
+  const std::string t_label = "time [" + t_unit + "]";
+  std::vector<double> t_h = series(r, cols[0].get, t_per_s);
   const auto pct = [&](int col) { return series(r, cols[col].get, 100.0 / air); };
-  std::string body = "<h2>Transient</h2>\n";
+  std::string body = transient_verdict_html(c, r) + "<h2>Transient</h2>\n";
   if (!cautions.empty()) {
     body += "<h3>Cautions</h3>\n<ul>\n";
     for (const auto& w : cautions) body += "<li>" + svg::escape(w) + "</li>\n";
@@ -249,13 +285,13 @@ void write_transient_outputs(RunFolder& folder, const LoadedCase& loaded, const 
   body += "<div class=\"row\">\n";
   std::vector<svg::Marker> crit{{false, 100.0 * c.culture.critical_do_mol_m3 / air, "critical DO"}};
   if (c.control.enabled) crit.push_back({false, 100.0 * c.control.setpoint_mol_m3 / air, "set-point"});
-  body += svg::line_chart("DO at the probe and over the vessel", "time [h]", "DO [% air saturation]",
+  body += svg::line_chart("DO at the probe and over the vessel", t_label, "DO [% air saturation]",
                           {{"probe", t_h, pct(2), "#1f77b4"},
                            {"minimum over zones", t_h, pct(3), "#d62728"},
                            {"volume mean", t_h, pct(4), "#7f7f7f", true}},
-                          crit, 620, 320);
-  body += svg::line_chart("Volume below critical DO", "time [h]", "share of the volume [%]",
-                          {{"below critical", t_h, series(r, cols[6].get, 100.0), "#d62728"}}, {}, 620, 320);
+                          crit, 600, 320);
+  body += svg::line_chart("Volume below critical DO", t_label, "share of the volume [%]",
+                          {{"below critical", t_h, series(r, cols[6].get, 100.0), "#d62728"}}, {}, 600, 320);
   // Each actuator as a share of its control range, so the three stages read on one axis.
   const auto& k = c.control;
   const double gas_lo = k.gas_min_m3_s >= 0.0 ? k.gas_min_m3_s : c.operation.gas_flow_normal_m3_s;
@@ -267,39 +303,40 @@ void write_transient_outputs(RunFolder& folder, const LoadedCase& loaded, const 
     return v;
   };
   if (k.enabled) {
-    body += svg::line_chart("DO controller: each stage in % of its range", "time [h]", "share of the range [%]",
+    body += svg::line_chart("DO controller: each stage in % of its range", t_label, "share of the range [%]",
+                            // Distinct dashes: stages at rest lie on top of each other at 0 %.
                             {{fmt::format("speed {:.0f}-{:.0f} rpm", 60 * k.speed_min_rps, 60 * k.speed_max_rps), t_h,
-                              share(7, k.speed_min_rps, k.speed_max_rps), "#2ca02c"},
+                              share(7, k.speed_min_rps, k.speed_max_rps), "#2ca02c", false, false, "", 3.0},
                              {fmt::format("gas {:.0f}-{:.0f} Nm3/h", 3600 * gas_lo, 3600 * gas_hi), t_h,
-                              share(8, gas_lo, gas_hi), "#ff7f0e"},
+                              share(8, gas_lo, gas_hi), "#ff7f0e", false, false, "7,4", 2.0},
                              {fmt::format("O2 {:.1f}-{:.1f} %", 100 * c.operation.oxygen_fraction, 100 * o2_hi), t_h,
-                              share(9, c.operation.oxygen_fraction, o2_hi), "#9467bd"}},
-                            {}, 620, 320);
+                              share(9, c.operation.oxygen_fraction, o2_hi), "#9467bd", false, false, "2,3", 2.0}},
+                            {}, 600, 320, 0.0, 100.0);
   }
-  body += svg::line_chart("Agitator speed", "time [h]", "speed [rpm]",
-                          {{"speed", t_h, series(r, cols[7].get, 60.0), "#2ca02c"}}, {}, 620, 320);
-  body += svg::line_chart("O2 transfer and uptake", "time [h]", "rate [mol/s]",
+  body += svg::line_chart("Agitator speed", t_label, "speed [rpm]",
+                          {{"speed", t_h, series(r, cols[7].get, 60.0), "#2ca02c"}}, {}, 600, 320);
+  body += svg::line_chart("O2 transfer and uptake", t_label, "rate [mol/s]",
                           {{"OTR", t_h, series(r, cols[11].get), "#1f77b4"},
                            {"OUR", t_h, series(r, cols[12].get), "#d62728", true}},
-                          {}, 620, 320);
+                          {}, 600, 320);
   {
     std::vector<svg::Marker> available;
     if (const auto cooling = cooling_available_w(c)) available.push_back({false, *cooling / 1e3, "cooling available"});
-    body += svg::line_chart("Heat load (cooling duty required)", "time [h]", "heat load [kW]",
-                            {{"heat load", t_h, series(r, cols[22].get, 1e-3), "#8c564b"}}, available, 620, 320);
+    body += svg::line_chart("Heat load (cooling duty required)", t_label, "heat load [kW]",
+                            {{"heat load", t_h, series(r, cols[22].get, 1e-3), "#8c564b"}}, available, 600, 320);
   }
   if (r.grows) {
-    body += svg::line_chart("Substrate over the zones", "time [h]", "substrate [g/L]",
+    body += svg::line_chart("Substrate over the zones", t_label, "substrate [g/L]",
                             {{"maximum (near the feed)", t_h, series(r, cols[17].get), "#d62728"},
                              {"volume mean", t_h, series(r, cols[16].get), "#7f7f7f", true},
                              {"minimum", t_h, series(r, cols[15].get), "#1f77b4"}},
-                            {}, 620, 320);
-    body += svg::line_chart("Biomass (volume mean)", "time [h]", "biomass [g/L]",
-                            {{"biomass", t_h, series(r, cols[18].get), "#2ca02c"}}, {}, 620, 320);
-    body += svg::line_chart("Growth rate (volume mean)", "time [h]", "growth rate [1/h]",
-                            {{"mu", t_h, series(r, cols[19].get, 3600.0), "#8c564b"}}, {}, 620, 320);
-    body += svg::line_chart("Feed", "time [h]", "pump rate [L/h]",
-                            {{"feed", t_h, series(r, cols[20].get, 3.6e6), "#ff7f0e"}}, {}, 620, 320);
+                            {}, 600, 320);
+    body += svg::line_chart("Biomass (volume mean)", t_label, "biomass [g/L]",
+                            {{"biomass", t_h, series(r, cols[18].get), "#2ca02c"}}, {}, 600, 320);
+    body += svg::line_chart("Growth rate (volume mean)", t_label, "growth rate [1/h]",
+                            {{"mu", t_h, series(r, cols[19].get, 3600.0), "#8c564b"}}, {}, 600, 320);
+    body += svg::line_chart("Feed", t_label, "pump rate [L/h]",
+                            {{"feed", t_h, series(r, cols[20].get, 3.6e6), "#ff7f0e"}}, {}, 600, 320);
   }
   body += "</div>\n";
   if (!r.frames.empty()) {

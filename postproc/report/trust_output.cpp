@@ -7,6 +7,7 @@
 #include <fstream>
 #include <stdexcept>
 
+#include "postproc/report/number_format.hpp"
 #include "postproc/report/svg_plot.hpp"
 #include "input/display_units.hpp"
 #include "input/errors.hpp"
@@ -14,7 +15,7 @@
 namespace oxystrat {
 namespace {
 
-std::string num(double v) { return std::isfinite(v) ? fmt::format("{:.4g}", v) : "-"; }
+std::string num(double v) { return report::format_number(v); }
 
 // The samples are SI; tables for people show them in the output's display unit.
 double shown(const UncertaintyOutput& o, double si) { return si * units::display_per_si(o.unit, o.display_unit); }
@@ -105,8 +106,10 @@ std::string uncertainty_html(const UncertaintyResult& u, double critical) {
   std::vector<double> p10, p50, p90;
   for (const auto& q : u.profile_do) p10.push_back(q.p10), p50.push_back(q.p50), p90.push_back(q.p90);
   s += svg::line_chart("Mean DO by height: uncertainty band", "DO [mmol/L]", "height [m]",
-                       {{"P10", p10, u.profile_z, "#1f77b4", true}, {"P50", p50, u.profile_z, "#1f77b4"},
-                        {"P90", p90, u.profile_z, "#1f77b4", true}},
+                       // Three styles a reader tells apart in the legend and in grey print.
+                       {{"P10", p10, u.profile_z, "#6baed6", false, false, "6,3", 1.6},
+                        {"P50 (median)", p50, u.profile_z, "#08306b", false, false, "", 2.6},
+                        {"P90", p90, u.profile_z, "#6baed6", false, false, "1.5,2.5", 2.0}},
                        {{true, critical, "critical DO"}});
   s += "</div>\n<h3>Constants and widths</h3>\n<table><tr><th>constant</th><th>distribution</th><th>width</th><th>source of the width</th></tr>\n";
   for (const auto& k : u.constants) {

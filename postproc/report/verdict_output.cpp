@@ -61,11 +61,16 @@ std::string verdict_text(const Case& c, const Verdict& v) {
   return s;
 }
 
+std::string verdict_box_html(bool ok, const std::string& headline, const std::string& detail) {
+  return fmt::format("<div class=\"verdict\" style=\"border-left:6px solid {};padding:4px 12px;margin:8px 0;background:#f7f7f7\">"
+                     "<p style=\"font-size:17px;margin:6px 0\"><b>{}</b></p>{}</div>\n",
+                     ok ? "#2ca02c" : "#d62728", svg::escape(headline),
+                     detail.empty() ? "" : "<p>" + svg::escape(detail) + "</p>");
+}
+
 std::string verdict_html(const Case& c, const Verdict& v) {
   using svg::escape;
-  std::string s = fmt::format("<div style=\"border-left:6px solid {};padding:4px 12px;margin:8px 0;background:#f7f7f7\">"
-                              "<p style=\"font-size:17px;margin:6px 0\"><b>{}</b></p><p>{}</p></div>\n",
-                              v.meets ? "#2ca02c" : "#d62728", escape(v.headline), escape(v.advice));
+  std::string s = verdict_box_html(v.meets, v.headline, v.advice);
   s += "<h3>Operating point</h3>\n<pre>" + escape(operating_point_text(c)) + "</pre>\n";
   s += "<h3>Constraints</h3>\n<table><tr><th>constraint</th><th>status</th><th>detail</th></tr>\n";
   for (const auto& k : v.checks) {

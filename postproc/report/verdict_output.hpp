@@ -22,4 +22,8 @@ std::string verdict_html(const Case& c, const Verdict& v);
 //! constraint check.
 void write_verdict_h5(H5Writer& h5, const Verdict& v);
 
+//! The box every report opens with: one bold sentence (green edge when `ok`, red when not) and a
+//! second paragraph with what follows from it. Plain text in, escaped here.
+std::string verdict_box_html(bool ok, const std::string& headline, const std::string& detail);
+
 }  // namespace oxystrat
