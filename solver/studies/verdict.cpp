@@ -57,15 +57,16 @@ std::string lever_advice(const LeversStudy& s) {
   std::string fixes;
   for (const auto& r : s.levers) {
     if (!r.found || r.already) continue;
-    const double pg = s.base.power_gassed_w > 0.0 ? 100.0 * (r.effects.power_gassed_w / s.base.power_gassed_w - 1.0) : 0.0;
+    // Drawn power (agitator + compressor): more gas costs compressor power, not shaft power.
+    const double drawn = s.base.total_power_w > 0.0 ? 100.0 * (r.effects.total_power_w / s.base.total_power_w - 1.0) : 0.0;
     const std::string value = r.unit.empty() ? "the impellers of " + r.key : fmt::format("{} {:.4g} {}", r.name, r.value, r.unit);
-    fixes += fmt::format("{}{} (gassed power {:+.0f} %)", fixes.empty() ? "" : "; or ", value, pg);
+    fixes += fmt::format("{}{} (drawn power {:+.0f} %)", fixes.empty() ? "" : "; or ", value, drawn);
   }
   if (fixes.empty()) {
     return "No single lever fixes it within its limits (speed, gas flow, back pressure, O2 enrichment): combine them, or "
            "change the impellers or the culture; `oxystrat levers` and `oxystrat sweep` show the options.";
   }
-  return "Each of these alone fixes it: " + fixes + ". `oxystrat levers` tabulates what each costs.";
+  return "Each of these alone fixes it: " + fixes + ". `oxystrat levers` tabulates their side effects.";
 }
 
 Verdict make_verdict(const Case& c, const CaseRun& run) {
