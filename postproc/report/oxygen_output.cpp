@@ -209,6 +209,18 @@ std::string oxygen_summary(const Case& c, const CaseRun& run) {
     s += fmt::format("  below critical {:5.1f} % of the volume (critical DO {:.4f} mmol/L)   {}\n",
                      100 * f.volume_fraction_below_critical, c.culture.critical_do_mol_m3,
                      one.do_min < c.culture.critical_do_mol_m3 ? "below" : "above");
+    if (run.hydro.stagnant_volume_fraction > 0.0) {
+      // Broth outside every cavern: no flow, no dissipation, O2 by diffusion only.
+      double v = 0.0, sum = 0.0, lo = 1e300;
+      for (int z = 0; z < run.net.size(); ++z) {
+        if (run.hydro.epsilon[z] > 0.0) continue;
+        v += run.net.volume[z], sum += f.do_mol_m3[z] * run.net.volume[z], lo = std::min(lo, f.do_mol_m3[z]);
+      }
+      if (v > 0.0) {
+        s += fmt::format("  stagnant broth {:5.1f} % of the volume outside the caverns: DO mean {:.4f}, min {:.4f} mmol/L\n",
+                         100.0 * run.hydro.stagnant_volume_fraction, sum / v, lo);
+      }
+    }
     const auto p = height_profile(run.net, f.do_mol_m3);
     s += "  DO by height   ";
     const size_t step = std::max<size_t>(1, p.z.size() / 6);

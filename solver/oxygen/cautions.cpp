@@ -60,8 +60,12 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
     }
   }
   if (field != nullptr) {
+    // Over the moving broth: stagnant broth outside the caverns is at the zero-shear limit, and
+    // its kLa hardly matters (it is fed by diffusion, said in the cavern caution).
     double mu_max = 0.0;
-    for (double mu : h.apparent_viscosity) mu_max = std::max(mu_max, mu);
+    for (size_t k = 0; k < h.apparent_viscosity.size(); ++k) {
+      if (h.epsilon[k] > 0.0) mu_max = std::max(mu_max, h.apparent_viscosity[k]);
+    }
     if (mu_max > water_like_viscosity_pa_s && c.model.kla_model == KlaModel::local_correlation) {
       out.push_back(fmt::format("model range: the broth's apparent viscosity reaches {:.3g} Pa s; kLa is the water-based "
                                 "correlation times (5 mPa s / mu_a)^0.4 (Yagi & Yoshida 1975), whose data reach a few "

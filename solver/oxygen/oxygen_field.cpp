@@ -180,7 +180,6 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   const Case& c = ctx.c;
   const auto& net = ctx.net;
   const int n = net.size();
-  const double t = c.vessel.temperature_k;
   OxygenSetup setup(ctx, biomass_kg_m3);
   const auto& coeff = setup.coeff;
   const auto& uptake = setup.uptake;

@@ -22,12 +22,28 @@ struct LeverSpec {
   double si_per_unit = 1.0;    // SI value = value in `unit` x this
 };
 
+LeverSpec spec(std::string name, std::string key, std::string unit, double current, double limit, std::string reason) {
+  LeverSpec s;
+  s.name = std::move(name), s.key = std::move(key), s.unit = std::move(unit);
+  s.current = current, s.limit = limit, s.reason = std::move(reason);
+  return s;
+}
+
+// The lever as the case has it, before it is moved.
+LeverResult result_of(const LeverSpec& s) {
+  LeverResult r;
+  r.name = s.name, r.key = s.key, r.unit = s.unit, r.current = s.current, r.limit = s.limit, r.limit_reason = s.reason;
+  r.si_unit = s.si_unit, r.si_per_unit = s.si_per_unit;
+  return r;
+}
+
 // The SI unit and factor of each lever unit: files hold SI (docs/outputs.md).
 void set_si(LeverSpec& s, const Case& c) {
-  if (s.unit == "rpm") s.si_unit = "1/s", s.si_per_unit = 1.0 / 60.0;
-  if (s.unit == "vvm") s.si_unit = "m3/s", s.si_per_unit = c.vessel.working_volume_m3 / 60.0;  // normal m3/s
-  if (s.unit == "bar(a)") s.si_unit = "Pa", s.si_per_unit = 1e5;
-  if (s.unit == "%") s.si_unit = "1", s.si_per_unit = 0.01;
+  // Move-assigned strings: GCC 12 warns falsely (-Wrestrict) on assigning literals here.
+  if (s.unit == "rpm") s.si_unit = std::string("1/s"), s.si_per_unit = 1.0 / 60.0;
+  if (s.unit == "vvm") s.si_unit = std::string("m3/s"), s.si_per_unit = c.vessel.working_volume_m3 / 60.0;  // normal m3/s
+  if (s.unit == "bar(a)") s.si_unit = std::string("Pa"), s.si_per_unit = 1e5;
+  if (s.unit == "%") s.si_unit = std::string("1"), s.si_per_unit = 0.01;
 }
 
 std::vector<LeverSpec> lever_specs(const Case& c) {
@@ -36,25 +52,25 @@ std::vector<LeverSpec> lever_specs(const Case& c) {
   double d_max = 0.0;
   for (const auto& i : c.impellers) d_max = std::max(d_max, i.diameter_m);
   if (c.constraints.max_tip_speed_m_s) {
-    out.push_back({"speed", "operation.speed", "rpm", rpm, *c.constraints.max_tip_speed_m_s / (M_PI * d_max) * 60.0,
-                   "the tip-speed limit of [constraints]"});
+    out.push_back(spec("speed", "operation.speed", "rpm", rpm, *c.constraints.max_tip_speed_m_s / (M_PI * d_max) * 60.0,
+                   "the tip-speed limit of [constraints]"));
   } else {
-    out.push_back({"speed", "operation.speed", "rpm", rpm, 2.0 * rpm, "twice the case's speed (no tip-speed limit given)"});
+    out.push_back(spec("speed", "operation.speed", "rpm", rpm, 2.0 * rpm, "twice the case's speed (no tip-speed limit given)"));
   }
   const double vvm = c.operation.gas_flow_normal_m3_s * 60.0 / c.vessel.working_volume_m3;
-  out.push_back({"gas flow", "operation.gas_flow", "vvm", vvm, std::max(vvm, 1.5),
-                 "1.5 vvm, the top of full-scale practice (Benz 2003)"});
+  out.push_back(spec("gas flow", "operation.gas_flow", "vvm", vvm, std::max(vvm, 1.5),
+                 "1.5 vvm, the top of full-scale practice (Benz 2003)"));
   const double bar = 1e5;
   const double head = c.vessel.head_pressure_pa / bar;
   if (c.vessel.pressure_rating_pa > 0.0) {
-    out.push_back({"head pressure", "vessel.head_pressure", "bar(a)", head, std::max(head, 0.9 * c.vessel.pressure_rating_pa / bar),
-                   "90 % of the vessel's pressure rating"});
+    out.push_back(spec("head pressure", "vessel.head_pressure", "bar(a)", head, std::max(head, 0.9 * c.vessel.pressure_rating_pa / bar),
+                   "90 % of the vessel's pressure rating"));
   } else {
-    out.push_back({"head pressure", "vessel.head_pressure", "bar(a)", head, std::max(head, 2.0),
-                   "2 bar(a) (no pressure rating given: check the vessel's certificate)"});
+    out.push_back(spec("head pressure", "vessel.head_pressure", "bar(a)", head, std::max(head, 2.0),
+                   "2 bar(a) (no pressure rating given: check the vessel's certificate)"));
   }
-  out.push_back({"O2 fraction", "operation.oxygen_fraction", "%", 100.0 * c.operation.oxygen_fraction, 100.0,
-                 "pure O2 (oxygen service of every wetted part required)"});
+  out.push_back(spec("O2 fraction", "operation.oxygen_fraction", "%", 100.0 * c.operation.oxygen_fraction, 100.0,
+                 "pure O2 (oxygen service of every wetted part required)"));
   for (auto& s : out) set_si(s, c);
   return out;
 }
@@ -84,9 +100,7 @@ Evaluation evaluate(const LoadedCase& base, const std::vector<Override>& overrid
 // then bisection between the last failing and the first passing value.
 LeverResult move_lever(const LoadedCase& base, const std::vector<Override>& overrides, const LeverSpec& s,
                        const LeverOptions& o) {
-  LeverResult r;
-  r.name = s.name, r.key = s.key, r.unit = s.unit, r.current = s.current, r.limit = s.limit, r.limit_reason = s.reason;
-  r.si_unit = s.si_unit, r.si_per_unit = s.si_per_unit;
+  LeverResult r = result_of(s);
   if (!(s.limit > s.current)) {
     r.value = s.current;
     r.note = fmt::format("no room: the case is already at the limit ({})", s.reason);
@@ -134,7 +148,8 @@ LeverResult move_lever(const LoadedCase& base, const std::vector<Override>& over
 }
 
 LeverResult swap_impellers(const LoadedCase& base, const std::vector<Override>& overrides, const std::string& other) {
-  LeverResult r{"impellers", other, "", 0.0, 0.0, "the impellers of " + other};
+  LeverResult r;
+  r.name = "impellers", r.key = other, r.limit_reason = "the impellers of " + other;
   try {
     const auto o = read_case_file(other);
     auto c = read_case_text(base.source_text, base.file_name, overrides).data;
@@ -198,8 +213,7 @@ LeversStudy study_levers(const LoadedCase& loaded, const std::vector<Override>& 
   for (int i = 0; i < count; ++i) {
     if (i < static_cast<int>(specs.size())) {
       if (s.base.feasible) {
-        LeverResult r{specs[i].name, specs[i].key, specs[i].unit, specs[i].current, specs[i].limit, specs[i].reason};
-        r.si_unit = specs[i].si_unit, r.si_per_unit = specs[i].si_per_unit;
+        LeverResult r = result_of(specs[i]);
         r.already = r.found = true;
         r.value = specs[i].current;
         r.effects = s.base;
