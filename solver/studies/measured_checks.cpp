@@ -21,18 +21,9 @@ namespace {
 
 ValidationCheck row(std::string group, std::string quantity, std::string conditions, std::string source,
                     std::string unit, double measured, double band, std::string why, std::function<double()> model) {
-  ValidationCheck c;
-  c.kind = CheckKind::validation;
-  c.group = std::move(group);
-  c.quantity = std::move(quantity);
+  auto c = make_check(CheckKind::validation, std::move(group), std::move(quantity), std::move(source), std::move(unit),
+                      measured, band, true, std::move(why), std::move(model));
   c.conditions = std::move(conditions);
-  c.source = std::move(source);
-  c.unit = std::move(unit);
-  c.reference = measured;
-  c.tolerance = band;
-  c.relative = true;
-  c.why = std::move(why);
-  c.model = std::move(model);
   return c;
 }
 

@@ -53,6 +53,27 @@ std::vector<ValidationStatistics> validation_statistics(const std::vector<Valida
   return stats;
 }
 
+namespace detail {
+
+ValidationCheck make_check(CheckKind kind, std::string group, std::string quantity, std::string source,
+                           std::string unit, double reference, double tolerance, bool relative, std::string why,
+                           std::function<double()> model) {
+  ValidationCheck c;
+  c.kind = kind;
+  c.group = std::move(group);
+  c.quantity = std::move(quantity);
+  c.source = std::move(source);
+  c.unit = std::move(unit);
+  c.reference = reference;
+  c.tolerance = tolerance;
+  c.relative = relative;
+  c.why = std::move(why);
+  c.model = std::move(model);
+  return c;
+}
+
+}  // namespace detail
+
 const char* kind_name(CheckKind k) {
   switch (k) {
     case CheckKind::verification: return "verification";

@@ -63,6 +63,9 @@ std::vector<ValidationStatistics> validation_statistics(const std::vector<Valida
 const char* kind_name(CheckKind k);
 
 namespace detail {
+ValidationCheck make_check(CheckKind kind, std::string group, std::string quantity, std::string source,
+                           std::string unit, double reference, double tolerance, bool relative, std::string why,
+                           std::function<double()> model);
 std::vector<ValidationCheck> verification_checks();
 std::vector<ValidationCheck> measured_checks();
 }  // namespace detail

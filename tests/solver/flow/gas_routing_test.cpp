@@ -10,6 +10,7 @@
 #include "case_fixtures.hpp"
 #include "input/case_reader.hpp"
 #include "solver/flow/gas_routing.hpp"
+#include "solver/studies/reference_cases.hpp"
 #include "solver/oxygen/oxygen_field.hpp"
 
 namespace oxystrat {
@@ -17,32 +18,8 @@ namespace {
 
 using testing::Chain;
 
-Case single_rushton(double speed_rpm, double vvm) {
-  return read_case_text(fmt::format(R"toml(
-[vessel]
-diameter = "1.0 m"
-liquid_height = "1.0 m"
-bottom = "flat"
-temperature = "20 degC"
-[[impeller]]
-type = "rushton"
-diameter = "0.333 m"
-elevation = "0.333 m"
-[sparger]
-type = "ring"
-elevation = "0.15 m"
-diameter = "0.25 m"
-[operation]
-speed = "{} rpm"
-gas_flow = "{} vvm"
-[grid]
-radial = 10
-axial = 30
-)toml",
-                                    speed_rpm, vvm),
-                        "single-rushton")
-      .data;
-}
+// One Rushton at H = T = 1 m in air-water (the validation's holdup vessel).
+Case single_rushton(double speed_rpm, double vvm) { return reference_gassed_single_rushton(speed_rpm, vvm); }
 
 TEST(GasRouting, EverythingSpargedLeavesThroughTheSurface) {
   // Inert gas: sparged = off-gas exactly (the transport's column sums vanish but at the surface),

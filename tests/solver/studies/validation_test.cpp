@@ -35,7 +35,9 @@ TEST(ValidationList, EveryCheckNamesItsSourceAndBand) {
     EXPECT_FALSE(c.source.empty()) << c.quantity;
     EXPECT_FALSE(c.why.empty()) << c.quantity;
     EXPECT_GT(c.tolerance, 0.0) << c.quantity;
-    if (c.kind == CheckKind::validation) EXPECT_FALSE(c.conditions.empty()) << c.quantity;
+    if (c.kind == CheckKind::validation) {
+      EXPECT_FALSE(c.conditions.empty()) << c.quantity;
+    }
   }
 }
 
