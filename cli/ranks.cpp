@@ -9,7 +9,22 @@
 namespace oxystrat::cli {
 namespace {
 bool started = false;
+
+#ifdef OXYSTRAT_WITH_MPI
+// The lines of a '\n'-terminated buffer gathered from every rank.
+std::vector<std::string> split_lines(const std::string& all) {
+  std::vector<std::string> lines;
+  size_t start = 0;
+  for (size_t i = 0; i < all.size(); ++i) {
+    if (all[i] == '\n') {
+      lines.push_back(all.substr(start, i - start));
+      start = i + 1;
+    }
+  }
+  return lines;
 }
+#endif
+}  // namespace
 
 void start_ranks([[maybe_unused]] int* argc, [[maybe_unused]] char*** argv) {
 #ifdef OXYSTRAT_WITH_MPI
@@ -61,17 +76,7 @@ std::vector<std::string> gather_lines(const std::vector<std::string>& mine) {
     all.resize(static_cast<size_t>(offsets.back() + lengths.back()));
   }
   MPI_Gatherv(packed.data(), length, MPI_CHAR, all.data(), lengths.data(), offsets.data(), MPI_CHAR, 0, MPI_COMM_WORLD);
-  std::vector<std::string> lines;
-  if (r.rank == 0) {
-    size_t start = 0;
-    for (size_t i = 0; i < all.size(); ++i) {
-      if (all[i] == '\n') {
-        lines.push_back(all.substr(start, i - start));
-        start = i + 1;
-      }
-    }
-  }
-  return lines;
+  return r.rank == 0 ? split_lines(all) : std::vector<std::string>{};
 #else
   return mine;
 #endif
@@ -89,15 +94,7 @@ std::vector<std::string> share_lines(const std::vector<std::string>& mine) {
   for (int i = 1; i < r.size; ++i) offsets[i] = offsets[i - 1] + lengths[i - 1];
   std::string all(static_cast<size_t>(offsets.back() + lengths.back()), '\0');
   MPI_Allgatherv(packed.data(), length, MPI_CHAR, all.data(), lengths.data(), offsets.data(), MPI_CHAR, MPI_COMM_WORLD);
-  std::vector<std::string> lines;
-  size_t start = 0;
-  for (size_t i = 0; i < all.size(); ++i) {
-    if (all[i] == '\n') {
-      lines.push_back(all.substr(start, i - start));
-      start = i + 1;
-    }
-  }
-  return lines;
+  return split_lines(all);
 #else
   return mine;
 #endif
