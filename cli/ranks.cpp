@@ -11,6 +11,20 @@ namespace {
 bool started = false;
 
 #ifdef OXYSTRAT_WITH_MPI
+// One '\n'-terminated buffer of this rank's lines, to gather as characters.
+std::string pack_lines(const std::vector<std::string>& mine) {
+  std::string packed;
+  for (const auto& l : mine) packed += l + "\n";
+  return packed;
+}
+
+// Where each rank's buffer starts in the gathered one.
+std::vector<int> offsets_of(const std::vector<int>& lengths) {
+  std::vector<int> offsets(lengths.size(), 0);
+  for (size_t i = 1; i < lengths.size(); ++i) offsets[i] = offsets[i - 1] + lengths[i - 1];
+  return offsets;
+}
+
 // The lines of a '\n'-terminated buffer gathered from every rank.
 std::vector<std::string> split_lines(const std::string& all) {
   std::vector<std::string> lines;
@@ -64,15 +78,14 @@ Ranks ranks() {
 std::vector<std::string> gather_lines(const std::vector<std::string>& mine) {
   if (ranks().size == 1) return mine;
 #ifdef OXYSTRAT_WITH_MPI
-  std::string packed;
-  for (const auto& l : mine) packed += l + "\n";
+  const std::string packed = pack_lines(mine);
   int length = static_cast<int>(packed.size());
   const auto r = ranks();
   std::vector<int> lengths(r.size), offsets(r.size, 0);
   MPI_Gather(&length, 1, MPI_INT, lengths.data(), 1, MPI_INT, 0, MPI_COMM_WORLD);
   std::string all;
   if (r.rank == 0) {
-    for (int i = 1; i < r.size; ++i) offsets[i] = offsets[i - 1] + lengths[i - 1];
+    offsets = offsets_of(lengths);
     all.resize(static_cast<size_t>(offsets.back() + lengths.back()));
   }
   MPI_Gatherv(packed.data(), length, MPI_CHAR, all.data(), lengths.data(), offsets.data(), MPI_CHAR, 0, MPI_COMM_WORLD);
@@ -85,13 +98,12 @@ std::vector<std::string> gather_lines(const std::vector<std::string>& mine) {
 std::vector<std::string> share_lines(const std::vector<std::string>& mine) {
   if (ranks().size == 1) return mine;
 #ifdef OXYSTRAT_WITH_MPI
-  std::string packed;
-  for (const auto& l : mine) packed += l + "\n";
+  const std::string packed = pack_lines(mine);
   int length = static_cast<int>(packed.size());
   const auto r = ranks();
-  std::vector<int> lengths(r.size), offsets(r.size, 0);
+  std::vector<int> lengths(r.size);
   MPI_Allgather(&length, 1, MPI_INT, lengths.data(), 1, MPI_INT, MPI_COMM_WORLD);
-  for (int i = 1; i < r.size; ++i) offsets[i] = offsets[i - 1] + lengths[i - 1];
+  const auto offsets = offsets_of(lengths);
   std::string all(static_cast<size_t>(offsets.back() + lengths.back()), '\0');
   MPI_Allgatherv(packed.data(), length, MPI_CHAR, all.data(), lengths.data(), offsets.data(), MPI_CHAR, MPI_COMM_WORLD);
   return split_lines(all);
