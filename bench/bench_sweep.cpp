@@ -8,6 +8,7 @@
 #include <stdexcept>
 
 #include "bench_cases.hpp"
+#include "solver/linalg/memory_policy.hpp"
 #include "solver/studies/sweep.hpp"
 
 namespace oxystrat::bench {
@@ -36,4 +37,12 @@ BENCHMARK(BM_Sweep)->Arg(1)->Arg(2)->Unit(benchmark::kMillisecond)->UseRealTime(
 }  // namespace
 }  // namespace oxystrat::bench
 
-BENCHMARK_MAIN();
+// The command's memory policy (freed blocks kept for reuse), so that the figure is the command's.
+int main(int argc, char** argv) {
+  oxystrat::retain_freed_memory();
+  benchmark::Initialize(&argc, argv);
+  if (benchmark::ReportUnrecognizedArguments(argc, argv)) return 1;
+  benchmark::RunSpecifiedBenchmarks();
+  benchmark::Shutdown();
+  return 0;
+}

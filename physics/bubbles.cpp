@@ -44,18 +44,22 @@ double bubble_rise_velocity(double d, double sigma, double rho, double mu) {
   const double wave = std::sqrt(2.14 * sigma / (rho * d) + 0.505 * kG * d);
   // A deformed bubble (Eotvos number rho g d^2 / sigma above ~4) no longer rises like a sphere.
   if (rho * kG * d * d / sigma > 4.0) return wave;
-  // Rigid sphere: the velocity where drag balances buoyancy, by bisection on the force balance
-  // (monotone in u): C_D(Re) Re^2 = 4 rho g d^3 / (3 nu^2 rho) with Re = u d / nu.
+  // Rigid sphere: the velocity where the Schiller-Naumann drag balances buoyancy,
+  // 24 Re (1 + 0.15 Re^0.687) = Ar with Re = u d / nu. The left side is increasing and convex, and
+  // each of its two terms alone bounds Re from above, so Newton's method from the smaller bound
+  // falls monotonically onto the root.
   const double nu = mu / rho;
   const double archimedes = 4.0 * kG * d * d * d / (3.0 * nu * nu);
-  auto excess = [&](double re) { return 24.0 * re * (1.0 + 0.15 * std::pow(re, 0.687)) - archimedes; };
-  double lo = 0.0, hi = 1.0;
-  while (excess(hi) < 0.0 && hi < 1e7) hi *= 2.0;
-  for (int i = 0; i < 100; ++i) {
-    const double mid = 0.5 * (lo + hi);
-    (excess(mid) < 0.0 ? lo : hi) = mid;
+  double re = std::min(archimedes / 24.0, std::pow(archimedes / 3.6, 1.0 / 1.687));
+  for (int i = 0; i < 60; ++i) {
+    const double power = std::pow(re, 0.687);
+    const double excess = 24.0 * re * (1.0 + 0.15 * power) - archimedes;
+    const double slope = 24.0 + 3.6 * 1.687 * power;
+    const double step = excess / slope;
+    re -= step;
+    if (!(step > 1e-15 * re)) break;
   }
-  const double rigid = 0.5 * (lo + hi) * nu / d;
+  const double rigid = re * nu / d;
   return std::min(wave, rigid);
 }
 

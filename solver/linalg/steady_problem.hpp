@@ -59,6 +59,13 @@ struct NewtonWorkspace {
   //! The structured solve's preconditioner, kept between solves like the LU above.
   ZoneBlockSolver blocks;
   bool refresh_blocks = false;  //!< refactor the preconditioner before the next structured step
+  //! Before a solve of another problem (e.g. the next sweep point): nothing numeric is carried
+  //! over, so the result does not depend on what was solved before; orderings, symbolic factors
+  //! and the Jacobian's slots are kept while the pattern stays.
+  void start_new_problem() {
+    refresh_blocks = true;
+    analysed = factored = false;
+  }
 };
 
 //! Damped Newton: backtracking on the 2-norm of the residual; converged on max |r_i| / scale.

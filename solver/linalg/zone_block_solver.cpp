@@ -66,6 +66,7 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
 // Jacobian with this pattern is taken apart by one scatter.
 bool ZoneBlockSolver::accept(const ZoneLayout& layout, const PieceList& pieces) {
   have_jacobian_ = false;
+  shared_pattern_ = false;
   slot_.clear();
   const int n = layout.zones;
   if (n <= 0) return false;
@@ -142,6 +143,12 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const PieceList& pieces) 
     const std::uint32_t part = sl >> kPartShift;
     if (part < kLocalPart) sl = part << kPartShift | static_cast<std::uint32_t>(moved[part][sl & kSlotMask]);
   }
+  shared_pattern_ = true;
+  for (int sp = 1; sp < kS; ++sp) {
+    shared_pattern_ = shared_pattern_ && m_[sp].nonZeros() == m_[0].nonZeros() &&
+                      std::equal(m_[0].outerIndexPtr(), m_[0].outerIndexPtr() + n + 1, m_[sp].outerIndexPtr()) &&
+                      std::equal(m_[0].innerIndexPtr(), m_[0].innerIndexPtr() + m_[0].nonZeros(), m_[sp].innerIndexPtr());
+  }
   have_jacobian_ = true;
   return true;
 }
@@ -192,31 +199,50 @@ bool ZoneBlockSolver::refresh_preconditioner() {
   if (!have_jacobian_) return false;
   multigrid_ = n_ >= options_.multigrid_from_zones;
   p_local_ = local_;
+  // Gas Schur diagonals: S = G - diag(C B / A_kk) per pair.
+  std::array<std::vector<double>, 2> shift;
   for (int pair = 0; pair < 2; ++pair) {
     const int l = pair, g = pair + 2;
-    auto& a_diag = pair == 0 ? a_diag_o_ : a_diag_c_;
+    auto& a_diag = a_diag_[pair];
     a_diag.resize(n_);
-    std::vector<double> shift(n_);
+    shift[pair].resize(n_);
     for (int k = 0; k < n_; ++k) {
       a_diag[k] = diagonal(m_[l], k);
       if (a_diag[k] == 0.0) return false;
-      shift[k] = local_[k][kS * g + l] * local_[k][kS * l + g] / a_diag[k];  // C B / A_kk
-    }
-    if (multigrid_) {
-      if (!mg_[l].setup(m_[l], {}, options_) || !mg_[g].setup(m_[g], shift, options_)) return false;
-    } else {
-      p_[l] = m_[l];
-      p_[g] = m_[g];
-      for (int k = 0; k < n_; ++k) p_[g].coeffRef(k, k) -= shift[k];
-      // The CO2 blocks have the O2 blocks' patterns: their orderings and symbolic factors are
-      // taken over rather than found again.
-      if (pair == 1 && !lu_[l].has_pattern(p_[l]) && lu_[0].has_pattern(p_[l])) lu_[l].adopt_symbolic(lu_[0]);
-      if (pair == 1 && !lu_[g].has_pattern(p_[g]) && lu_[2].has_pattern(p_[g])) lu_[g].adopt_symbolic(lu_[2]);
-      if (!lu_[l].factorize(p_[l], options_.supernodal_lu_from) || !lu_[g].factorize(p_[g], options_.supernodal_lu_from)) {
-        return false;
-      }
+      shift[pair][k] = local_[k][kS * g + l] * local_[k][kS * l + g] / a_diag[k];  // C B / A_kk
     }
   }
+  if (multigrid_) {
+    // The two pairs are independent (block Jacobi between them, see precondition()): built side
+    // by side, each sequential, so the hierarchies are the same bits for any thread count.
+    std::array<bool, 2> ok{false, false};
+#pragma omp parallel sections num_threads(2) if (n_ >= kParallelPairsFrom)
+    {
+#pragma omp section
+      ok[0] = mg_[0].setup(m_[0], {}, options_) && mg_[2].setup(m_[2], shift[0], options_);
+#pragma omp section
+      ok[1] = mg_[1].setup(m_[1], {}, options_) && mg_[3].setup(m_[3], shift[1], options_);
+    }
+    if (!ok[0] || !ok[1]) return false;
+  } else {
+    for (int s = 0; s < kS; ++s) {
+      p_[s] = m_[s];
+      if (s >= 2) {
+        for (int k = 0; k < n_; ++k) p_[s].coeffRef(k, k) -= shift[s - 2][k];
+      }
+    }
+    // All four blocks have the transport pattern of the faces: one ordering and symbolic
+    // factorisation, and the O2 and CO2 blocks of each phase refactorised together.
+    for (int first = 0; first < kS; first += 2) {
+      if (ScalarLu::refactor_both(lu_[first], p_[first], lu_[first + 1], p_[first + 1])) continue;
+      if (!lu_[first].factorize(p_[first], options_.supernodal_lu_from)) return false;
+      for (int s = first + 1; s < kS; ++s) {
+        if (!lu_[s].has_pattern(p_[s]) && lu_[first].has_pattern(p_[s])) lu_[s].adopt_symbolic(lu_[first]);
+      }
+      if (!lu_[first + 1].factorize(p_[first + 1], options_.supernodal_lu_from)) return false;
+    }
+  }
+  fused_ = !multigrid_ && lu_[0].same_symbolic(lu_[1]) && lu_[2].same_symbolic(lu_[3]);
   ++factorisations_;
   factored_ = true;
   return true;
@@ -234,7 +260,23 @@ void ZoneBlockSolver::block_solve(int s, Eigen::VectorXd& x) const {
 // zone-local couplings.
 void ZoneBlockSolver::multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) const {
   out.setZero(kS * n_);
-  for (int s = 0; s < kS; ++s) {
+  if (shared_pattern_) {
+    // The four blocks on one pattern (the faces): one pass over it, four independent streams;
+    // each entry of out sums in the same order as below.
+    const int* outer = m_[0].outerIndexPtr();
+    const int* inner = m_[0].innerIndexPtr();
+    const double *v0 = m_[0].valuePtr(), *v1 = m_[1].valuePtr(), *v2 = m_[2].valuePtr(), *v3 = m_[3].valuePtr();
+    double* o = out.data();
+    for (int col = 0; col < n_; ++col) {
+      const double* xc = x.data() + kS * col;
+      const double x0 = xc[0], x1 = xc[1], x2 = xc[2], x3 = xc[3];
+      for (int e = outer[col]; e < outer[col + 1]; ++e) {
+        double* oi = o + kS * inner[e];
+        oi[0] += v0[e] * x0, oi[1] += v1[e] * x1, oi[2] += v2[e] * x2, oi[3] += v3[e] * x3;
+      }
+    }
+  }
+  for (int s = 0; s < kS && !shared_pattern_; ++s) {
     const auto& m = m_[s];
     const int* outer = m.outerIndexPtr();
     const int* inner = m.innerIndexPtr();
@@ -255,35 +297,50 @@ void ZoneBlockSolver::multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) c
   }
 }
 
-// Block Gauss-Seidel over the two species pairs, block lower-triangular within a pair (header).
+// Block Jacobi between the two species pairs, block lower-triangular within a pair (header).
 void ZoneBlockSolver::precondition(const Eigen::VectorXf& v, Eigen::VectorXf& out) {
-  const int n = n_;
-  std::array<Eigen::VectorXd, kS>& x = s_;
-  for (auto& e : x) e.resize(n);
-  Eigen::VectorXd y(n), t(n);
-  for (int pair = 0; pair < 2; ++pair) {
-    const int l = pair, g = pair + 2;
-    // Right-hand sides of the pair, less the couplings to the pair already solved.
-    Eigen::VectorXd bl(n), bg(n);
-    for (int k = 0; k < n; ++k) {
-      bl[k] = v[kS * k + l];
-      bg[k] = v[kS * k + g];
-      if (pair == 1) {
-        const Local& c = p_local_[k];
-        bl[k] -= c[kS * l + 0] * x[0][k] + c[kS * l + 2] * x[2][k];
-        bg[k] -= c[kS * g + 0] * x[0][k] + c[kS * g + 2] * x[2][k];
-      }
+  if (fused_) {
+    precondition_fused(v);
+  } else {
+#pragma omp parallel sections num_threads(2) if (n_ >= kParallelPairsFrom)
+    {
+#pragma omp section
+      precondition_pair(0, v);
+#pragma omp section
+      precondition_pair(1, v);
     }
-    x[l] = bl;
-    block_solve(l, x[l]);
-    for (int k = 0; k < n; ++k) t[k] = bg[k] - p_local_[k][kS * g + l] * x[l][k];
-    block_solve(g, t);
-    x[g] = t;
   }
-  out.resize(kS * n);
+  out.resize(kS * n_);
+  for (int k = 0; k < n_; ++k) {
+    for (int s = 0; s < kS; ++s) out[kS * k + s] = static_cast<float>(s_[s][k]);
+  }
+}
+
+// x_l = A^-1 v_l, x_g = S^-1 (v_g - C x_l) for one pair, into s_[l] and s_[g].
+void ZoneBlockSolver::precondition_pair(int pair, const Eigen::VectorXf& v) {
+  const int l = pair, g = pair + 2, n = n_;
+  Eigen::VectorXd& xl = s_[l];
+  Eigen::VectorXd& xg = s_[g];
+  xl.resize(n);
+  xg.resize(n);
+  for (int k = 0; k < n; ++k) xl[k] = v[kS * k + l];
+  block_solve(l, xl);
+  for (int k = 0; k < n; ++k) xg[k] = v[kS * k + g] - p_local_[k][kS * g + l] * xl[k];
+  block_solve(g, xg);
+}
+
+// The same as both pairs' precondition_pair(), with the O2 and CO2 blocks (one symbolic
+// factorisation) solved together: two independent triangular chains per sweep.
+void ZoneBlockSolver::precondition_fused(const Eigen::VectorXf& v) {
+  const int n = n_;
+  for (auto& x : s_) x.resize(n);
+  for (int k = 0; k < n; ++k) s_[0][k] = v[kS * k + 0], s_[1][k] = v[kS * k + 1];
+  ScalarLu::solve_both(lu_[0], lu_[1], s_[0], s_[1]);
   for (int k = 0; k < n; ++k) {
-    for (int s = 0; s < kS; ++s) out[kS * k + s] = static_cast<float>(x[s][k]);
+    s_[2][k] = v[kS * k + 2] - p_local_[k][kS * 2 + 0] * s_[0][k];
+    s_[3][k] = v[kS * k + 3] - p_local_[k][kS * 3 + 1] * s_[1][k];
   }
+  ScalarLu::solve_both(lu_[2], lu_[3], s_[2], s_[3]);
 }
 
 bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, double rel_tol) {

@@ -17,7 +17,7 @@ void add_design_limits(const Case& c, CaseRun& run) {
 
 }  // namespace
 
-CaseRun run_case(const Case& c, const CaseRunOptions& opts) {
+CaseRun run_case(const Case& c, const CaseRunOptions& opts, NewtonWorkspace* workspace) {
   CaseRun run;
   run.net = build_zone_geometry(c);
   run.hydro = compute_hydrodynamics(c, run.net);
@@ -29,7 +29,8 @@ CaseRun run_case(const Case& c, const CaseRunOptions& opts) {
     return run;
   }
   const OxygenContext ctx{c, run.net, run.hydro, run.routing};
-  run.field = solve_oxygen_field(ctx);
+  if (workspace != nullptr) workspace->start_new_problem();
+  run.field = solve_oxygen_field(ctx, -1.0, nullptr, workspace);
 
   if (opts.supportable_biomass && c.culture.q_o2_max_mol_kg_s > 0.0) {
     run.max_biomass_kg_m3 = max_supportable_biomass(ctx, *run.field, opts.biomass_rel_tol);

@@ -34,7 +34,9 @@ struct CaseRunOptions {
   double biomass_rel_tol = 1e-4;    //!< relative tolerance of the supportable biomass [-]
 };
 
-CaseRun run_case(const Case& c, const CaseRunOptions& opts = {});
+//! `workspace` (optional) is kept by a caller that runs many cases of one grid (a sweep thread):
+//! the symbolic work of the linear solves is then done once.
+CaseRun run_case(const Case& c, const CaseRunOptions& opts = {}, NewtonWorkspace* workspace = nullptr);
 
 //! Per axial row of the network: height [m] and min / volume-mean / max of a zone field.
 struct HeightProfile {

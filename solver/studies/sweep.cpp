@@ -165,11 +165,11 @@ void append_uncertainty_values(const Case& c, int samples, std::uint64_t seed, b
 }
 
 PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supportable_biomass, int uncertainty_samples,
-                           std::uint64_t seed) {
+                           std::uint64_t seed, NewtonWorkspace* workspace) {
   PointResult r;
   const Case& c = loaded.data;
   try {
-    const auto run = run_case(c, {supportable_biomass});
+    const auto run = run_case(c, {supportable_biomass}, workspace);
     std::optional<double> theta;
     if (with_mixing) theta = tracer_mixing_time(run.net, run.hydro, {}).theta_s;
     r.values = summary_values(c, run, theta);
@@ -234,31 +234,36 @@ void run_sweep(const LoadedCase& base, const std::vector<Override>& base_overrid
   // An exception may not leave an OpenMP region: the first one is kept and rethrown after it.
   std::exception_ptr failure;
   bool stop = false;
-#pragma omp parallel for schedule(dynamic, 1) num_threads(threads)
-  for (long i = 0; i < n; ++i) {
-    if (done[static_cast<size_t>(i)]) continue;
-    bool stopped = false;
+#pragma omp parallel num_threads(threads)
+  {
+    NewtonWorkspace workspace;  // per thread: the points share the grid, so the symbolic work is kept
+#pragma omp for schedule(dynamic, 1)
+    for (long i = 0; i < n; ++i) {
+      if (done[static_cast<size_t>(i)]) continue;
+      bool stopped = false;
 #pragma omp atomic read
-    stopped = stop;
-    if (stopped) continue;
-    auto overrides = base_overrides;
-    for (auto& o : point_overrides(plan, static_cast<size_t>(i))) overrides.push_back(o);
-    PointResult r;
-    try {
-      const auto loaded = read_case_text(base.source_text, base.file_name, overrides);
-      r = evaluate_point(loaded, opts.with_mixing, opts.supportable_biomass, opts.uncertainty_samples, opts.seed);
-    } catch (const std::exception& e) {
-      r.error = e.what();
-    }
+      stopped = stop;
+      if (stopped) continue;
+      auto overrides = base_overrides;
+      for (auto& o : point_overrides(plan, static_cast<size_t>(i))) overrides.push_back(o);
+      PointResult r;
+      try {
+        const auto loaded = read_case_text(base.source_text, base.file_name, overrides);
+        r = evaluate_point(loaded, opts.with_mixing, opts.supportable_biomass, opts.uncertainty_samples, opts.seed,
+                           &workspace);
+      } catch (const std::exception& e) {
+        r.error = e.what();
+      }
 #pragma omp critical(oxystrat_sweep_done)
-    {
-      if (!failure) {
-        try {
-          on_done(static_cast<size_t>(i), r);
-        } catch (...) {
-          failure = std::current_exception();
+      {
+        if (!failure) {
+          try {
+            on_done(static_cast<size_t>(i), r);
+          } catch (...) {
+            failure = std::current_exception();
 #pragma omp atomic write
-          stop = true;
+            stop = true;
+          }
         }
       }
     }

@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "input/case_reader.hpp"
+#include "solver/linalg/steady_problem.hpp"
 #include "solver/studies/constraints.hpp"
 #include "solver/oxygen/summary_values.hpp"
 
@@ -92,9 +93,11 @@ void run_sweep(const LoadedCase& base, const std::vector<Override>& base_overrid
                const SweepOptions& opts, const std::vector<bool>& done,
                const std::function<void(size_t, const PointResult&)>& on_done);
 
-//! One point as a case run: the library call `compare` and `sweep` share.
+//! One point as a case run: the library call `compare` and `sweep` share. A `workspace` kept
+//! across points of one grid saves the linear solves' symbolic work (the results do not depend
+//! on it).
 PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supportable_biomass,
-                           int uncertainty_samples = 0, std::uint64_t seed = 1);
+                           int uncertainty_samples = 0, std::uint64_t seed = 1, NewtonWorkspace* workspace = nullptr);
 
 //! The uncertainty quantiles as summary values ("do_min_p10", ...), appended to a point's values.
 void append_uncertainty_values(const Case& c, int samples, std::uint64_t seed, bool with_mixing,

@@ -61,5 +61,21 @@ TEST(Bubbles, RiseVelocityOfProcessBubbles) {
   EXPECT_NEAR(bubble_rise_velocity(d, 0.072, 998.0, 1e-3) / stokes, 1.0, 0.05);
 }
 
+TEST(Bubbles, RigidRiseVelocityBalancesDragAndBuoyancy) {
+  // Verification: the rigid-sphere velocity solves 24 Re (1 + 0.15 Re^0.687) = Ar to round-off
+  // (1e-12 relative: the Newton iteration stops at 1e-15 of Re), from creeping flow (Re ~ 1e-4) to
+  // the largest rigid bubble, in water and in a viscous broth.
+  for (const double mu : {1e-3, 5e-2}) {
+    for (const double d : {20e-6, 100e-6, 500e-6, 1e-3, 2e-3}) {
+      const double u = bubble_rise_velocity(d, 0.072, 998.0, mu);
+      const double wave = std::sqrt(2.14 * 0.072 / (998.0 * d) + 0.505 * 9.80665 * d);
+      if (u >= wave) continue;  // the wave form governs: nothing to balance
+      const double nu = mu / 998.0, re = u * d / nu;
+      const double archimedes = 4.0 * 9.80665 * d * d * d / (3.0 * nu * nu);
+      EXPECT_NEAR(24.0 * re * (1.0 + 0.15 * std::pow(re, 0.687)) / archimedes, 1.0, 1e-12) << d << " m, " << mu << " Pa s";
+    }
+  }
+}
+
 }  // namespace
 }  // namespace oxystrat::physics

@@ -133,6 +133,46 @@ TEST(ScalarLu, SolvesATransportMatrixWithTransferDiagonalInBothModes) {
   EXPECT_FALSE(lu.factorize(singular));
 }
 
+TEST(ScalarLu, PairedRefactorisationAndSolveAreBitIdenticalToSingleOnes) {
+  // Two blocks on one pattern (as the O2 and CO2 blocks are): refactor_both and solve_both
+  // interleave the two eliminations, which must not change a single bit of either.
+  const Chain ch(testing::gassed_vessel(7, 18));
+  SparseMatrix a = transport_matrix(ch.net, ch.hydro.face_flow, ch.hydro.face_exchange);
+  for (int k = 0; k < a.rows(); ++k) a.coeffRef(k, k) -= 1e-3 * ch.net.volume[k] * (1.0 + std::sin(k));
+  a.makeCompressed();
+  SparseMatrix b = a;
+  for (int k = 0; k < b.rows(); ++k) b.coeffRef(k, k) *= 1.7 + 0.3 * std::cos(k);
+  ScalarLu single_a, single_b, pair_a, pair_b;
+  ASSERT_TRUE(single_a.factorize(a));
+  ASSERT_TRUE(single_b.factorize(b));
+  ASSERT_TRUE(pair_a.factorize(a));
+  pair_b.adopt_symbolic(pair_a);
+  ASSERT_TRUE(pair_b.factorize(b));
+  ASSERT_TRUE(pair_a.same_symbolic(pair_b));
+  // New values on the pattern: both refactorised together.
+  for (SparseMatrix* m : {&a, &b}) {
+    for (int k = 0; k < m->rows(); ++k) m->coeffRef(k, k) *= 1.1;
+  }
+  ASSERT_TRUE(single_a.factorize(a));
+  ASSERT_TRUE(single_b.factorize(b));
+  ASSERT_TRUE(ScalarLu::refactor_both(pair_a, a, pair_b, b));
+  Eigen::VectorXd rhs_a(a.rows()), rhs_b(a.rows());
+  for (int i = 0; i < rhs_a.size(); ++i) rhs_a[i] = std::cos(1.3 * i), rhs_b[i] = std::sin(0.7 * i);
+  Eigen::VectorXd xa = rhs_a, xb = rhs_b, ya = rhs_a, yb = rhs_b;
+  single_a.solve(xa);
+  single_b.solve(xb);
+  ScalarLu::solve_both(pair_a, pair_b, ya, yb);
+  for (int i = 0; i < xa.size(); ++i) {
+    EXPECT_EQ(xa[i], ya[i]) << i;  // exact: the same operations in the same order
+    EXPECT_EQ(xb[i], yb[i]) << i;
+  }
+  // A block of another pattern is not refactorised as a pair.
+  SparseMatrix other = a;
+  other.coeffRef(0, a.rows() - 1) = 1e-9;
+  other.makeCompressed();
+  EXPECT_FALSE(ScalarLu::refactor_both(pair_a, a, pair_b, other));
+}
+
 TEST(ZoneBlockSolver, StructuredNewtonGivesTheFieldOfTheGeneralLu) {
   // A tall case with strong gas depletion and a starved region, and a small gassed vessel.
   for (const Case& c : {testing::gassed_vessel(6, 16), read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml").data}) {

@@ -141,6 +141,8 @@ TEST(Sweep, AFailingRecordStopsTheSweepWithItsError) {
 }
 
 TEST(Sweep, EqualsTheSameCasesRunOneByOne) {
+  // Each sweep thread keeps one Newton workspace across its points (orderings, symbolic factors,
+  // Jacobian slots); a point must still come out as from a fresh run, to the bit.
   const auto base = base_case();
   const auto plan = full_factorial({parse_vary("operation.speed=300:500:2", base), parse_vary("operation.gas_flow=0.5:1.5:2", base)});
   const auto results = sweep(base, plan, 2);
