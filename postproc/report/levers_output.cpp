@@ -69,8 +69,10 @@ std::string levers_verdict_html(const LeversStudy& s) {
   const auto& best = *fixes.front();  // ranked: feasible first, least drawn power (or cost) first
   std::string each;
   for (const auto* r : fixes) {
-    each += fmt::format("{}{} {} ({}, drawn power {} kW)", each.empty() ? "Each alone: " : "; ", r->name, value_text(*r),
-                        change_text(*r), report::format_number(r->effects.total_power_w / 1e3));
+    const double more_o2_kg_s = r->effects.oxygen_purchased_kg_s - s.base.oxygen_purchased_kg_s;
+    each += fmt::format("{}{} {} ({}, drawn power {} kW{})", each.empty() ? "Each alone: " : "; ", r->name, value_text(*r),
+                        change_text(*r), report::format_number(r->effects.total_power_w / 1e3),
+                        more_o2_kg_s > 0.0 ? fmt::format(", plus {} t/day of pure O2", report::format_number(more_o2_kg_s * 86.4)) : "");
   }
   return verdict_box_html(false,
                           fmt::format("{} of {} levers fix the case alone; least drawn power: {} {}.", fixes.size(),
@@ -99,6 +101,9 @@ std::string levers_text(const Case& c, const LeversStudy& s) {
                      priced && e.cost_per_h ? fmt::format(" {:>9.4g}", *e.cost_per_h) : "");
     const auto warn = safety(r, s.base);
     if (!warn.empty()) t += "      watch: " + warn + "\n";
+    if (e.oxygen_purchased_kg_s > s.base.oxygen_purchased_kg_s) {
+      t += fmt::format("      buys: {:.3g} t/day of pure O2 (not in the drawn power)\n", e.oxygen_purchased_kg_s * 86.4);
+    }
     if (!r.note.empty()) t += "      " + r.note + "\n";
     if (!r.found && !r.limit_reason.empty()) t += "      limit: " + r.limit_reason + "\n";
   }
@@ -157,6 +162,10 @@ void write_levers_h5(H5Writer& h5, const LeversStudy& s) {
   for (const auto& r : s.levers) drawn.push_back(r.effects.total_power_w);
   h5.write("/levers/total_power", drawn, "W");
   h5.attribute("/levers/total_power", "meaning", "drawn: agitator drive + compressor");
+  std::vector<double> bought;
+  for (const auto& r : s.levers) bought.push_back(r.effects.oxygen_purchased_kg_s);
+  h5.write("/levers/oxygen_purchased", bought, "kg/s");
+  h5.attribute("/levers/oxygen_purchased", "meaning", "pure O2 blended into the inlet gas (not in total_power)");
   h5.write("/levers/power_per_volume", pv, "W/m3");
   h5.write("/levers/tip_speed", tip, "m/s");
   h5.write("/levers/flooded_impellers", flooded, "1");

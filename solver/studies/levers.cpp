@@ -182,6 +182,7 @@ LeverEffects lever_effects(const Case& c, const CaseRun& run) {
   }
   e.epsilon_max_w_kg = run.limits.shear.epsilon_max_w_kg;  // the impeller maxima, as the constraint uses
   e.total_power_w = run.limits.cost.total_power_w;
+  e.oxygen_purchased_kg_s = run.limits.cost.oxygen_purchased_mol_s * physics::molar_mass_o2;
   e.cost_per_h = run.limits.cost.total_per_h;
   e.cooling_required_w = run.limits.heat.required_w;
   e.cooling_margin = run.limits.heat.margin;

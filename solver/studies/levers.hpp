@@ -18,6 +18,7 @@ namespace oxystrat {
 struct LeverEffects {
   double power_gassed_w = 0.0;
   double total_power_w = 0.0;          //!< drawn: agitator drive + compressor [W]
+  double oxygen_purchased_kg_s = 0.0;  //!< pure O2 blended into the inlet gas [kg/s]
   std::optional<double> cost_per_h;    //!< with [prices], in the case's currency
   double cooling_required_w = 0.0;     //!< heat the cooling must remove [W]
   std::optional<double> cooling_margin;  //!< with [cooling]: (available - required) / required

@@ -60,7 +60,12 @@ std::string lever_advice(const LeversStudy& s) {
     // Drawn power (agitator + compressor): more gas costs compressor power, not shaft power.
     const double drawn = s.base.total_power_w > 0.0 ? 100.0 * (r.effects.total_power_w / s.base.total_power_w - 1.0) : 0.0;
     const std::string value = r.unit.empty() ? "the impellers of " + r.key : fmt::format("{} {:.4g} {}", r.name, r.value, r.unit);
-    fixes += fmt::format("{}{} (drawn power {:+.0f} %)", fixes.empty() ? "" : "; or ", value, drawn);
+    // Drawn power leaves out the oxygen an enriched gas needs: say how much, so that a lever that
+    // saves power is not read as free.
+    const double more_o2_kg_s = r.effects.oxygen_purchased_kg_s - s.base.oxygen_purchased_kg_s;
+    const std::string o2 =
+        more_o2_kg_s > 0.0 ? fmt::format(", plus {:.3g} t/day of pure O2", more_o2_kg_s * 86400.0 / 1000.0) : "";
+    fixes += fmt::format("{}{} (drawn power {:+.0f} %{})", fixes.empty() ? "" : "; or ", value, drawn, o2);
   }
   if (fixes.empty()) {
     return "No single lever fixes it within its limits (speed, gas flow, back pressure, O2 enrichment): combine them, or "

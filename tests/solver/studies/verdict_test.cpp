@@ -3,6 +3,8 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
+#include <algorithm>
+
 #include "case_fixtures.hpp"
 #include "input/case_reader.hpp"
 #include "solver/studies/levers.hpp"
@@ -25,7 +27,20 @@ TEST(Verdict, TheDemoStarvesAtItsTop) {
   EXPECT_THAT(v.headline, HasSubstr("NOT FINE"));
   EXPECT_THAT(v.headline, HasSubstr("the top"));
   EXPECT_THAT(v.headline, HasSubstr("one-average-kLa answer says the tank is fine"));
-  EXPECT_THAT(lever_advice(study_levers(loaded, {}, {})), HasSubstr("gas flow"));
+  const auto levers = study_levers(loaded, {}, {});
+  const std::string advice = lever_advice(levers);
+  EXPECT_THAT(advice, HasSubstr("gas flow"));
+  // Enrichment saves compressor power (less air to compress) but buys oxygen: the advice says how
+  // much, so that it does not read as free. The amount is the blend's mass balance at the lever's
+  // O2 fraction (verification: pure O2 share x = (y - 0.2095) / (1 - 0.2095) of the normal flow).
+  const auto enrich = std::find_if(levers.levers.begin(), levers.levers.end(), [](const LeverResult& r) { return r.name == "O2 fraction"; });
+  ASSERT_NE(enrich, levers.levers.end());
+  ASSERT_TRUE(enrich->found);
+  EXPECT_THAT(advice, HasSubstr("t/day of pure O2"));
+  const double y = enrich->effects.oxygen_fraction, air_o2 = 0.20946;  // dry air, 20.946 % O2 (common practice)
+  const double normal_mol_m3 = 101325.0 / (8.314462618 * 273.15);  // normal conditions: 0 degC, 1 atm
+  const double expected = enrich->effects.gas_flow_normal_m3_s * normal_mol_m3 * (y - air_o2) / (1.0 - air_o2) * 31.9988e-3;
+  EXPECT_NEAR(enrich->effects.oxygen_purchased_kg_s, expected, 1e-6 * expected);  // same arithmetic, round-off only
 }
 
 TEST(Verdict, ALighterCultureMeets) {
