@@ -524,7 +524,7 @@ std::string histogram_chart(const std::string& title, const std::string& x_label
 
 std::string scatter_chart(const std::string& title, const std::string& x_label, const std::string& y_label,
                           const std::vector<ScatterPoint>& points, const std::vector<std::string>& group_names,
-                          const std::vector<std::string>& group_colors, int width, int height) {
+                          const std::vector<std::string>& group_colors, int width, int height, bool emphasise_last) {
   Frame f{width, height, {}, {}};
   for (const auto& p : points) f.x.add(p.x), f.y.add(p.y);
   f.x.finish();
@@ -541,7 +541,8 @@ std::string scatter_chart(const std::string& title, const std::string& x_label, 
   body += "<g class=\"data\">\n";
   for (const auto& p : points) {
     if (!std::isfinite(p.x) || !std::isfinite(p.y)) continue;
-    const double r = p.group == static_cast<int>(group_names.size()) - 1 ? 6 : 4, x = f.px(p.x), y = f.py(p.y);
+    const bool large = emphasise_last && p.group == static_cast<int>(group_names.size()) - 1;
+    const double r = large ? 6 : 4, x = f.px(p.x), y = f.py(p.y);
     body += fmt::format("<circle cx=\"{:.1f}\" cy=\"{:.1f}\" r=\"{}\" fill=\"{}\" stroke=\"#333\" stroke-width=\"0.5\"/>\n", x, y, r,
                         group_colors[p.group]);
     marks.push_back({x - r, y - r, x + r, y + r});

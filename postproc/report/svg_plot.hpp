@@ -50,9 +50,11 @@ struct ScatterPoint {
   int group = 0;  //!< index into group_names / colours
 };
 
+//! The last group's points are drawn larger (e.g. "fitted" over "before") unless `emphasise_last` is false.
 std::string scatter_chart(const std::string& title, const std::string& x_label, const std::string& y_label,
                           const std::vector<ScatterPoint>& points, const std::vector<std::string>& group_names,
-                          const std::vector<std::string>& group_colors, int width = 520, int height = 420);
+                          const std::vector<std::string>& group_colors, int width = 520, int height = 420,
+                          bool emphasise_last = true);
 
 //! Impeller and sparger outlines drawn over a zone map: rectangles in (r, z) [m].
 struct Outline {

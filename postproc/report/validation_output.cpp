@@ -3,6 +3,7 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <fstream>
 
 #include "postproc/report/report.hpp"
@@ -35,6 +36,28 @@ const char* outcome(const ValidationResult& r) {
   if (!r.computed) return "ERROR";
   if (r.passed) return is_validation(r) ? "inside" : "pass";
   return is_validation(r) ? "MISS" : "FAIL";
+}
+
+// The relative error of each validation row, one colour per quantity: misses and biases at a glance.
+std::string validation_error_chart(const std::vector<ValidationResult>& results) {
+  static const std::vector<std::string> colors = {"#1f77b4", "#ff7f0e", "#2ca02c", "#d62728", "#9467bd", "#8c564b"};
+  std::vector<std::string> groups;
+  std::vector<svg::ScatterPoint> points;
+  int row = 0;
+  for (const auto& r : results) {
+    if (!is_validation(r)) continue;
+    ++row;
+    if (!r.computed || !r.check->relative) continue;
+    auto g = std::find(groups.begin(), groups.end(), r.check->group);
+    if (g == groups.end()) g = groups.insert(groups.end(), r.check->group);
+    points.push_back({static_cast<double>(row), 100.0 * r.error, static_cast<int>(g - groups.begin())});
+  }
+  if (points.empty()) return "";
+  std::vector<std::string> palette;
+  for (size_t i = 0; i < groups.size(); ++i) palette.push_back(colors[i % colors.size()]);
+  return svg::scatter_chart("Model error of each validation row", "row of the table above",
+                            "(model - measured) / measured [%]", points, groups, palette, 620, 360, false) +
+         "\n";
 }
 
 }  // namespace
@@ -168,7 +191,8 @@ std::string validation_html(const std::vector<ValidationResult>& results) {
                      svg::escape(band_text(c)), r.passed ? "inside" : "<b style=\"color:#d62728\">outside</b>",
                      svg::escape(note));
   }
-  s += "</table>\n<h3>Error of the model per quantity</h3>\n<p>Relative error (model - measured) / measured over the "
+  s += "</table>\n" + validation_error_chart(results);
+  s += "<h3>Error of the model per quantity</h3>\n<p>Relative error (model - measured) / measured over the "
        "rows of each group; the mean is the bias.</p>\n<table><tr><th>group</th><th>rows</th><th>inside band</th>"
        "<th>mean error</th><th>mean |error|</th><th>largest |error|</th></tr>\n";
   for (const auto& st : validation_statistics(results)) {

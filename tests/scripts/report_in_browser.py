@@ -42,6 +42,7 @@ runs = {
                    "2 min"] + small, False),
     "calibrate": ([exe, "calibrate", f"{cases}/pilot-300L.toml", "--kla-data", f"{cases}/pilot-300L-calib-kla.csv"], False),
     "kla-fit": ([exe, "kla-fit", f"{cases}/gassing-out-pilot.csv"], False),
+    "validate": ([exe, "validate"], True),
 }
 
 # Runs in the page after layout; writes what it measured as JSON into <pre id="oxystrat-check">.
