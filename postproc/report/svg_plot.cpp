@@ -572,10 +572,20 @@ std::string zone_map(const ZoneNetwork& net, const std::vector<double>& field, c
   out += "<g class=\"data\">\n";  // what the browser test counts as data marks
   for (int k = 0; k < net.size(); ++k) {
     const double t = uniform ? 0.5 : (field[k] - v.lo) / span;
-    const double x0 = f.px(net.r0[k]), x1 = f.px(net.r1[k]);
-    out += fmt::format("<polygon points=\"{:.1f},{:.1f} {:.1f},{:.1f} {:.1f},{:.1f} {:.1f},{:.1f}\" fill=\"{}\"><title>zone {}: {} {}</title></polygon>\n",
-                       x0, f.py(net.z_floor_inner[k]), x1, f.py(net.z_floor_outer[k]), x1, f.py(net.z1[k]), x0,
-                       f.py(net.z1[k]), ramp(t), k, report::format_number(field[k], 4, 8), escape(unit));
+    // The wetted part of the cell: below its top, above the vessel's floor. The floor is followed
+    // at a few radii (a chord between the corners would leave slivers of a curved head undrawn);
+    // neighbours evaluate it at the same shared edge, so the cells tile the section.
+    std::string points = fmt::format("{:.1f},{:.1f} {:.1f},{:.1f}", f.px(net.r1[k]), f.py(net.z1[k]), f.px(net.r0[k]),
+                                     f.py(net.z1[k]));
+    const bool cut = net.z_floor_inner[k] > net.z0[k] || net.z_floor_outer[k] > net.z0[k];
+    const int samples = cut ? 8 : 1;
+    for (int i = 0; i <= samples; ++i) {
+      const double r = net.r0[k] + (net.r1[k] - net.r0[k]) * i / samples;
+      const double floor = std::clamp(net.shape.bottom_height(r), net.z0[k], net.z1[k]);
+      points += fmt::format(" {:.1f},{:.1f}", f.px(r), f.py(floor));
+    }
+    out += fmt::format("<polygon points=\"{}\" fill=\"{}\"><title>zone {}: {} {}</title></polygon>\n", points,
+                       ramp(t), k, report::format_number(field[k], 4, 8), escape(unit));
   }
   out += "</g>\n";
   for (const auto& o : outlines) {
