@@ -65,4 +65,12 @@ std::string format_quantity(double v, const std::string& unit) {
   return format_number(v * d.factor) + " " + d.unit;
 }
 
+std::string format_duration(double seconds) {
+  const double a = std::abs(seconds);
+  if (a < 120.0) return format_number(seconds, 3, 1) + " s";
+  if (a < 7200.0) return format_number(seconds / 60.0, 3, 1) + " min";
+  if (a < 172800.0) return format_number(seconds / 3600.0, 3, 1) + " h";
+  return format_number(seconds / 86400.0, 3, 1) + " d";
+}
+
 }  // namespace oxystrat::report

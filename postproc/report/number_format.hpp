@@ -23,4 +23,7 @@ DisplayUnit adapt_unit(const std::string& unit, double magnitude);
 //! format_number of the value in its adapted unit, followed by the unit: "350 W/m3".
 std::string format_quantity(double v, const std::string& unit);
 
+//! A time span in the unit that reads naturally: "45 s", "10 min", "2.5 h", "3.2 d".
+std::string format_duration(double seconds);
+
 }  // namespace oxystrat::report

@@ -341,7 +341,7 @@ void write_transient_outputs(RunFolder& folder, const LoadedCase& loaded, const 
   body += "</div>\n";
   if (!r.frames.empty()) {
     const auto& last = r.frames.back();
-    body += fmt::format("<h3>Fields at the end (t = {:.3g} h)</h3>\n<div class=\"row\">\n", last.time_s / 3600.0);
+    body += fmt::format("<h3>Fields at the end (t = {})</h3>\n<div class=\"row\">\n", report::format_duration(last.time_s));
     std::vector<double> sat = last.do_mol_m3;
     for (auto& v : sat) v *= 100.0 / air;
     body += svg::zone_map(net, sat, "DO", "% air sat.", {}, 100.0 * c.culture.critical_do_mol_m3 / air);

@@ -33,6 +33,13 @@ TEST(ReportNumbers, PowerPerVolumeOfACellCultureInWattsPerCubicMetre) {
   EXPECT_EQ(format_quantity(0.0363, "kW"), "36.3 W");
 }
 
+TEST(ReportNumbers, DurationsInTheUnitThatReadsNaturally) {
+  EXPECT_EQ(format_duration(45.0), "45 s");
+  EXPECT_EQ(format_duration(600.0), "10 min");
+  EXPECT_EQ(format_duration(9000.0), "2.5 h");
+  EXPECT_EQ(format_duration(3.0 * 86400.0), "3 d");
+}
+
 TEST(ReportNumbers, DisplayBinsFloorTinyEventsAndKeepEveryCount) {
   // Flickers of a microsecond beside excursions of 0.5 to 80 s.
   const std::vector<double> d{6.65e-7, 2e-6, 0.5, 1.0, 2.0, 3.0, 10.0, 40.0, 80.0};
