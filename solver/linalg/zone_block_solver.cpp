@@ -198,7 +198,9 @@ bool ZoneBlockSolver::refresh_preconditioner() {
   factored_ = false;
   if (!have_jacobian_) return false;
   multigrid_ = n_ >= options_.multigrid_from_zones;
-  p_local_ = local_;
+  // The preconditioner needs only the gas rows' coupling to their own liquid (C of each pair).
+  gas_from_liquid_.resize(n_);
+  for (int k = 0; k < n_; ++k) gas_from_liquid_[k] = {local_[k][kS * 2 + 0], local_[k][kS * 3 + 1]};
   // Gas Schur diagonals: S = G - diag(C B / A_kk) per pair.
   std::array<std::vector<double>, 2> shift;
   for (int pair = 0; pair < 2; ++pair) {
@@ -325,7 +327,7 @@ void ZoneBlockSolver::precondition_pair(int pair, const Eigen::VectorXf& v) {
   xg.resize(n);
   for (int k = 0; k < n; ++k) xl[k] = v[kS * k + l];
   block_solve(l, xl);
-  for (int k = 0; k < n; ++k) xg[k] = v[kS * k + g] - p_local_[k][kS * g + l] * xl[k];
+  for (int k = 0; k < n; ++k) xg[k] = v[kS * k + g] - gas_from_liquid_[k][pair] * xl[k];
   block_solve(g, xg);
 }
 
@@ -337,8 +339,8 @@ void ZoneBlockSolver::precondition_fused(const Eigen::VectorXf& v) {
   for (int k = 0; k < n; ++k) s_[0][k] = v[kS * k + 0], s_[1][k] = v[kS * k + 1];
   ScalarLu::solve_both(lu_[0], lu_[1], s_[0], s_[1]);
   for (int k = 0; k < n; ++k) {
-    s_[2][k] = v[kS * k + 2] - p_local_[k][kS * 2 + 0] * s_[0][k];
-    s_[3][k] = v[kS * k + 3] - p_local_[k][kS * 3 + 1] * s_[1][k];
+    s_[2][k] = v[kS * k + 2] - gas_from_liquid_[k][0] * s_[0][k];
+    s_[3][k] = v[kS * k + 3] - gas_from_liquid_[k][1] * s_[1][k];
   }
   ScalarLu::solve_both(lu_[2], lu_[3], s_[2], s_[3]);
 }

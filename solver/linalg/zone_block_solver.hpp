@@ -95,8 +95,7 @@ class ZoneBlockSolver {
   std::array<ScalarLu, kSpecies> lu_;
   std::array<ScalarMultigrid, kSpecies> mg_;
   std::array<std::vector<double>, 2> a_diag_;  // diag(A) of the liquid blocks at the refresh
-  Local zero_local_{};
-  std::vector<Local> p_local_;  // the couplings at the refresh
+  std::vector<std::array<double, 2>> gas_from_liquid_;  // C of each pair at the refresh, per zone
   bool multigrid_ = false;
   bool factored_ = false, have_jacobian_ = false;
   bool shared_pattern_ = false;  // the four blocks have one pattern (multiply() takes them together)
