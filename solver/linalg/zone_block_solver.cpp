@@ -348,7 +348,7 @@ void ZoneBlockSolver::precondition_fused(const Eigen::VectorXf& v) {
 bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, double rel_tol) {
   if (!have_jacobian_ || !factored_) return false;
   FgmresOptions o;
-  o.restart = kS * n_ > 800000 ? 15 : 30;
+  o.restart = kS * n_ > 800000 ? 10 : 30;
   o.parallel_from_unknowns = options_.parallel_from_unknowns;
   const bool ok = krylov_.solve([this](const Eigen::VectorXd& in, Eigen::VectorXd& out) { multiply(in, out); },
                                 [this](const Eigen::VectorXf& in, Eigen::VectorXf& out) { precondition(in, out); }, b,
