@@ -1,6 +1,7 @@
 #include "solver/linalg/scalar_lu.hpp"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <utility>
 
@@ -114,45 +115,55 @@ bool ScalarLu::refactor_both(ScalarLu& a, const Eigen::SparseMatrix<double>& ma,
   if (!a.symbolic_ || !b.symbolic_ || !a.same_symbolic(b) || !a.has_pattern(ma) || !b.has_pattern(mb)) return false;
   a.load_permuted(ma);
   b.load_permuted(mb);
-  double* wa = a.work_.data();
-  double* wb = b.work_.data();
-  const int* bs = a.b_start_.data();
-  const int* br = a.b_row_.data();  // the same pattern, the same permutation: b's rows are these
-  const int* us = a.u_start_.data();
-  const int* ur = a.u_row_.data();
-  const int* ls = a.l_start_.data();
-  const int* lr = a.l_row_.data();
-  for (int k = 0; k < a.n_; ++k) {
-    double max_a = 0.0, max_b = 0.0;
+  if (!refactor_together<2>({&a, &b})) return false;
+  a.transpose_factors();
+  b.transpose_factors();
+  return true;
+}
+
+// Numeric refactorisation of N factorisations on one symbolic part (the first one's index arrays,
+// each its own values and scratch), eliminating in the kept order: for N = 2 the two chains are
+// independent and run interleaved; every number is computed as for N = 1.
+template <int N>
+bool ScalarLu::refactor_together(const std::array<ScalarLu*, N>& lu) {
+  const ScalarLu& s = *lu[0];
+  const int *bs = s.b_start_.data(), *br = s.b_row_.data();  // one pattern and permutation: the same rows
+  const int *us = s.u_start_.data(), *ur = s.u_row_.data(), *ls = s.l_start_.data(), *lr = s.l_row_.data();
+  std::array<double*, N> w, lv, uv;
+  std::array<const double*, N> bv;
+  for (int q = 0; q < N; ++q) {
+    w[q] = lu[q]->work_.data(), bv[q] = lu[q]->b_val_.data();
+    lv[q] = lu[q]->l_val_.data(), uv[q] = lu[q]->u_val_.data();
+  }
+  for (int k = 0; k < s.n_; ++k) {
+    std::array<double, N> column_max{};
     for (int e = bs[k]; e < bs[k + 1]; ++e) {
-      wa[br[e]] += a.b_val_[e];
-      wb[br[e]] += b.b_val_[e];
-      max_a = std::max(max_a, std::abs(a.b_val_[e]));
-      max_b = std::max(max_b, std::abs(b.b_val_[e]));
+      for (int q = 0; q < N; ++q) {
+        w[q][br[e]] += bv[q][e];
+        column_max[q] = std::max(column_max[q], std::abs(bv[q][e]));
+      }
     }
     for (int e = us[k]; e < us[k + 1]; ++e) {
       const int j = ur[e];
-      const double xa = wa[j], xb = wb[j];
-      for (int f = ls[j]; f < ls[j + 1]; ++f) wa[lr[f]] -= a.l_val_[f] * xa, wb[lr[f]] -= b.l_val_[f] * xb;
+      std::array<double, N> xj;
+      for (int q = 0; q < N; ++q) xj[q] = w[q][j];
+      for (int f = ls[j]; f < ls[j + 1]; ++f) {
+        for (int q = 0; q < N; ++q) w[q][lr[f]] -= lv[q][f] * xj[q];
+      }
     }
-    if (!a.take_pivot(k, max_a) || !b.take_pivot(k, max_b)) {
-      std::fill(a.work_.begin(), a.work_.end(), 0.0);
-      std::fill(b.work_.begin(), b.work_.end(), 0.0);
-      return false;
+    for (int q = 0; q < N; ++q) {
+      if (!lu[q]->take_pivot(k, column_max[q])) {
+        for (int p = 0; p < N; ++p) std::fill(lu[p]->work_.begin(), lu[p]->work_.end(), 0.0);
+        return false;
+      }
     }
-    const double pa = a.diag_[k], pb = b.diag_[k];
-    wa[k] = 0.0, wb[k] = 0.0;
-    for (int e = us[k]; e < us[k + 1]; ++e) {
-      a.u_val_[e] = std::exchange(wa[ur[e]], 0.0);
-      b.u_val_[e] = std::exchange(wb[ur[e]], 0.0);
-    }
-    for (int e = ls[k]; e < ls[k + 1]; ++e) {
-      a.l_val_[e] = std::exchange(wa[lr[e]], 0.0) / pa;
-      b.l_val_[e] = std::exchange(wb[lr[e]], 0.0) / pb;
+    for (int q = 0; q < N; ++q) {
+      const double pivot = lu[q]->diag_[k];
+      w[q][k] = 0.0;
+      for (int e = us[k]; e < us[k + 1]; ++e) uv[q][e] = std::exchange(w[q][ur[e]], 0.0);
+      for (int e = ls[k]; e < ls[k + 1]; ++e) lv[q][e] = std::exchange(w[q][lr[e]], 0.0) / pivot;
     }
   }
-  a.transpose_factors();
-  b.transpose_factors();
   return true;
 }
 
@@ -240,26 +251,7 @@ bool ScalarLu::take_pivot(int k, double column_max) {
   return true;
 }
 
-bool ScalarLu::refactor_numeric() {
-  for (int k = 0; k < n_; ++k) {
-    double column_max = 0.0;
-    for (int e = b_start_[k]; e < b_start_[k + 1]; ++e) {
-      work_[b_row_[e]] += b_val_[e];
-      column_max = std::max(column_max, std::abs(b_val_[e]));
-    }
-    for (int e = u_start_[k]; e < u_start_[k + 1]; ++e) {
-      const int j = u_row_[e];
-      const double xj = work_[j];
-      for (int f = l_start_[j]; f < l_start_[j + 1]; ++f) work_[l_row_[f]] -= l_val_[f] * xj;
-    }
-    if (!take_pivot(k, column_max)) return false;
-    const double pivot = diag_[k];
-    work_[k] = 0.0;
-    for (int e = u_start_[k]; e < u_start_[k + 1]; ++e) u_val_[e] = std::exchange(work_[u_row_[e]], 0.0);
-    for (int e = l_start_[k]; e < l_start_[k + 1]; ++e) l_val_[e] = std::exchange(work_[l_row_[e]], 0.0) / pivot;
-  }
-  return true;
-}
+bool ScalarLu::refactor_numeric() { return refactor_together<1>({this}); }
 
 // The factors by rows for the solves: each unknown then gathers its sum from finished ones (no
 // scattered stores, independent loads), which is what makes the triangular solves fast. The row
@@ -301,33 +293,46 @@ bool ScalarLu::same_symbolic(const ScalarLu& other) const {
          ur_start_ == other.ur_start_ && ur_col_ == other.ur_col_;
 }
 
-void ScalarLu::solve_both(const ScalarLu& a, const ScalarLu& b, Eigen::VectorXd& xa, Eigen::VectorXd& xb) {
-  const int n = a.n_;
-  Eigen::VectorXd& ya = a.solve_scratch_;
-  Eigen::VectorXd& yb = b.solve_scratch_;
-  ya.resize(n);
-  yb.resize(n);
-  const int* perm = a.perm_.data();
-  for (int i = 0; i < n; ++i) ya[perm[i]] = xa[i], yb[perm[i]] = xb[i];
-  const int* ls = a.lr_start_.data();
-  const int* lc = a.lr_col_.data();
-  const double* la = a.lr_val_.data();
-  const double* lb = b.lr_val_.data();
+// x_q <- LU_q^-1 x_q for N factorisations on one symbolic part, in one pass over the first one's
+// row patterns (for N = 2, two independent triangular chains interleaved; the same numbers as N = 1).
+template <int N>
+void ScalarLu::solve_together(const std::array<const ScalarLu*, N>& lu, const std::array<Eigen::VectorXd*, N>& x) {
+  const ScalarLu& s = *lu[0];
+  const int n = s.n_;
+  const int* perm = s.perm_.data();
+  std::array<double*, N> y;
+  std::array<const double*, N> lv, uv, inv;
+  for (int q = 0; q < N; ++q) {
+    lu[q]->solve_scratch_.resize(n);
+    y[q] = lu[q]->solve_scratch_.data();
+    lv[q] = lu[q]->lr_val_.data(), uv[q] = lu[q]->ur_val_.data(), inv[q] = lu[q]->inv_diag_.data();
+    for (int i = 0; i < n; ++i) y[q][perm[i]] = (*x[q])[i];
+  }
+  const int *ls = s.lr_start_.data(), *lc = s.lr_col_.data();
   for (int i = 0; i < n; ++i) {
-    double sa = ya[i], sb = yb[i];
-    for (int e = ls[i]; e < ls[i + 1]; ++e) sa -= la[e] * ya[lc[e]], sb -= lb[e] * yb[lc[e]];
-    ya[i] = sa, yb[i] = sb;
+    std::array<double, N> sum;
+    for (int q = 0; q < N; ++q) sum[q] = y[q][i];
+    for (int e = ls[i]; e < ls[i + 1]; ++e) {
+      for (int q = 0; q < N; ++q) sum[q] -= lv[q][e] * y[q][lc[e]];
+    }
+    for (int q = 0; q < N; ++q) y[q][i] = sum[q];
   }
-  const int* us = a.ur_start_.data();
-  const int* uc = a.ur_col_.data();
-  const double* ua = a.ur_val_.data();
-  const double* ub = b.ur_val_.data();
+  const int *us = s.ur_start_.data(), *uc = s.ur_col_.data();
   for (int i = n - 1; i >= 0; --i) {
-    double sa = ya[i], sb = yb[i];
-    for (int e = us[i]; e < us[i + 1]; ++e) sa -= ua[e] * ya[uc[e]], sb -= ub[e] * yb[uc[e]];
-    ya[i] = sa * a.inv_diag_[i], yb[i] = sb * b.inv_diag_[i];
+    std::array<double, N> sum;
+    for (int q = 0; q < N; ++q) sum[q] = y[q][i];
+    for (int e = us[i]; e < us[i + 1]; ++e) {
+      for (int q = 0; q < N; ++q) sum[q] -= uv[q][e] * y[q][uc[e]];
+    }
+    for (int q = 0; q < N; ++q) y[q][i] = sum[q] * inv[q][i];
   }
-  for (int i = 0; i < n; ++i) xa[i] = ya[perm[i]], xb[i] = yb[perm[i]];
+  for (int q = 0; q < N; ++q) {
+    for (int i = 0; i < n; ++i) (*x[q])[i] = y[q][perm[i]];
+  }
+}
+
+void ScalarLu::solve_both(const ScalarLu& a, const ScalarLu& b, Eigen::VectorXd& xa, Eigen::VectorXd& xb) {
+  solve_together<2>({&a, &b}, {&xa, &xb});
 }
 
 void ScalarLu::solve(Eigen::VectorXd& x) const {
@@ -335,20 +340,7 @@ void ScalarLu::solve(Eigen::VectorXd& x) const {
     x = big_.solve(x).eval();
     return;
   }
-  Eigen::VectorXd& y = solve_scratch_;
-  y.resize(n_);
-  for (int i = 0; i < n_; ++i) y[perm_[i]] = x[i];
-  for (int i = 0; i < n_; ++i) {
-    double s = y[i];
-    for (int e = lr_start_[i]; e < lr_start_[i + 1]; ++e) s -= lr_val_[e] * y[lr_col_[e]];
-    y[i] = s;
-  }
-  for (int i = n_ - 1; i >= 0; --i) {
-    double s = y[i];
-    for (int e = ur_start_[i]; e < ur_start_[i + 1]; ++e) s -= ur_val_[e] * y[ur_col_[e]];
-    y[i] = s * inv_diag_[i];
-  }
-  for (int i = 0; i < n_; ++i) x[i] = y[perm_[i]];
+  solve_together<1>({this}, {&x});
 }
 
 }  // namespace oxystrat

@@ -6,6 +6,7 @@
 #include <Eigen/Core>
 #include <Eigen/Sparse>
 #include <Eigen/SparseLU>
+#include <array>
 #include <vector>
 
 #include "solver/linalg/solver_options.hpp"
@@ -53,6 +54,10 @@ class ScalarLu {
   Eigen::VectorXi perm_, pattern_outer_, pattern_inner_;  // new index of old row/col; pattern the ordering was made for
   bool factor_with_patterns();  // symbolic and numeric, on b_*
   void load_permuted(const Eigen::SparseMatrix<double>& a);  // b_* = P A P^T
+  template <int N>
+  static bool refactor_together(const std::array<ScalarLu*, N>& lu);
+  template <int N>
+  static void solve_together(const std::array<const ScalarLu*, N>& lu, const std::array<Eigen::VectorXd*, N>& x);
   bool refactor_numeric();      // numeric only, on the patterns found before
   bool take_pivot(int k, double column_max);  // diag_[k] = work_[k] when it is a usable pivot
   void transpose_factors();     // the row copies the solves use
