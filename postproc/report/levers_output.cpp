@@ -69,7 +69,7 @@ std::string levers_verdict_html(const LeversStudy& s) {
   const auto& best = *fixes.front();  // ranked: feasible first, least drawn power (or cost) first
   std::string each;
   for (const auto* r : fixes) {
-    const double more_o2_kg_s = r->effects.oxygen_purchased_kg_s - s.base.oxygen_purchased_kg_s;
+    const double more_o2_kg_s = added_oxygen_kg_s(*r, s);
     each += fmt::format("{}{} {} ({}, drawn power {} kW{})", each.empty() ? "Each alone: " : "; ", r->name, value_text(*r),
                         change_text(*r), report::format_number(r->effects.total_power_w / 1e3),
                         more_o2_kg_s > 0.0 ? fmt::format(", plus {} t/day of pure O2", report::format_number(more_o2_kg_s * 86.4)) : "");
@@ -101,8 +101,8 @@ std::string levers_text(const Case& c, const LeversStudy& s) {
                      priced && e.cost_per_h ? fmt::format(" {:>9.4g}", *e.cost_per_h) : "");
     const auto warn = safety(r, s.base);
     if (!warn.empty()) t += "      watch: " + warn + "\n";
-    if (e.oxygen_purchased_kg_s > s.base.oxygen_purchased_kg_s) {
-      t += fmt::format("      buys: {:.3g} t/day of pure O2 (not in the drawn power)\n", e.oxygen_purchased_kg_s * 86.4);
+    if (added_oxygen_kg_s(r, s) > 0.0) {
+      t += fmt::format("      buys: {:.3g} t/day more pure O2 (not in the drawn power)\n", added_oxygen_kg_s(r, s) * 86.4);
     }
     if (!r.note.empty()) t += "      " + r.note + "\n";
     if (!r.found && !r.limit_reason.empty()) t += "      limit: " + r.limit_reason + "\n";

@@ -205,13 +205,11 @@ bool ZoneBlockSolver::refresh_preconditioner() {
   std::array<std::vector<double>, 2> shift;
   for (int pair = 0; pair < 2; ++pair) {
     const int l = pair, g = pair + 2;
-    auto& a_diag = a_diag_[pair];
-    a_diag.resize(n_);
     shift[pair].resize(n_);
     for (int k = 0; k < n_; ++k) {
-      a_diag[k] = diagonal(m_[l], k);
-      if (a_diag[k] == 0.0) return false;
-      shift[pair][k] = local_[k][kS * g + l] * local_[k][kS * l + g] / a_diag[k];  // C B / A_kk
+      const double a_kk = diagonal(m_[l], k);
+      if (a_kk == 0.0) return false;
+      shift[pair][k] = local_[k][kS * g + l] * local_[k][kS * l + g] / a_kk;  // C B / A_kk
     }
   }
   if (multigrid_) {
@@ -277,15 +275,16 @@ void ZoneBlockSolver::multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) c
         oi[0] += v0[e] * x0, oi[1] += v1[e] * x1, oi[2] += v2[e] * x2, oi[3] += v3[e] * x3;
       }
     }
-  }
-  for (int s = 0; s < kS && !shared_pattern_; ++s) {
-    const auto& m = m_[s];
-    const int* outer = m.outerIndexPtr();
-    const int* inner = m.innerIndexPtr();
-    const double* val = m.valuePtr();
-    for (int col = 0; col < n_; ++col) {
-      const double xc = x[kS * col + s];
-      for (int e = outer[col]; e < outer[col + 1]; ++e) out[kS * inner[e] + s] += val[e] * xc;
+  } else {
+    for (int s = 0; s < kS; ++s) {
+      const auto& m = m_[s];
+      const int* outer = m.outerIndexPtr();
+      const int* inner = m.innerIndexPtr();
+      const double* val = m.valuePtr();
+      for (int col = 0; col < n_; ++col) {
+        const double xc = x[kS * col + s];
+        for (int e = outer[col]; e < outer[col + 1]; ++e) out[kS * inner[e] + s] += val[e] * xc;
+      }
     }
   }
 #pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)

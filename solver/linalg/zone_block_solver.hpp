@@ -9,14 +9,14 @@
 // The whole system is solved by flexible GMRES (solver/linalg/fgmres.hpp), right-preconditioned
 // by a block factorisation per species pair (liquid O2 with gas O2, liquid CO2 with gas CO2,
 // block Jacobi between the pairs, so that they are built and applied side by side on two
-// threads; Gauss-Seidel between them saved no Krylov iterations on the bundled cases): with A the liquid block, G the gas block and B, C the
-// zone-local couplings of J = [A B; C G], the preconditioner is P = [A 0; C S] with
-// S = G - C diag(A)^-1 B, the gas block's zone-local Schur complement: x_l = A^-1 b_l,
-// x_g = S^-1 (b_g - C x_l). (The full block LU, with a second A^-1 solve, took more time and no
-// fewer Krylov iterations on the bundled cases.) A and S are scalar transport-like blocks: one exact sparse LU each (ScalarLu) on
-// small and mid-sized networks, aggregation multigrid (ScalarMultigrid) on large ones. The
-// factorisations are kept from one Newton step to the next and refreshed when the Krylov count
-// shows they have drifted.
+// threads; Gauss-Seidel between them saved no Krylov iterations on the bundled cases): with A
+// the liquid block, G the gas block and B, C the zone-local couplings of J = [A B; C G], the
+// preconditioner is P = [A 0; C S] with S = G - C diag(A)^-1 B, the gas block's zone-local Schur
+// complement: x_l = A^-1 b_l, x_g = S^-1 (b_g - C x_l). (The full block LU, with a second A^-1
+// solve, took more time and no fewer Krylov iterations on the bundled cases.) A and S are scalar
+// transport-like blocks: one exact sparse LU each (ScalarLu) on small and mid-sized networks,
+// aggregation multigrid (ScalarMultigrid) on large ones. The factorisations are kept from one
+// Newton step to the next and refreshed when the Krylov count shows they have drifted.
 #pragma once
 
 #include <Eigen/Core>
@@ -94,7 +94,6 @@ class ZoneBlockSolver {
   std::array<Eigen::SparseMatrix<double>, kSpecies> p_;
   std::array<ScalarLu, kSpecies> lu_;
   std::array<ScalarMultigrid, kSpecies> mg_;
-  std::array<std::vector<double>, 2> a_diag_;  // diag(A) of the liquid blocks at the refresh
   std::vector<std::array<double, 2>> gas_from_liquid_;  // C of each pair at the refresh, per zone
   bool multigrid_ = false;
   bool factored_ = false, have_jacobian_ = false;

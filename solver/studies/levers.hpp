@@ -4,6 +4,7 @@
 // (power, shear, flooding, pCO2, pressure, safety) is recorded beside it.
 #pragma once
 
+#include <algorithm>
 #include <optional>
 #include <string>
 #include <vector>
@@ -68,6 +69,12 @@ struct LeversStudy {
   LeverEffects base;
   std::vector<LeverResult> levers;  //!< ranked: feasible first, by added gassed power (least first)
 };
+
+//! Pure O2 a lever buys on top of what the case buys as written [kg/s] (0 for a lever that
+//! does not enrich): drawn power leaves it out, so the advice states it beside the power.
+inline double added_oxygen_kg_s(const LeverResult& r, const LeversStudy& s) {
+  return std::max(0.0, r.effects.oxygen_purchased_kg_s - s.base.oxygen_purchased_kg_s);
+}
 
 //! Moves each lever alone. Errors in one lever's runs are that lever's note, never the study's.
 LeversStudy study_levers(const LoadedCase& loaded, const std::vector<Override>& overrides, const LeverOptions& options);

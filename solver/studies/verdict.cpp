@@ -62,7 +62,7 @@ std::string lever_advice(const LeversStudy& s) {
     const std::string value = r.unit.empty() ? "the impellers of " + r.key : fmt::format("{} {:.4g} {}", r.name, r.value, r.unit);
     // Drawn power leaves out the oxygen an enriched gas needs: say how much, so that a lever that
     // saves power is not read as free.
-    const double more_o2_kg_s = r.effects.oxygen_purchased_kg_s - s.base.oxygen_purchased_kg_s;
+    const double more_o2_kg_s = added_oxygen_kg_s(r, s);
     const std::string o2 =
         more_o2_kg_s > 0.0 ? fmt::format(", plus {:.3g} t/day of pure O2", more_o2_kg_s * 86400.0 / 1000.0) : "";
     fixes += fmt::format("{}{} (drawn power {:+.0f} %{})", fixes.empty() ? "" : "; or ", value, drawn, o2);
