@@ -15,12 +15,15 @@ double merit(const SteadyProblem& p, const Eigen::VectorXd& x, Eigen::VectorXd& 
   return (r / p.residual_scale()).squaredNorm();
 }
 
-// The Jacobian into the block solver in pieces of zones when the problem lists its Jacobian by
-// zones, so that a large network never holds the whole list (26 entries of 16 bytes per zone):
-// by one scatter while the pattern is the remembered one, else by the solver's two-pass intake.
-// A problem that cannot list by zones is taken whole.
+// The Jacobian into the block solver by parts when the problem gives them (no list, no copy of
+// its transports); else in pieces of zones when the problem lists its Jacobian by zones, so that
+// a large network never holds the whole list (26 entries of 16 bytes per zone): by one scatter
+// while the pattern is the remembered one, else by the solver's two-pass intake. A problem that
+// cannot list by zones is taken whole.
 bool take_jacobian(const SteadyProblem& p, const ZoneLayout& layout, const Eigen::VectorXd& x, ZoneBlockSolver& blocks,
                    std::vector<Eigen::Triplet<double>>& piece) {
+  ZoneTransports transports;
+  if (p.jacobian_parts(x, blocks.begin_parts(layout), transports) && blocks.accept_parts(transports)) return true;
   constexpr int kZonesPerPiece = 1 << 14;
   piece.clear();
   // The first piece before anything is reset: a problem that cannot list by zones goes straight on.

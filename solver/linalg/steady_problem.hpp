@@ -26,6 +26,13 @@ class SteadyProblem {
                               std::vector<Eigen::Triplet<double>>& /*t*/) const {
     return false;
   }
+  //! The Jacobian by parts (ZoneBlockSolver::begin_parts): every entry of the zone-local blocks
+  //! into `local`, the transports they add to into `transports`. Faster and leaner than listing
+  //! it on a large network; a problem that cannot returns false (the default) and is listed.
+  virtual bool jacobian_parts(const Eigen::VectorXd& /*x*/, std::vector<ZoneBlockSolver::LocalBlock>& /*local*/,
+                              ZoneTransports& /*transports*/) const {
+    return false;
+  }
   //! Residual magnitude that counts as zero for each equation (same units as the residual).
   virtual double residual_scale() const = 0;
   //! A problem with the zone layout of zone_block_solver.hpp says so here (zones > 0), and

@@ -51,6 +51,42 @@ double diagonal(const Eigen::SparseMatrix<double>& m, int k) {
   return 0.0;
 }
 
+// A transport of the layout's size, compressed, with its diagonal stored in every column (the
+// preconditioner adds the zone-local diagonal to the stored one).
+bool layout_transport(const Eigen::SparseMatrix<double>* m, int n) {
+  if (m == nullptr || m->rows() != n || m->cols() != n || !m->isCompressed()) return false;
+  const int* outer = m->outerIndexPtr();
+  const int* inner = m->innerIndexPtr();
+  for (int k = 0; k < n; ++k) {
+    if (std::find(inner + outer[k], inner + outer[k + 1], k) == inner + outer[k + 1]) return false;
+  }
+  return true;
+}
+
+// out[kS i + s] += sum_j m_ij x[kS j + s] for the species s of `first` .. `first + count - 1`,
+// which share the matrix m; columns from the last to the first when `backward`.
+void add_product(const Eigen::SparseMatrix<double>& m, int first, int count, bool backward, const Eigen::VectorXd& x,
+                 Eigen::VectorXd& out) {
+  const int* outer = m.outerIndexPtr();
+  const int* inner = m.innerIndexPtr();
+  const double* val = m.valuePtr();
+  double* o = out.data();
+  const int n = static_cast<int>(m.cols());
+  for (int step = 0; step < n; ++step) {
+    const int col = backward ? n - 1 - step : step;
+    const double* xc = x.data() + kS * col + first;
+    if (count == 2) {
+      const double x0 = xc[0], x1 = xc[1];
+      for (int e = outer[col]; e < outer[col + 1]; ++e) {
+        double* oi = o + kS * inner[e] + first;
+        oi[0] += val[e] * x0, oi[1] += val[e] * x1;
+      }
+    } else {
+      for (int e = outer[col]; e < outer[col + 1]; ++e) o[kS * inner[e] + first] += val[e] * xc[0];
+    }
+  }
+}
+
 }  // namespace
 
 bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
@@ -66,13 +102,12 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const Triplets& t) {
 // Jacobian with this pattern is taken apart by one scatter.
 bool ZoneBlockSolver::accept(const ZoneLayout& layout, const PieceList& pieces) {
   have_jacobian_ = false;
-  shared_pattern_ = false;
   slot_.clear();
   const int n = layout.zones;
   if (n <= 0) return false;
   if (n != n_) factored_ = false;
   n_ = n;
-  local_.assign(n, Local{});
+  local_.assign(n, LocalBlock{});
   std::array<std::vector<int>, kS> col;
   for (auto& c : col) {
     c.assign(n + 1, 1);
@@ -143,12 +178,29 @@ bool ZoneBlockSolver::accept(const ZoneLayout& layout, const PieceList& pieces) 
     const std::uint32_t part = sl >> kPartShift;
     if (part < kLocalPart) sl = part << kPartShift | static_cast<std::uint32_t>(moved[part][sl & kSlotMask]);
   }
-  shared_pattern_ = true;
-  for (int sp = 1; sp < kS; ++sp) {
-    shared_pattern_ = shared_pattern_ && m_[sp].nonZeros() == m_[0].nonZeros() &&
-                      std::equal(m_[0].outerIndexPtr(), m_[0].outerIndexPtr() + n + 1, m_[sp].outerIndexPtr()) &&
-                      std::equal(m_[0].innerIndexPtr(), m_[0].innerIndexPtr() + m_[0].nonZeros(), m_[sp].innerIndexPtr());
+  for (int sp = 0; sp < kS; ++sp) block_[sp] = &m_[sp];
+  have_jacobian_ = true;
+  return true;
+}
+
+std::vector<ZoneBlockSolver::LocalBlock>& ZoneBlockSolver::begin_parts(const ZoneLayout& layout) {
+  have_jacobian_ = false;
+  if (layout.zones != n_) factored_ = false;
+  n_ = std::max(layout.zones, 0);
+  local_.resize(n_);
+  return local_;
+}
+
+// The listed Jacobian's copies and slots are let go: a large network holds the transports once.
+bool ZoneBlockSolver::accept_parts(const ZoneTransports& transports) {
+  have_jacobian_ = false;
+  if (n_ <= 0 || static_cast<int>(local_.size()) != n_ || !layout_transport(transports.liquid, n_) ||
+      !layout_transport(transports.gas, n_)) {
+    return false;
   }
+  for (auto& m : m_) m = Eigen::SparseMatrix<double>();
+  slot_ = {};
+  block_ = {transports.liquid, transports.liquid, transports.gas, transports.gas};
   have_jacobian_ = true;
   return true;
 }
@@ -158,7 +210,7 @@ bool ZoneBlockSolver::begin_same_pattern(const ZoneLayout& layout) {
   taken_ = 0;
   if (slot_.empty() || layout.zones != n_) return false;
   for (auto& m : m_) std::fill_n(m.valuePtr(), m.nonZeros(), 0.0);
-  std::fill(local_.begin(), local_.end(), Local{});
+  std::fill(local_.begin(), local_.end(), LocalBlock{});
   return true;
 }
 
@@ -190,6 +242,7 @@ bool ZoneBlockSolver::add_same_pattern(const Triplets& piece) {
 
 bool ZoneBlockSolver::finish_same_pattern() {
   if (taken_ != slot_.size()) return false;
+  for (int sp = 0; sp < kS; ++sp) block_[sp] = &m_[sp];
   have_jacobian_ = true;
   return true;
 }
@@ -201,15 +254,19 @@ bool ZoneBlockSolver::refresh_preconditioner() {
   // The preconditioner needs only the gas rows' coupling to their own liquid (C of each pair).
   gas_from_liquid_.resize(n_);
   for (int k = 0; k < n_; ++k) gas_from_liquid_[k] = {local_[k][kS * 2 + 0], local_[k][kS * 3 + 1]};
-  // Gas Schur diagonals: S = G - diag(C B / A_kk) per pair.
-  std::array<std::vector<double>, 2> shift;
+  // Each species' block is its transport plus the zone-local diagonal; the gas blocks become
+  // their Schur complements S = G - diag(C B / A_kk). Both as a shift: block - diag(shift).
+  std::array<std::vector<double>, kS> shift;
   for (int pair = 0; pair < 2; ++pair) {
     const int l = pair, g = pair + 2;
-    shift[pair].resize(n_);
+    shift[l].resize(n_);
+    shift[g].resize(n_);
     for (int k = 0; k < n_; ++k) {
-      const double a_kk = diagonal(m_[l], k);
+      const auto& c = local_[k];
+      const double a_kk = diagonal(*block_[l], k) + c[kS * l + l];
       if (a_kk == 0.0) return false;
-      shift[pair][k] = local_[k][kS * g + l] * local_[k][kS * l + g] / a_kk;  // C B / A_kk
+      shift[l][k] = -c[kS * l + l];
+      shift[g][k] = -c[kS * g + g] + c[kS * g + l] * c[kS * l + g] / a_kk;  // C B / A_kk
     }
   }
   if (multigrid_) {
@@ -219,17 +276,15 @@ bool ZoneBlockSolver::refresh_preconditioner() {
 #pragma omp parallel sections num_threads(2) if (n_ >= kParallelPairsFrom)
     {
 #pragma omp section
-      ok[0] = mg_[0].setup(m_[0], {}, options_) && mg_[2].setup(m_[2], shift[0], options_);
+      ok[0] = mg_[0].setup(*block_[0], shift[0], options_) && mg_[2].setup(*block_[2], shift[2], options_);
 #pragma omp section
-      ok[1] = mg_[1].setup(m_[1], {}, options_) && mg_[3].setup(m_[3], shift[1], options_);
+      ok[1] = mg_[1].setup(*block_[1], shift[1], options_) && mg_[3].setup(*block_[3], shift[3], options_);
     }
     if (!ok[0] || !ok[1]) return false;
   } else {
     for (int s = 0; s < kS; ++s) {
-      p_[s] = m_[s];
-      if (s >= 2) {
-        for (int k = 0; k < n_; ++k) p_[s].coeffRef(k, k) -= shift[s - 2][k];
-      }
+      p_[s] = *block_[s];
+      for (int k = 0; k < n_; ++k) p_[s].coeffRef(k, k) -= shift[s][k];
     }
     // All four blocks have the transport pattern of the faces: one ordering and symbolic
     // factorisation, and the O2 and CO2 blocks of each phase refactorised together.
@@ -256,43 +311,29 @@ void ZoneBlockSolver::block_solve(int s, Eigen::VectorXd& x) const {
   }
 }
 
-// out = J x, straight on the interleaved vectors: each species' block by columns, then the
-// zone-local couplings.
+// out = J x, straight on the interleaved vectors: the transports (once for a pair that shares
+// one), then the zone-local blocks.
 void ZoneBlockSolver::multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) const {
   out.setZero(kS * n_);
-  if (shared_pattern_) {
-    // The four blocks on one pattern (the faces): one pass over it, four independent streams;
-    // each entry of out sums in the same order as below.
-    const int* outer = m_[0].outerIndexPtr();
-    const int* inner = m_[0].innerIndexPtr();
-    const double *v0 = m_[0].valuePtr(), *v1 = m_[1].valuePtr(), *v2 = m_[2].valuePtr(), *v3 = m_[3].valuePtr();
-    double* o = out.data();
-    for (int col = 0; col < n_; ++col) {
-      const double* xc = x.data() + kS * col;
-      const double x0 = xc[0], x1 = xc[1], x2 = xc[2], x3 = xc[3];
-      for (int e = outer[col]; e < outer[col + 1]; ++e) {
-        double* oi = o + kS * inner[e];
-        oi[0] += v0[e] * x0, oi[1] += v1[e] * x1, oi[2] += v2[e] * x2, oi[3] += v3[e] * x3;
-      }
+  if (block_[0] == block_[1] && block_[2] == block_[3]) {
+    // Liquid and gas pair side by side; the gas from the last column, so that the two threads
+    // write the same cache lines only where they cross.
+#pragma omp parallel sections num_threads(2) if (kS * n_ >= options_.parallel_from_unknowns)
+    {
+#pragma omp section
+      add_product(*block_[0], 0, 2, false, x, out);
+#pragma omp section
+      add_product(*block_[2], 2, 2, true, x, out);
     }
   } else {
-    for (int s = 0; s < kS; ++s) {
-      const auto& m = m_[s];
-      const int* outer = m.outerIndexPtr();
-      const int* inner = m.innerIndexPtr();
-      const double* val = m.valuePtr();
-      for (int col = 0; col < n_; ++col) {
-        const double xc = x[kS * col + s];
-        for (int e = outer[col]; e < outer[col + 1]; ++e) out[kS * inner[e] + s] += val[e] * xc;
-      }
-    }
+    for (int s = 0; s < kS; ++s) add_product(*block_[s], s, 1, false, x, out);
   }
 #pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
   for (int k = 0; k < n_; ++k) {
-    const Local& c = local_[k];
+    const LocalBlock& c = local_[k];
     const double* xk = x.data() + kS * k;
     for (int si = 0; si < kS; ++si) {
-      const double* row = c.data() + kS * si;  // its diagonal entry is 0: the blocks hold it
+      const double* row = c.data() + kS * si;
       out[kS * k + si] += ((row[0] * xk[0] + row[1] * xk[1]) + (row[2] * xk[2] + row[3] * xk[3]));
     }
   }
@@ -312,6 +353,7 @@ void ZoneBlockSolver::precondition(const Eigen::VectorXf& v, Eigen::VectorXf& ou
     }
   }
   out.resize(kS * n_);
+#pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
   for (int k = 0; k < n_; ++k) {
     for (int s = 0; s < kS; ++s) out[kS * k + s] = static_cast<float>(s_[s][k]);
   }

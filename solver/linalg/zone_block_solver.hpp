@@ -5,6 +5,8 @@
 // unknown of any zone (transport: the liquid's flows, or the gas's drift flux), and to the other
 // unknowns of its own zone only (transfer, uptake, gas composition). A Jacobian that breaks this
 // contract is refused (accept() returns false) and the caller falls back to a general sparse LU.
+// The Jacobian comes either by parts (the problem's two transport matrices, held by pointer, and
+// a 4 x 4 block per zone: no copy, the way the oxygen balances give it) or as an entry list.
 //
 // The whole system is solved by flexible GMRES (solver/linalg/fgmres.hpp), right-preconditioned
 // by a block factorisation per species pair (liquid O2 with gas O2, liquid CO2 with gas CO2,
@@ -37,10 +39,25 @@ struct ZoneLayout {
   int zones = 0;  //!< four unknowns per zone; 0: the problem has no zone layout
 };
 
+//! The couplings between zones of a Jacobian given by parts: the problem's own transport
+//! matrices (zones x zones, a diagonal entry stored in every column), the liquid's for species 0
+//! and 1 and the gas's for 2 and 3. They are held by pointer while the solve uses them.
+struct ZoneTransports {
+  const Eigen::SparseMatrix<double>* liquid = nullptr;
+  const Eigen::SparseMatrix<double>* gas = nullptr;
+};
+
 class ZoneBlockSolver {
  public:
   static constexpr int kSpecies = 4;
   using Triplets = std::vector<Eigen::Triplet<double>>;
+  //! Everything of a zone's rows that is not transport: a 4 x 4 block, row-major, diagonal included.
+  using LocalBlock = std::array<double, kSpecies * kSpecies>;
+  //! The Jacobian by parts, without an entry list: fill every entry of the blocks begin_parts()
+  //! returns (one per zone), then accept_parts() with the transports they add to. False when a
+  //! transport lacks the layout's shape; the caller then lists the Jacobian instead.
+  std::vector<LocalBlock>& begin_parts(const ZoneLayout& layout);
+  bool accept_parts(const ZoneTransports& transports);
   //! Takes the Jacobian (triplets, duplicates summed) of a problem with this layout. False when
   //! the Jacobian does not have the structure above.
   bool accept(const ZoneLayout& layout, const Triplets& t);
@@ -74,7 +91,6 @@ class ZoneBlockSolver {
   const SolverOptions& options() const { return options_; }
 
  private:
-  using Local = std::array<double, kSpecies * kSpecies>;  // row-major, cross-species entries of a zone
   void multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) const;  // out = J x
   void precondition(const Eigen::VectorXf& v, Eigen::VectorXf& out);   // out ~ J^-1 v
   void precondition_pair(int pair, const Eigen::VectorXf& v);
@@ -84,8 +100,10 @@ class ZoneBlockSolver {
 
   SolverOptions options_;
   int n_ = 0;
-  std::array<Eigen::SparseMatrix<double>, kSpecies> m_;  // same-species couplings, diagonal included
-  std::vector<Local> local_;                             // per zone
+  // Same-species couplings of each species: the transports given by parts, or m_ (a listed Jacobian).
+  std::array<const Eigen::SparseMatrix<double>*, kSpecies> block_{};
+  std::array<Eigen::SparseMatrix<double>, kSpecies> m_;  // listed: same-species couplings, diagonal included
+  std::vector<LocalBlock> local_;  // per zone; a listed Jacobian keeps its diagonal in m_, not here
   // Where each entry of the last full accept() was added: part << kPartShift | position.
   static constexpr std::uint32_t kLocalPart = kSpecies, kPartShift = 29, kSlotMask = (1u << kPartShift) - 1;
   std::vector<std::uint32_t> slot_;
@@ -97,7 +115,6 @@ class ZoneBlockSolver {
   std::vector<std::array<double, 2>> gas_from_liquid_;  // C of each pair at the refresh, per zone
   bool multigrid_ = false;
   bool factored_ = false, have_jacobian_ = false;
-  bool shared_pattern_ = false;  // the four blocks have one pattern (multiply() takes them together)
   bool fused_ = false;  // the O2 and CO2 exact LUs share their symbolic part: solved together
   int factorisations_ = 0;
   Fgmres krylov_;

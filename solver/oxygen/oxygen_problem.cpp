@@ -52,6 +52,41 @@ void OxygenProblem::jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triple
   jacobian_zones(x, 0, n_, t);
 }
 
+// The derivatives of a zone's transfer, uptake and gas composition terms: its 4 x 4 block
+// (row-major; rows and columns liquid O2, liquid CO2, gas O2, gas CO2).
+ZoneBlockSolver::LocalBlock OxygenProblem::local_block(const Eigen::VectorXd& x, int k) const {
+  const double go = x[4 * k + 2], gc = x[4 * k + 3];
+  const double total = go + gc + coeff_.inert_mol_m3[k];
+  const double t_o = coeff_.transfer_o2[k], t_c = coeff_.transfer_co2[k];
+  const double k_o = coeff_.cstar_per_y_o2[k], k_c = coeff_.cstar_per_y_co2[k];
+  // d y / d g_O2 = (total - g_O2) / total^2, d y / d g_CO2 = -g_O2 / total^2; likewise for CO2.
+  double dy_dgo = 0.0, dy_dgc = 0.0, dyc_dgc = 0.0, dyc_dgo = 0.0;
+  if (total > 0.0) {
+    const double t2 = total * total;
+    dy_dgo = (total - go) / t2;
+    dy_dgc = -go / t2;
+    dyc_dgc = (total - gc) / t2;
+    dyc_dgo = -gc / t2;
+  }
+  const double dour = uptake_.dour(x[4 * k]) * uptake_.scale(k) * net_.volume[k];
+  // d OTR / d(C, g_O2, g_CO2) and d CTR / d(D, g_O2, g_CO2)
+  const double otr_c = -t_o, otr_go = t_o * k_o * dy_dgo, otr_gc = t_o * k_o * dy_dgc;
+  const double ctr_d = -t_c, ctr_gc = t_c * k_c * dyc_dgc, ctr_go = t_c * k_c * dyc_dgo;
+  return {otr_c - dour, 0.0,    otr_go,  otr_gc,   //
+          uptake_.rq * dour, ctr_d, ctr_go, ctr_gc,  //
+          -otr_c, 0.0, -otr_go, -otr_gc,             //
+          0.0, -ctr_d, -ctr_go, -ctr_gc};
+}
+
+bool OxygenProblem::jacobian_parts(const Eigen::VectorXd& x, std::vector<ZoneBlockSolver::LocalBlock>& local,
+                                   ZoneTransports& transports) const {
+  if (static_cast<int>(local.size()) != n_) return false;
+#pragma omp parallel for schedule(static) if (n_ >= 50000)
+  for (int k = 0; k < n_; ++k) local[k] = local_block(x, k);
+  transports = {&transport_, &gas_transport_};
+  return true;
+}
+
 // Zone by zone: the zone's column of both transports, then its local block. Any split into ranges
 // gives the same list, and every matrix entry receives its terms in the same order (transport
 // before local), so the sums are the same to the bit.
@@ -73,36 +108,20 @@ bool OxygenProblem::jacobian_zones(const Eigen::VectorXd& x, int zone_begin, int
       t.emplace_back(4 * it.row() + 3, 4 * k + 3, it.value());
     }
     const int c = 4 * k, d = c + 1, o = c + 2, q = c + 3;
-    const double go = x[o], gc = x[q];
-    const double total = go + gc + coeff_.inert_mol_m3[k];
-    const double t_o = coeff_.transfer_o2[k], t_c = coeff_.transfer_co2[k];
-    const double k_o = coeff_.cstar_per_y_o2[k], k_c = coeff_.cstar_per_y_co2[k];
-    // d y / d g_O2 = (total - g_O2) / total^2, d y / d g_CO2 = -g_O2 / total^2; likewise for CO2.
-    double dy_dgo = 0.0, dy_dgc = 0.0, dyc_dgc = 0.0, dyc_dgo = 0.0;
-    if (total > 0.0) {
-      const double t2 = total * total;
-      dy_dgo = (total - go) / t2;
-      dy_dgc = -go / t2;
-      dyc_dgc = (total - gc) / t2;
-      dyc_dgo = -gc / t2;
-    }
-    const double dour = uptake_.dour(x[c]) * uptake_.scale(k) * net_.volume[k];
-    // d OTR / d(C, g_O2, g_CO2) and d CTR / d(D, g_O2, g_CO2)
-    const double otr_c = -t_o, otr_go = t_o * k_o * dy_dgo, otr_gc = t_o * k_o * dy_dgc;
-    const double ctr_d = -t_c, ctr_gc = t_c * k_c * dyc_dgc, ctr_go = t_c * k_c * dyc_dgo;
-    t.emplace_back(c, c, otr_c - dour);
-    t.emplace_back(c, o, otr_go);
-    t.emplace_back(c, q, otr_gc);
-    t.emplace_back(d, d, ctr_d);
-    t.emplace_back(d, c, uptake_.rq * dour);
-    t.emplace_back(d, q, ctr_gc);
-    t.emplace_back(d, o, ctr_go);
-    t.emplace_back(o, c, -otr_c);
-    t.emplace_back(o, o, -otr_go);
-    t.emplace_back(o, q, -otr_gc);
-    t.emplace_back(q, d, -ctr_d);
-    t.emplace_back(q, q, -ctr_gc);
-    t.emplace_back(q, o, -ctr_go);
+    const auto b = local_block(x, k);
+    t.emplace_back(c, c, b[0]);
+    t.emplace_back(c, o, b[2]);
+    t.emplace_back(c, q, b[3]);
+    t.emplace_back(d, d, b[5]);
+    t.emplace_back(d, c, b[4]);
+    t.emplace_back(d, q, b[7]);
+    t.emplace_back(d, o, b[6]);
+    t.emplace_back(o, c, b[8]);
+    t.emplace_back(o, o, b[10]);
+    t.emplace_back(o, q, b[11]);
+    t.emplace_back(q, d, b[13]);
+    t.emplace_back(q, q, b[15]);
+    t.emplace_back(q, o, b[14]);
   }
   return true;
 }

@@ -64,11 +64,14 @@ class OxygenProblem : public SteadyProblem {
   void jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const override;
   bool jacobian_zones(const Eigen::VectorXd& x, int zone_begin, int zone_end,
                       std::vector<Eigen::Triplet<double>>& t) const override;
+  bool jacobian_parts(const Eigen::VectorXd& x, std::vector<ZoneBlockSolver::LocalBlock>& local,
+                      ZoneTransports& transports) const override;
   double residual_scale() const override { return scale_; }
   //! Liquid O2, CO2 then gas O2, CO2 per zone.
   ZoneLayout zone_layout() const override { return {n_}; }
 
  private:
+  ZoneBlockSolver::LocalBlock local_block(const Eigen::VectorXd& x, int k) const;
   const ZoneNetwork& net_;
   const SparseMatrix& transport_;
   const SparseMatrix& gas_transport_;

@@ -34,6 +34,15 @@ class EulerStep : public SteadyProblem {
     }
     return true;
   }
+  bool jacobian_parts(const Eigen::VectorXd& x, std::vector<ZoneBlockSolver::LocalBlock>& local,
+                      ZoneTransports& transports) const override {
+    if (!p_.jacobian_parts(x, local, transports)) return false;
+    for (int k = 0; k < net_.size(); ++k) {
+      local[k][0] -= net_.volume[k] / h_;
+      local[k][5] -= net_.volume[k] / h_;
+    }
+    return true;
+  }
   double residual_scale() const override { return scale_; }
   //! Same unknowns and gas routing as the steady problem: the structured solve applies.
   ZoneLayout zone_layout() const override { return p_.zone_layout(); }
