@@ -24,6 +24,10 @@ struct SolverOptions {
   //! on the halved grid (nested iteration; solver/oxygen/nested_start.hpp). Nesting already pays
   //! near 5000 zones; below it the bundled cases keep the direct cold solve (bench/notes.md).
   int nested_start_from_zones = 5000;
+  //! Up to this many unknowns the general sparse LU takes over when the structured solve fails;
+  //! above it its fill would outgrow the memory of a workstation (a million zones asked for
+  //! more than 23 GB), so the solve stops with an error instead.
+  int general_lu_up_to_unknowns = 400000;
 
   bool operator==(const SolverOptions&) const = default;
 };

@@ -128,6 +128,12 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
     structured_iterations = rep.iterations;  // carried on by the general path from x
     linear_iterations = rep.linear_iterations;
     ws.refresh_blocks = true;
+    if (n > opts.linear.general_lu_up_to_unknowns) {
+      // The general LU's fill would take more memory than such a machine has: stop, and say why.
+      rep.converged = false;
+      rep.general_lu_refused = true;
+      return rep;
+    }
     rep = NewtonReport{};
   }
   const auto finish = [&](NewtonReport out) {

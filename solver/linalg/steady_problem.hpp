@@ -53,6 +53,8 @@ struct NewtonReport {
   double residual = 0.0;  //!< final max |r_i| / residual_scale()
   int linear_iterations = 0;  //!< Krylov iterations of the structured solve
   bool structured = false;    //!< the structured solve produced the result
+  //! The structured solve failed and the problem was too large for the general LU to take over.
+  bool general_lu_refused = false;
 };
 
 //! What one Newton solve leaves for the next one on the same sparsity pattern: the symbolic

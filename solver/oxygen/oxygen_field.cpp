@@ -238,6 +238,12 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
       }
     }
     if (!rep.converged) {
+      if (rep.general_lu_refused) {
+        throw SolveError(fmt::format(
+            "the steady oxygen solve did not converge: the structured linear solve failed after {} Newton "
+            "iterations and {} zones are too many for the general sparse LU to take over. Try a coarser grid",
+            rep.iterations, n));
+      }
       throw SolveError(fmt::format(
           "the steady oxygen solve did not converge (scaled residual {:.3g} after {} Newton iterations). Try a "
           "finer or coarser grid, a lower biomass, or check gas flow and speed",

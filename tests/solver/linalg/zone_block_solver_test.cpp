@@ -447,6 +447,20 @@ TEST(ZoneBlockSolver, RefusesSpeciesCoupledAcrossZonesAndNewtonFallsBackToTheLu)
   EXPECT_LE((x1 - x2).cwiseAbs().maxCoeff(), 1e-8 * scale);
 }
 
+TEST(ZoneBlockSolver, NoGeneralLuFallbackAboveItsSize) {
+  const Balances bal(testing::gassed_vessel(4, 10));
+  const auto p = bal.problem();
+  const CrossCoupled wrong(p);
+  Eigen::VectorXd x = bal.f.state;
+  for (int i = 0; i < x.size(); i += 4) x[i] *= 0.5;
+  NewtonOptions small;
+  small.linear.general_lu_up_to_unknowns = wrong.size() - 1;  // this problem counts as too large
+  const auto r = solve_newton(wrong, x, small);
+  EXPECT_FALSE(r.converged);
+  EXPECT_TRUE(r.general_lu_refused);
+  EXPECT_FALSE(r.structured);
+}
+
 TEST(ZoneBlockSolver, ImplicitEulerFormSolvesLikeTheGeneralLu) {
   const Balances bal(testing::gassed_vessel(5, 12));
   const auto p = bal.problem();
