@@ -38,7 +38,8 @@ double zone_bubble_size(const Case& c, double formed_m, double epsilon, double s
 
 // Solves G g = -s: the gas each zone holds when a unit flow enters by the shares s and none
 // dissolves. G is an M-matrix (transport with outflow at the surface): an exact sparse LU on small
-// and mid-sized networks, GMRES with aggregation multigrid on large ones.
+// and mid-sized networks, GMRES with aggregation multigrid on large ones (to the options' relative
+// tolerance: the off-gas then equals the sparged gas to that tolerance times at most sqrt(N)).
 std::vector<double> carried_gas(const SparseMatrix& g, const std::vector<double>& share, const SolverOptions& o) {
   const int n = static_cast<int>(share.size());
   Eigen::VectorXd b(n);
@@ -64,7 +65,7 @@ std::vector<double> carried_gas(const SparseMatrix& g, const std::vector<double>
                         mg.solve(v);
                         out = v.cast<float>();
                       },
-                      b, x, 1e-12, fo);
+                      b, x, o.gas_routing_tolerance, fo);
   }
   if (!ok || !x.allFinite()) throw SolveError("the gas transport could not be solved (a zone the gas cannot leave?)");
   return {x.data(), x.data() + n};

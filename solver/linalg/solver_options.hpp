@@ -24,6 +24,10 @@ struct SolverOptions {
   //! on the halved grid (nested iteration; solver/oxygen/nested_start.hpp). Nesting already pays
   //! near 5000 zones; below it the bundled cases keep the direct cold solve (bench/notes.md).
   int nested_start_from_zones = 5000;
+  //! Relative residual of the multigrid solve for the gas each zone carries (gas routing): the
+  //! sparged gas leaves through the surface to this times at most sqrt(zones). 1e-10 costs a
+  //! sixth less than 1e-12 at 2.5e5 zones; the nested start's coarse grids take 1e-8 (a seed).
+  double gas_routing_tolerance = 1e-10;
   //! Up to this many unknowns the general sparse LU takes over when the structured solve fails;
   //! above it its fill would outgrow the memory of a workstation (a million zones asked for
   //! more than 23 GB), so the solve stops with an error instead.

@@ -80,13 +80,16 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
     double eta = r2_previous > 0.0 ? 0.9 * (r2 / r2_previous) * (r2 / r2_previous) : 1e-2;
     eta = std::min(0.1, std::max(eta, 0.1 * opts.tolerance * p.residual_scale() / r2));
     r2_previous = r2;
-    bool solved = blocks.solve(-r, dx, eta);
+    // The right-hand side -r in r's own storage (no temporary of the system's size): r is not
+    // needed again, the line search replaces it.
+    r = -r;
+    bool solved = blocks.solve(r, dx, eta);
     rep.linear_iterations += blocks.last_iterations();
     if ((!solved || blocks.last_iterations() > 25) && !fresh) {
       // A frozen preconditioner that has drifted: refactor at this Jacobian and try again.
       if (!blocks.refresh_preconditioner()) return false;
       fresh = true;
-      solved = blocks.solve(-r, dx, eta);
+      solved = blocks.solve(r, dx, eta);
       rep.linear_iterations += blocks.last_iterations();
     }
     if (!solved) return false;
