@@ -221,6 +221,7 @@ bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vec
     // Double pairwise aggregation: aggregates of up to four rows, coarsening by about 4.
     Csr coarse;
     bool last = b.n <= options.multigrid_coarsest_size;
+    bool smoother_only = false;
     if (!last) {
       std::vector<int> first, second;
       const int n1 = pair_up(b, first);
@@ -230,8 +231,12 @@ bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vec
       for (int i = 0; i < b.n; ++i) lev.aggregate[i] = first[i] < 0 ? -1 : second[first[i]];
       last = n2 == 0 || n2 > 0.8 * b.n;  // coarsening has stalled
       if (!last) coarse = galerkin(b1, second, n2);
+      // Stalled above the coarsest size: rows that dominate their couplings (a short implicit
+      // step, V >> h L) or no strong pairs. The smoother alone then ends the cycle; an LU of a
+      // level this large would cost more than the whole hierarchy.
+      smoother_only = last;
     }
-    if (last) {
+    if (last && !smoother_only) {
       lev.aggregate.clear();
       std::vector<Eigen::Triplet<double>> t;
       t.reserve(b.col.size());
@@ -244,6 +249,7 @@ bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vec
       if (!coarsest_.factorize(m, options.supernodal_lu_from)) return false;
       coarse_scratch_.resize(b.n);
     } else {
+      if (smoother_only) lev.aggregate.clear();
       sort_rows(b);
       std::vector<double> lu = b.val;
       if (!ilu0(b.start, b.col, lu, lev.diag_pos)) return false;
@@ -264,6 +270,7 @@ bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vec
     lev.col = std::move(b.col);
     lev.val.assign(b.val.begin(), b.val.end());
     levels_.push_back(std::move(lev));
+    smoother_only_last_ = smoother_only;
     if (last) return true;
     b = std::move(coarse);
   }
@@ -348,6 +355,10 @@ void ScalarMultigrid::cycle(int l) const {
   const int n = lev.n;
   auto &x = lev.x, &r = lev.r;
   const auto& b = lev.b;
+  if (l + 1 == static_cast<int>(levels_.size()) && smoother_only_last_) {
+    ilu_solve(lev, b, x, nullptr);
+    return;
+  }
   if (l + 1 == static_cast<int>(levels_.size())) {
     for (int i = 0; i < n; ++i) coarse_scratch_[i] = b[i];
     coarsest_.solve(coarse_scratch_);

@@ -8,7 +8,9 @@
 // Vassilevski 2008: two GCR steps on each coarse level, which keeps the rate of the two-level
 // method at any depth where plain aggregation's V- and W-cycles degrade), ILU(0) smoothing
 // before and after the coarse correction (robust for convection, Wittum 1989), and ScalarLu on
-// the coarsest level. The K-cycle makes the operator vary slightly with its argument, so the
+// the coarsest level; where coarsening stalls above that size (rows that dominate their
+// couplings, as a short implicit time step makes them), ILU(0) alone ends the cycle. The
+// K-cycle makes the operator vary slightly with its argument, so the
 // outer Krylov method must be flexible (the zone block solver's GMRES is).
 //
 // The blocks are transport with zero column sums minus a non-negative diagonal: -A is an
@@ -54,6 +56,7 @@ class ScalarMultigrid {
   static void ilu_solve(const Level& lev, const std::vector<double>& in, std::vector<double>& r, std::vector<double>* add_to);
 
   std::vector<Level> levels_;
+  bool smoother_only_last_ = false;  // the last level is smoothed, not factorised (setup())
   ScalarLu coarsest_;
   mutable Eigen::VectorXd coarse_scratch_;
 };
