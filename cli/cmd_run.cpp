@@ -25,6 +25,9 @@
 
 namespace oxystrat::cli {
 
+// From this many grid cells on, `run` announces its stages (each takes minutes there).
+constexpr long kAnnounceStagesFromZones = 50000;
+
 struct RunOptions {
   CaseOptions case_opts;
   OutputOptions out;
@@ -49,14 +52,23 @@ void add_run_command(CLI::App& app) {
     const auto loaded = load_case(opts->case_opts);
     const Case& c = loaded.data;
     RunFolder folder(opts->out.out_dir, opts->out.force);
+    // A large grid takes minutes per stage: say what is being done (stderr, so the report on
+    // stdout stays as it is).
+    const bool large = static_cast<long>(c.grid.radial) * c.grid.axial >= kAnnounceStagesFromZones;
+    const auto stage = [large](const std::string& what) {
+      if (large) fmt::print(stderr, "oxystrat run: {} ...\n", what);
+    };
+    stage(fmt::format("steady O2/CO2 field on a {} x {} grid", c.grid.radial, c.grid.axial));
     const auto run = run_case(c);
     const auto& net = run.net;
     const auto& hydro = run.hydro;
+    stage(fmt::format("mixing time (theta95) on {} zones", net.size()));
     const double theta = tracer_mixing_time(net, hydro, {}).theta_s;
     auto verdict = make_verdict(c, run);
     if (!verdict.meets && run.field && !opts->no_levers) {
       std::vector<Override> overrides;
       for (const auto& s : opts->case_opts.sets) overrides.push_back(parse_override(s));
+      stage("the levers that would make the case pass");
       verdict.advice = lever_advice(study_levers(loaded, overrides, {}));
     }
     fmt::print("{}", verdict_text(c, verdict));
