@@ -1,6 +1,7 @@
 #include "solver/oxygen/oxygen_problem.hpp"
 
 #include <algorithm>
+#include <array>
 
 namespace oxystrat {
 
@@ -107,21 +108,10 @@ bool OxygenProblem::jacobian_zones(const Eigen::VectorXd& x, int zone_begin, int
       t.emplace_back(4 * it.row() + 2, 4 * k + 2, it.value());
       t.emplace_back(4 * it.row() + 3, 4 * k + 3, it.value());
     }
-    const int c = 4 * k, d = c + 1, o = c + 2, q = c + 3;
+    // The local block's non-zero entries (row-major positions), in the order the list has always had.
+    constexpr std::array<int, 13> kListed = {0, 2, 3, 5, 4, 7, 6, 8, 10, 11, 13, 15, 14};
     const auto b = local_block(x, k);
-    t.emplace_back(c, c, b[0]);
-    t.emplace_back(c, o, b[2]);
-    t.emplace_back(c, q, b[3]);
-    t.emplace_back(d, d, b[5]);
-    t.emplace_back(d, c, b[4]);
-    t.emplace_back(d, q, b[7]);
-    t.emplace_back(d, o, b[6]);
-    t.emplace_back(o, c, b[8]);
-    t.emplace_back(o, o, b[10]);
-    t.emplace_back(o, q, b[11]);
-    t.emplace_back(q, d, b[13]);
-    t.emplace_back(q, q, b[15]);
-    t.emplace_back(q, o, b[14]);
+    for (const int at : kListed) t.emplace_back(4 * k + at / 4, 4 * k + at % 4, b[at]);
   }
   return true;
 }

@@ -196,15 +196,27 @@ TEST(ZoneBlockSolver, StructuredNewtonGivesTheFieldOfTheGeneralLu) {
   }
 }
 
-TEST(ZoneBlockSolver, LinearSolveMeetsItsResidualOnTheAssembledJacobian) {
-  const Balances bal(testing::gassed_vessel(5, 12));
-  const auto p = bal.problem();
-  Eigen::VectorXd x = bal.f.state;
+// A state moved off the solution, so that the Jacobian is not the solution's.
+Eigen::VectorXd moved_off(Eigen::VectorXd x) {
   for (int i = 0; i < x.size(); ++i) x[i] *= 1.0 + 0.2 * std::sin(3.0 * i);
-  std::vector<Eigen::Triplet<double>> t;
+  return x;
+}
+
+// The problem's Jacobian at x as its entry list t and assembled.
+Eigen::SparseMatrix<double> assembled_jacobian(const SteadyProblem& p, const Eigen::VectorXd& x,
+                                               std::vector<Eigen::Triplet<double>>& t) {
   p.jacobian(x, t);
   Eigen::SparseMatrix<double> j(p.size(), p.size());
   j.setFromTriplets(t.begin(), t.end());
+  return j;
+}
+
+TEST(ZoneBlockSolver, LinearSolveMeetsItsResidualOnTheAssembledJacobian) {
+  const Balances bal(testing::gassed_vessel(5, 12));
+  const auto p = bal.problem();
+  const Eigen::VectorXd x = moved_off(bal.f.state);
+  std::vector<Eigen::Triplet<double>> t;
+  const auto j = assembled_jacobian(p, x, t);
   ZoneBlockSolver s;
   ASSERT_TRUE(s.accept(p.zone_layout(), t));
   ASSERT_TRUE(s.refresh_preconditioner());
@@ -234,12 +246,9 @@ TEST(ZoneBlockSolver, LinearSolveMeetsItsResidualOnTheAssembledJacobian) {
 TEST(ZoneBlockSolver, JacobianByPartsIsTheListedJacobian) {
   const Balances bal(testing::gassed_vessel(5, 12));
   const auto p = bal.problem();
-  Eigen::VectorXd x = bal.f.state;
-  for (int i = 0; i < x.size(); ++i) x[i] *= 1.0 + 0.2 * std::sin(3.0 * i);
+  const Eigen::VectorXd x = moved_off(bal.f.state);
   std::vector<Eigen::Triplet<double>> t;
-  p.jacobian(x, t);
-  Eigen::SparseMatrix<double> j(p.size(), p.size());
-  j.setFromTriplets(t.begin(), t.end());
+  const auto j = assembled_jacobian(p, x, t);
   Eigen::VectorXd b(p.size());
   for (int i = 0; i < b.size(); ++i) b[i] = std::cos(0.7 * i) * (i % 4 < 2 ? 1.0 : 1e-3);
   for (int multigrid_from : {1 << 30, 1}) {  // exact LU blocks, then multigrid
