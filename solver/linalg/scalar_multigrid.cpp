@@ -270,7 +270,6 @@ bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vec
     lev.col = std::move(b.col);
     lev.val.assign(b.val.begin(), b.val.end());
     levels_.push_back(std::move(lev));
-    smoother_only_last_ = smoother_only;
     if (last) return true;
     b = std::move(coarse);
   }
@@ -355,11 +354,11 @@ void ScalarMultigrid::cycle(int l) const {
   const int n = lev.n;
   auto &x = lev.x, &r = lev.r;
   const auto& b = lev.b;
-  if (l + 1 == static_cast<int>(levels_.size()) && smoother_only_last_) {
-    ilu_solve(lev, b, x, nullptr);
-    return;
-  }
   if (l + 1 == static_cast<int>(levels_.size())) {
+    if (!lev.lu.empty()) {  // coarsening stalled here: the smoother ends the cycle (setup())
+      ilu_solve(lev, b, x, nullptr);
+      return;
+    }
     for (int i = 0; i < n; ++i) coarse_scratch_[i] = b[i];
     coarsest_.solve(coarse_scratch_);
     for (int i = 0; i < n; ++i) x[i] = coarse_scratch_[i];

@@ -56,7 +56,6 @@ class ScalarMultigrid {
   static void ilu_solve(const Level& lev, const std::vector<double>& in, std::vector<double>& r, std::vector<double>* add_to);
 
   std::vector<Level> levels_;
-  bool smoother_only_last_ = false;  // the last level is smoothed, not factorised (setup())
   ScalarLu coarsest_;
   mutable Eigen::VectorXd coarse_scratch_;
 };
