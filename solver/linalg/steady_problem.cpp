@@ -9,6 +9,13 @@ namespace {
 // Scaled max norm (the convergence test) and scaled 2-norm squared (the line-search merit).
 double max_norm(const SteadyProblem& p, const Eigen::VectorXd& r) { return r.cwiseAbs().maxCoeff() / p.residual_scale(); }
 
+// Converged: every equation and every conserved total within tolerance (both kept in the report).
+bool converged(const SteadyProblem& p, const Eigen::VectorXd& r, const NewtonOptions& opts, NewtonReport& rep) {
+  rep.residual = max_norm(p, r);
+  rep.imbalance = p.largest_imbalance(r);
+  return rep.residual < opts.tolerance && rep.imbalance <= opts.balance_tolerance;
+}
+
 double merit(const SteadyProblem& p, const Eigen::VectorXd& x, Eigen::VectorXd& r) {
   p.residual(x, r);
   if (!r.allFinite()) return std::numeric_limits<double>::infinity();
@@ -61,8 +68,7 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
   double r2_previous = 0.0;
   auto& blocks = ws.blocks;
   for (rep.iterations = 0; rep.iterations < opts.max_iterations; ++rep.iterations) {
-    rep.residual = max_norm(p, r);
-    if (rep.residual < opts.tolerance) {
+    if (converged(p, r, opts, rep)) {
       rep.converged = rep.structured = true;
       return true;
     }
@@ -111,8 +117,7 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
     r.swap(r_try);
     m = m_try;
   }
-  rep.residual = max_norm(p, r);
-  rep.converged = rep.structured = rep.residual < opts.tolerance;
+  rep.converged = rep.structured = converged(p, r, opts, rep);
   return true;
 }
 
@@ -166,8 +171,7 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
   };
   double m = merit(p, x, r);
   for (rep.iterations = 0; rep.iterations < opts.max_iterations; ++rep.iterations) {
-    rep.residual = max_norm(p, r);
-    if (rep.residual < opts.tolerance) {
+    if (converged(p, r, opts, rep)) {
       rep.converged = true;
       return finish(rep);
     }
@@ -207,8 +211,7 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
     r = r_try;
     m = m_try;
   }
-  rep.residual = max_norm(p, r);
-  rep.converged = rep.residual < opts.tolerance;
+  rep.converged = converged(p, r, opts, rep);
   return finish(rep);
 }
 

@@ -35,6 +35,11 @@ class SteadyProblem {
   }
   //! Residual magnitude that counts as zero for each equation (same units as the residual).
   virtual double residual_scale() const = 0;
+  //! The largest imbalance of a conserved quantity over the whole problem (a sum of residual
+  //! entries, e.g. O2 fed minus O2 leaving and taken up), over residual_scale(). The max-norm test
+  //! alone lets the residuals of N equations add up to N times its tolerance; Newton stops only
+  //! when this is within NewtonOptions::balance_tolerance too. Default: nothing to conserve.
+  virtual double largest_imbalance(const Eigen::VectorXd& /*r*/) const { return 0.0; }
   //! A problem with the zone layout of zone_block_solver.hpp says so here (zones > 0), and
   //! solve_newton then uses the structured linear solve; the default is a general sparse LU.
   virtual ZoneLayout zone_layout() const { return {}; }
@@ -43,6 +48,9 @@ class SteadyProblem {
 struct NewtonOptions {
   int max_iterations = 60;
   double tolerance = 1e-12;  //!< max |r_i| / residual_scale() at convergence
+  //! SteadyProblem::largest_imbalance() at convergence: a tenth of the 1e-9 to which the vessel's
+  //! O2 balance must close, on networks of any size.
+  double balance_tolerance = 1e-10;
   bool structured = true;    //!< use the structured solve when the problem has a zone layout
   SolverOptions linear;      //!< size thresholds of the linear solves and the nested start
 };
@@ -51,6 +59,7 @@ struct NewtonReport {
   bool converged = false;
   int iterations = 0;
   double residual = 0.0;  //!< final max |r_i| / residual_scale()
+  double imbalance = 0.0;  //!< final SteadyProblem::largest_imbalance()
   int linear_iterations = 0;  //!< Krylov iterations of the structured solve
   bool structured = false;    //!< the structured solve produced the result
   //! The structured solve failed and the problem was too large for the general LU to take over.
@@ -77,7 +86,8 @@ struct NewtonWorkspace {
   }
 };
 
-//! Damped Newton: backtracking on the 2-norm of the residual; converged on max |r_i| / scale.
+//! Damped Newton: backtracking on the 2-norm of the residual; converged on max |r_i| / scale and
+//! on the problem's conserved totals (largest_imbalance()).
 //! For a problem with a zone layout: inexact Newton, each step solved by the structured solver
 //! (zone_block_solver.hpp) to a relative linear residual of at most 1e-4, tighter near the end so
 //! that the last step lands inside the tolerance; should that solve fail, the general path

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <exception>
+#include <limits>
 #include <optional>
 
 #include "solver/flow/gas_routing.hpp"
@@ -130,6 +131,7 @@ bool seed_from_coarse_grid(const OxygenContext& ctx, double biomass_kg_m3, const
     seed_linear.gas_routing_tolerance = std::max(newton.linear.gas_routing_tolerance, kCoarseRoutingTolerance);
     const GasRouting routing = route_gas(coarse_case, *net, hydro, seed_linear);
     NewtonOptions loose = newton;
+    loose.balance_tolerance = std::numeric_limits<double>::infinity();  // a seed: the fine solve closes them
     loose.tolerance = std::max(newton.tolerance, kCoarseTolerance);
     coarse = solve_oxygen_field({coarse_case, *net, hydro, routing}, biomass_kg_m3, nullptr, nullptr, loose);
   } catch (const std::exception&) {

@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <cmath>
 #include <numbers>
+#include <limits>
 #include <numeric>
 
 #include "physics/bubbles.hpp"
@@ -219,6 +220,7 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
     // a hundredfold only; the last pass (holdup settled) is solved to the full tolerance.
     NewtonOptions pass = newton;
     if (!last) {
+      pass.balance_tolerance = std::numeric_limits<double>::infinity();  // the last pass closes the balances
       Eigen::VectorXd r(problem.size());
       problem.residual(x, r);
       pass.tolerance = std::max(newton.tolerance, 1e-2 * r.cwiseAbs().maxCoeff() / problem.residual_scale());

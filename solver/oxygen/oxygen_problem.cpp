@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <array>
+#include <cmath>
 
 namespace oxystrat {
 
@@ -47,6 +48,16 @@ void OxygenProblem::residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const
     r[4 * k + 2] += inlet_o2_ * net_.sparger_share[k] - otr;
     r[4 * k + 3] += inlet_co2_ * net_.sparger_share[k] - ctr;
   }
+}
+
+double OxygenProblem::largest_imbalance(const Eigen::VectorXd& r) const {
+  std::array<double, 4> sum{};
+  for (int k = 0; k < n_; ++k) {
+    for (int s = 0; s < 4; ++s) sum[s] += r[4 * k + s];
+  }
+  double largest = 0.0;
+  for (const double v : sum) largest = std::max(largest, std::abs(v));
+  return largest / scale_;
 }
 
 void OxygenProblem::jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const {

@@ -67,6 +67,10 @@ class OxygenProblem : public SteadyProblem {
   bool jacobian_parts(const Eigen::VectorXd& x, std::vector<ZoneBlockSolver::LocalBlock>& local,
                       ZoneTransports& transports) const override;
   double residual_scale() const override { return scale_; }
+  //! The vessel's balances, each phase and species over all zones: the liquid's transport moves
+  //! and the gas's carries out through the surface only, so the sum of the gas O2 rows is O2 fed
+  //! minus off-gas minus transferred, that of the liquid O2 rows transferred minus taken up.
+  double largest_imbalance(const Eigen::VectorXd& r) const override;
   //! Liquid O2, CO2 then gas O2, CO2 per zone.
   ZoneLayout zone_layout() const override { return {n_}; }
 

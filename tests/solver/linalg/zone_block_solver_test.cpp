@@ -6,6 +6,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <omp.h>
 
 #include "case_fixtures.hpp"
@@ -454,6 +455,58 @@ TEST(ZoneBlockSolver, RefusesSpeciesCoupledAcrossZonesAndNewtonFallsBackToTheLu)
   // DO scale; 1e-8 relative as in the test above.
   const double scale = x2.cwiseAbs().maxCoeff();
   EXPECT_LE((x1 - x2).cwiseAbs().maxCoeff(), 1e-8 * scale);
+}
+
+TEST(SteadyNewton, ImbalanceCoversTheVesselsO2Balances) {
+  // Verification: the sums of the residual rows are the vessel's balances, computed here from
+  // their terms (fed, off-gas, transferred, taken up) at a state off the solution.
+  const Balances bal(testing::gassed_vessel(6, 16));
+  const auto p = bal.problem();
+  const Eigen::VectorXd x = moved_off(bal.f.state);
+  Eigen::VectorXd r(p.size());
+  p.residual(x, r);
+  const int n = bal.ch.net.size();
+  std::vector<double> gas_o2(n);
+  double transferred = 0.0, taken_up = 0.0;
+  for (int k = 0; k < n; ++k) {
+    gas_o2[k] = x[4 * k + 2];
+    const double total = x[4 * k + 2] + x[4 * k + 3] + bal.coeff.inert_mol_m3[k];
+    transferred += bal.coeff.transfer_o2[k] * (bal.coeff.cstar_per_y_o2[k] * x[4 * k + 2] / total - x[4 * k]);
+    taken_up += bal.u.our(x[4 * k]) * bal.ch.net.volume[k];
+  }
+  const double gas_side = (bal.f.o2_in_mol_s - surface_flow(bal.ch.routing, gas_o2) - transferred) / p.residual_scale();
+  const double liquid_side = (transferred - taken_up) / p.residual_scale();
+  ASSERT_GT(std::max(std::abs(gas_side), std::abs(liquid_side)), 1e-3);  // far from closed: a real check
+  // Round-off of the sums over the zones' terms (each of order one against the scale).
+  EXPECT_GE(p.largest_imbalance(r), std::max(std::abs(gas_side), std::abs(liquid_side)) - 1e-12);
+  double gas_rows = 0.0, liquid_rows = 0.0;
+  for (int k = 0; k < n; ++k) gas_rows += r[4 * k + 2], liquid_rows += r[4 * k];
+  EXPECT_NEAR(gas_rows / p.residual_scale(), gas_side, 1e-12);
+  EXPECT_NEAR(liquid_rows / p.residual_scale(), liquid_side, 1e-12);
+}
+
+TEST(SteadyNewton, StopsOnlyWhenTheBalancesCloseToo) {
+  // A loose max-norm test alone stops with the vessel's balances open (every zone's residual
+  // within it, their sum not); with the balance test Newton goes on until they close.
+  const Balances bal(testing::gassed_vessel(6, 16));
+  const auto p = bal.problem();
+  NewtonOptions loose;
+  loose.tolerance = 1e-4;
+  loose.balance_tolerance = std::numeric_limits<double>::infinity();
+  Eigen::VectorXd a = moved_off(bal.f.state);
+  const auto open = solve_newton(p, a, loose);
+  ASSERT_TRUE(open.converged);
+  EXPECT_GT(open.imbalance, 1e-9);
+  NewtonOptions closing = loose;
+  closing.balance_tolerance = 1e-12;
+  Eigen::VectorXd b = moved_off(bal.f.state);
+  const auto closed = solve_newton(p, b, closing);
+  ASSERT_TRUE(closed.converged);
+  Eigen::VectorXd r(p.size());
+  p.residual(b, r);
+  EXPECT_LE(p.largest_imbalance(r), 1e-12);
+  EXPECT_EQ(closed.imbalance, p.largest_imbalance(r));
+  EXPECT_GT(closed.iterations, open.iterations);
 }
 
 TEST(ZoneBlockSolver, NoGeneralLuFallbackAboveItsSize) {
