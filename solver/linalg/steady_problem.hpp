@@ -36,7 +36,8 @@ class SteadyProblem {
   //! Residual magnitude that counts as zero for each equation (same units as the residual).
   virtual double residual_scale() const = 0;
   //! The largest imbalance of a conserved quantity over the whole problem (a sum of residual
-  //! entries, e.g. O2 fed minus O2 leaving and taken up), over residual_scale(). The max-norm test
+  //! entries, e.g. O2 fed minus O2 leaving and taken up), as a fraction of what the problem feeds
+  //! (OxygenProblem: of the O2 fed). The max-norm test
   //! alone lets the residuals of N equations add up to N times its tolerance; Newton stops only
   //! when this is within NewtonOptions::balance_tolerance too. Default: nothing to conserve.
   virtual double largest_imbalance(const Eigen::VectorXd& /*r*/) const { return 0.0; }
@@ -48,9 +49,9 @@ class SteadyProblem {
 struct NewtonOptions {
   int max_iterations = 60;
   double tolerance = 1e-12;  //!< max |r_i| / residual_scale() at convergence
-  //! SteadyProblem::largest_imbalance() at convergence: a tenth of the 1e-9 to which the vessel's
-  //! O2 balance must close, on networks of any size.
-  double balance_tolerance = 1e-10;
+  //! SteadyProblem::largest_imbalance() at convergence: the vessel's O2 balance closes to 1e-9 of
+  //! the O2 fed on networks of any size.
+  double balance_tolerance = 1e-9;
   bool structured = true;    //!< use the structured solve when the problem has a zone layout
   SolverOptions linear;      //!< size thresholds of the linear solves and the nested start
 };

@@ -57,7 +57,7 @@ double OxygenProblem::largest_imbalance(const Eigen::VectorXd& r) const {
   }
   double largest = 0.0;
   for (const double v : sum) largest = std::max(largest, std::abs(v));
-  return largest / scale_;
+  return inlet_o2_ > 0.0 ? largest / inlet_o2_ : largest / scale_;
 }
 
 void OxygenProblem::jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triplet<double>>& t) const {

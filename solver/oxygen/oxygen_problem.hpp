@@ -69,7 +69,8 @@ class OxygenProblem : public SteadyProblem {
   double residual_scale() const override { return scale_; }
   //! The vessel's balances, each phase and species over all zones: the liquid's transport moves
   //! and the gas's carries out through the surface only, so the sum of the gas O2 rows is O2 fed
-  //! minus off-gas minus transferred, that of the liquid O2 rows transferred minus taken up.
+  //! minus off-gas minus transferred, that of the liquid O2 rows transferred minus taken up. As a
+  //! fraction of the O2 fed (the CO2 balances too: they are of the same order).
   double largest_imbalance(const Eigen::VectorXd& r) const override;
   //! Liquid O2, CO2 then gas O2, CO2 per zone.
   ZoneLayout zone_layout() const override { return {n_}; }
