@@ -7,6 +7,7 @@
 #include "case_fixtures.hpp"
 #include "solver/flow/hydrodynamics.hpp"
 #include "solver/flow/linear_integrator.hpp"
+#include "solver/flow/mixing_grid.hpp"
 #include "solver/flow/mixing_time.hpp"
 #include "solver/flow/transport.hpp"
 
@@ -170,6 +171,24 @@ TEST(Mixing, ProbeThetaIsNotLongerThanWholeVessel) {
   EXPECT_TRUE(m.reached);
   EXPECT_LE(m.theta_probe_s, m.theta_s + 1e-9);  // the whole-vessel criterion includes the probe zone
   EXPECT_GT(m.theta_probe_s, 0.0);
+}
+
+TEST(Mixing, LargeGridsTakeTheirThetaFromTheGridHalvedUntilItFits) {
+  const Case c = testing::single_impeller("rushton", 1.0 / 3.0, 24, 48);  // 1152 grid cells
+  const auto net = build_zone_geometry(c);
+  const auto h = compute_hydrodynamics(c, net);
+  // Within the limit: the case's own network.
+  const auto own = case_mixing_time(c, net, h, net.size());
+  EXPECT_EQ(own.halvings, 0);
+  EXPECT_EQ(own.zones, net.size());
+  EXPECT_EQ(own.theta_s, tracer_mixing_time(net, h, {}).theta_s);
+  // 1152 -> 288 -> 72 cells for a limit of 100: halved twice, the 6 x 12 grid's own theta95.
+  const auto capped = case_mixing_time(c, net, h, 100);
+  EXPECT_EQ(capped.halvings, 2);
+  const Case small = testing::single_impeller("rushton", 1.0 / 3.0, 6, 12);
+  const auto small_net = build_zone_geometry(small);
+  EXPECT_EQ(capped.zones, small_net.size());
+  EXPECT_EQ(capped.theta_s, tracer_mixing_time(small_net, compute_hydrodynamics(small, small_net), {}).theta_s);
 }
 
 }  // namespace

@@ -1,0 +1,23 @@
+#include "solver/flow/mixing_grid.hpp"
+
+#include <algorithm>
+
+#include "solver/flow/mixing_time.hpp"
+
+namespace oxystrat {
+
+CaseMixingTime case_mixing_time(const Case& c, const ZoneNetwork& net, const Hydrodynamics& h, int max_zones) {
+  if (net.size() <= max_zones) return {tracer_mixing_time(net, h, {}).theta_s, net.size(), 0};
+  Case coarse = c;
+  int halvings = 0;
+  while (static_cast<long>(coarse.grid.radial) * coarse.grid.axial > max_zones && coarse.grid.radial * coarse.grid.axial > 1) {
+    coarse.grid.radial = std::max(1, coarse.grid.radial / 2);
+    coarse.grid.axial = std::max(1, coarse.grid.axial / 2);
+    ++halvings;
+  }
+  const ZoneNetwork coarse_net = build_zone_geometry(coarse);
+  const Hydrodynamics coarse_hydro = compute_hydrodynamics(coarse, coarse_net);
+  return {tracer_mixing_time(coarse_net, coarse_hydro, {}).theta_s, coarse_net.size(), halvings};
+}
+
+}  // namespace oxystrat
