@@ -218,19 +218,24 @@ bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vec
       lev.v.assign(b.n, 0.0);
       lev.w.assign(b.n, 0.0);
     }
-    // Double pairwise aggregation: aggregates of up to four rows, coarsening by about 4.
+    // Double pairwise aggregation: aggregates of up to four rows, coarsening by about 4. A level
+    // of options.multigrid_eightfold_from_rows rows or more is paired a third time (up to eight
+    // rows): the K-cycle then spends a quarter, not a half, of this level's work below it.
     Csr coarse;
     bool last = b.n <= options.multigrid_coarsest_size;
     bool smoother_only = false;
     if (!last) {
-      std::vector<int> first, second;
-      const int n1 = pair_up(b, first);
-      const Csr b1 = galerkin(b, first, n1);
-      const int n2 = pair_up(b1, second);
+      const int passes = b.n >= options.multigrid_eightfold_from_rows ? 3 : 2;
       lev.aggregate.resize(b.n);
-      for (int i = 0; i < b.n; ++i) lev.aggregate[i] = first[i] < 0 ? -1 : second[first[i]];
-      last = n2 == 0 || n2 > 0.8 * b.n;  // coarsening has stalled
-      if (!last) coarse = galerkin(b1, second, n2);
+      for (int i = 0; i < b.n; ++i) lev.aggregate[i] = i;
+      int count = b.n;
+      for (int pass = 0; pass < passes && count > 0; ++pass) {
+        std::vector<int> pairs;
+        count = pair_up(pass == 0 ? b : coarse, pairs);
+        for (int& a : lev.aggregate) a = a < 0 ? -1 : pairs[a];
+        coarse = galerkin(pass == 0 ? b : coarse, pairs, count);
+      }
+      last = count == 0 || count > 0.8 * b.n;  // coarsening has stalled
       // Stalled above the coarsest size: rows that dominate their couplings (a short implicit
       // step, V >> h L) or no strong pairs. The smoother alone then ends the cycle; an LU of a
       // level this large would cost more than the whole hierarchy.
