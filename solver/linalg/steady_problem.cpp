@@ -89,9 +89,13 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
     // The right-hand side -r in r's own storage (no temporary of the system's size): r is not
     // needed again, the line search replaces it.
     r = -r;
-    bool solved = blocks.solve(r, dx, eta);
+    // A frozen preconditioner gets 25 Krylov iterations: one that needs more has drifted (a
+    // warm start after a change of biomass took 100 and more at a million zones), and is
+    // refactored at this Jacobian for a second try; a fresh one gets the solver's full count.
+    constexpr int kStaleIterations = 25;
+    bool solved = fresh ? blocks.solve(r, dx, eta) : blocks.solve(r, dx, eta, kStaleIterations + 1);
     rep.linear_iterations += blocks.last_iterations();
-    if ((!solved || blocks.last_iterations() > 25) && !fresh) {
+    if ((!solved || blocks.last_iterations() > kStaleIterations) && !fresh) {
       // A frozen preconditioner that has drifted: refactor at this Jacobian and try again.
       if (!blocks.refresh_preconditioner()) return false;
       fresh = true;
@@ -105,7 +109,7 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
     // and 2.7/13.7 ms; more than 12 -> 79/95 and 3.1/16.9 ms; every step -> 49/50 and 3.0/15.4 ms).
     // A multigrid hierarchy is approximate anyway: at 1e6 zones a fresh one left the count at 14
     // and cost ~0.5 s, so it is rebuilt only after more than 25.
-    if (!fresh && blocks.last_iterations() > (blocks.multigrid() ? 25 : 6)) ws.refresh_blocks = true;
+    if (!fresh && blocks.last_iterations() > (blocks.multigrid() ? kStaleIterations : 6)) ws.refresh_blocks = true;
     double lambda = 1.0, m_try = m;
     for (int k = 0; k < 40; ++k, lambda *= 0.5) {
       x_try = x + lambda * dx;

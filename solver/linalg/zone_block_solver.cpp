@@ -386,9 +386,10 @@ void ZoneBlockSolver::precondition_fused(const Eigen::VectorXf& v) {
   ScalarLu::solve_both(lu_[2], lu_[3], s_[2], s_[3]);
 }
 
-bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, double rel_tol) {
+bool ZoneBlockSolver::solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, double rel_tol, int max_iterations) {
   if (!have_jacobian_ || !factored_) return false;
   FgmresOptions o;
+  o.max_iterations = max_iterations;
   o.restart = kS * n_ > 800000 ? 10 : 30;
   o.parallel_from_unknowns = options_.parallel_from_unknowns;
   const bool ok = krylov_.solve([this](const Eigen::VectorXd& in, Eigen::VectorXd& out) { multiply(in, out); },

@@ -78,8 +78,9 @@ class ZoneBlockSolver {
   bool has_preconditioner() const { return factored_; }
   //! The preconditioner is the multigrid one (a large network), not the exact LU.
   bool multigrid() const { return multigrid_; }
-  //! Solves J dx = b to |J dx - b|_2 <= rel_tol |b|_2. False when GMRES does not get there.
-  bool solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, double rel_tol);
+  //! Solves J dx = b to |J dx - b|_2 <= rel_tol |b|_2. False when GMRES does not get there
+  //! within max_iterations Krylov iterations.
+  bool solve(const Eigen::VectorXd& b, Eigen::VectorXd& dx, double rel_tol, int max_iterations = 300);
   int last_iterations() const { return krylov_.last_iterations(); }
   int factorisations() const { return factorisations_; }
   //! Size thresholds (multigrid, threads, supernodal LU); taken at the next refresh.
