@@ -58,8 +58,7 @@ void add_run_command(CLI::App& app) {
     const auto stage = [large](const std::string& what) {
       if (large) fmt::print(stderr, "oxystrat run: {} ...\n", what);
     };
-    stage(fmt::format("steady O2/CO2 field on a {} x {} grid", c.grid.radial, c.grid.axial));
-    auto run = run_case(c);
+    auto run = run_case(c, {}, nullptr, stage);
     const auto& net = run.net;
     const auto& hydro = run.hydro;
     stage(net.size() > kMixingZonesMax

@@ -1,5 +1,7 @@
 #include "solver/oxygen/case_run.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <limits>
 
@@ -17,8 +19,12 @@ void add_design_limits(const Case& c, CaseRun& run) {
 
 }  // namespace
 
-CaseRun run_case(const Case& c, const CaseRunOptions& opts, NewtonWorkspace* workspace) {
+CaseRun run_case(const Case& c, const CaseRunOptions& opts, NewtonWorkspace* workspace, const StageReport& report) {
+  const auto stage = [&report](const std::string& what) {
+    if (report) report(what);
+  };
   CaseRun run;
+  stage(fmt::format("zone network, flow and gas paths on a {} x {} grid", c.grid.radial, c.grid.axial));
   run.net = build_zone_geometry(c);
   run.hydro = compute_hydrodynamics(c, run.net);
   run.routing = route_gas(c, run.net, run.hydro);
@@ -30,9 +36,11 @@ CaseRun run_case(const Case& c, const CaseRunOptions& opts, NewtonWorkspace* wor
   }
   const OxygenContext ctx{c, run.net, run.hydro, run.routing};
   if (workspace != nullptr) workspace->start_new_problem();
+  stage(fmt::format("steady O2/CO2 field on {} zones", run.net.size()));
   run.field = solve_oxygen_field(ctx, -1.0, nullptr, workspace);
 
   if (opts.supportable_biomass && c.culture.q_o2_max_mol_kg_s > 0.0) {
+    stage("the largest biomass every zone supports (a root search: one steady solve per step)");
     run.max_biomass_kg_m3 = max_supportable_biomass(ctx, *run.field, opts.biomass_rel_tol);
   }
   if (opts.single_zone) {

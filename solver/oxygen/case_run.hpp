@@ -2,6 +2,7 @@
 // field, the single-zone (one average kLa) answer beside it, and the supportable biomass.
 #pragma once
 
+#include <functional>
 #include <optional>
 #include <string>
 #include <vector>
@@ -34,9 +35,13 @@ struct CaseRunOptions {
   double biomass_rel_tol = 1e-4;    //!< relative tolerance of the supportable biomass [-]
 };
 
+//! Told what is being done before each long part of a run (a command shows it on large grids).
+using StageReport = std::function<void(const std::string& what)>;
+
 //! `workspace` (optional) is kept by a caller that runs many cases of one grid (a sweep thread):
 //! the symbolic work of the linear solves is then done once.
-CaseRun run_case(const Case& c, const CaseRunOptions& opts = {}, NewtonWorkspace* workspace = nullptr);
+CaseRun run_case(const Case& c, const CaseRunOptions& opts = {}, NewtonWorkspace* workspace = nullptr,
+                 const StageReport& stage = {});
 
 //! Per axial row of the network: height [m] and min / volume-mean / max of a zone field.
 struct HeightProfile {
