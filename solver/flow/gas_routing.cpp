@@ -60,11 +60,7 @@ std::vector<double> carried_gas(const SparseMatrix& g, const std::vector<double>
     fo.parallel_from_unknowns = o.parallel_from_unknowns;
     ok = mg.setup(g, {}, o) &&
          krylov.solve([&g](const Eigen::VectorXd& in, Eigen::VectorXd& out) { out.noalias() = g * in; },
-                      [&mg](const Eigen::VectorXf& in, Eigen::VectorXf& out) {
-                        Eigen::VectorXd v = in.cast<double>();
-                        mg.solve(v);
-                        out = v.cast<float>();
-                      },
+                      [&mg](const Eigen::VectorXf& in, Eigen::VectorXf& out) { mg.precondition(in, out); },
                       b, x, o.gas_routing_tolerance, fo);
   }
   if (!ok || !x.allFinite()) throw SolveError("the gas transport could not be solved (a zone the gas cannot leave?)");

@@ -57,9 +57,8 @@ Eigen::VectorXd LinearImplicitIntegrator::solve_multigrid(int level, const Eigen
   const bool ok = krylov.solve(
       [&](const Eigen::VectorXd& in, Eigen::VectorXd& out) { out.noalias() = volume_.cwiseProduct(in) - h * (l_ * in); },
       [&mg](const Eigen::VectorXf& in, Eigen::VectorXf& out) {
-        Eigen::VectorXd v = in.cast<double>();
-        mg.solve(v);  // ~ (h L - V)^-1 v
-        out = (-v).cast<float>();
+        mg.precondition(in, out);  // ~ (h L - V)^-1 in
+        out = -out;
       },
       rhs, x, 1e-10);
   if (!ok || !x.allFinite()) throw SolveError("transport: the solve of (V - h L) did not converge");

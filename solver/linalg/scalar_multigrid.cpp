@@ -407,6 +407,12 @@ void ScalarMultigrid::cycle(int l) const {
   ilu_solve(lev, r, r, &x);
 }
 
+void ScalarMultigrid::precondition(const Eigen::VectorXf& in, Eigen::VectorXf& out) const {
+  Eigen::VectorXd v = in.cast<double>();
+  solve(v);
+  out = v.cast<float>();
+}
+
 void ScalarMultigrid::solve(Eigen::VectorXd& x) const {
   const Level& top = levels_.front();
   for (int i = 0; i < top.n; ++i) top.b[i] = -x[i];  // B = -A

@@ -35,6 +35,8 @@ class ScalarMultigrid {
              const SolverOptions& options = {});
   //! x <- M^-1 x in place, M^-1 ~ A^-1: one K-cycle from a zero guess.
   void solve(Eigen::VectorXd& x) const;
+  //! The same as a Krylov preconditioner (fgmres.hpp), whose vectors are single precision.
+  void precondition(const Eigen::VectorXf& in, Eigen::VectorXf& out) const;
   int levels() const { return static_cast<int>(levels_.size()); }
   long nonzeros() const;  //!< all levels' operators and smoothers and the coarsest factor
 
