@@ -84,13 +84,19 @@ void check_geometry(const TomlSource& src, const Case& c, std::vector<std::strin
   }
 }
 
-void note_unused_rheology_keys(const TomlSource& src, const Case& c, std::vector<std::string>& notes) {
+void note_ignored_keys(const TomlSource& src, const Case& c, std::vector<std::string>& notes) {
   const auto kind = c.broth.rheology.kind;
   const bool power = kind == RheologyKind::power_law || kind == RheologyKind::herschel_bulkley;
   const bool yield = kind == RheologyKind::herschel_bulkley || kind == RheologyKind::casson;
   for (const auto& [key, used] : {std::pair{"broth.consistency", power}, std::pair{"broth.flow_index", power},
                                   std::pair{"broth.yield_stress", yield}, std::pair{"broth.viscosity", !power}}) {
     if (!used && src.has(key)) notes.push_back(fmt::format("{} is ignored: it does not apply to a {} broth", key, to_string(kind)));
+  }
+  // Read and range-checked so that older case files still load, but no model uses it: a value
+  // given must not look as if it had an effect.
+  if (src.has("model.mixing_length_ratio")) {
+    notes.push_back("model.mixing_length_ratio is ignored: the current exchange model does not use a mixing length "
+                    "(model.exchange_constant sets the exchange between zones)");
   }
 }
 

@@ -63,8 +63,8 @@ std::vector<std::string> merge_includes(toml::table& root, const std::string& fi
 //! Geometry that the single keys cannot check alone (input/case_checks.cpp): errors, and notes
 //! for what is allowed but outside the correlations' range.
 void check_geometry(const TomlSource& src, const Case& c, std::vector<std::string>& notes);
-//! Keys of another flow curve (left over when --set switches broth.rheology) are ignored, with a
-//! note (input/case_checks.cpp).
-void note_unused_rheology_keys(const TomlSource& src, const Case& c, std::vector<std::string>& notes);
+//! Keys that have no effect are ignored with a note: those of another flow curve (left over when
+//! --set switches broth.rheology) and model keys no model uses (input/case_checks.cpp).
+void note_ignored_keys(const TomlSource& src, const Case& c, std::vector<std::string>& notes);
 
 }  // namespace oxystrat::detail

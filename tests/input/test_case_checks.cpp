@@ -77,6 +77,14 @@ TEST(CaseBoiling, ABrothThatBoilsAtTheHeadPressureIsRefused) {
   EXPECT_GT(physics::water_vapour_pressure(353.15), 45e3);
 }
 
+// A key that no model uses is still read (older case files load) but must not look effective.
+TEST(CaseModel, AnUnusedModelKeyIsReadWithANote) {
+  const auto given = load(CaseText(), {"model.mixing_length_ratio=0.1"});
+  EXPECT_EQ(given.data.model.mixing_length_ratio, 0.1);
+  EXPECT_THAT(testing::PrintToString(given.notes), HasSubstr("model.mixing_length_ratio is ignored"));
+  EXPECT_THAT(testing::PrintToString(load(CaseText()).notes), testing::Not(HasSubstr("mixing_length_ratio")));
+}
+
 TEST(CaseBoiling, CloseToBoilingIsACaution) {
   const auto near = load(CaseText(), {"vessel.temperature=80 degC", "vessel.head_pressure=0.8 bar(a)"});
   EXPECT_THAT(testing::PrintToString(near.notes), HasSubstr("close to boiling"));
