@@ -10,7 +10,8 @@ CaseMixingTime case_mixing_time(const Case& c, const ZoneNetwork& net, const Hyd
   if (net.size() <= max_zones) return {tracer_mixing_time(net, h, {}).theta_s, net.size(), 0};
   Case coarse = c;
   int halvings = 0;
-  while (static_cast<long>(coarse.grid.radial) * coarse.grid.axial > max_zones && coarse.grid.radial * coarse.grid.axial > 1) {
+  const auto cells = [&coarse] { return static_cast<long>(coarse.grid.radial) * coarse.grid.axial; };
+  while (cells() > max_zones && cells() > 1) {
     coarse.grid.radial = std::max(1, coarse.grid.radial / 2);
     coarse.grid.axial = std::max(1, coarse.grid.axial / 2);
     ++halvings;

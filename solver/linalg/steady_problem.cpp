@@ -89,9 +89,9 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
     // The right-hand side -r in r's own storage (no temporary of the system's size): r is not
     // needed again, the line search replaces it.
     r = -r;
-    // A frozen preconditioner gets 25 Krylov iterations: one that needs more has drifted (a
-    // warm start after a change of biomass took 100 and more at a million zones), and is
-    // refactored at this Jacobian for a second try; a fresh one gets the solver's full count.
+    // A frozen preconditioner gets 25 Krylov iterations: one that needs more has drifted (warm
+    // starts after a change of biomass, say) and is refactored at this Jacobian for a second
+    // try, which used to follow a full solve with it; a fresh one gets the solver's full count.
     constexpr int kStaleIterations = 25;
     bool solved = fresh ? blocks.solve(r, dx, eta) : blocks.solve(r, dx, eta, kStaleIterations + 1);
     rep.linear_iterations += blocks.last_iterations();

@@ -37,9 +37,9 @@ class SteadyProblem {
   virtual double residual_scale() const = 0;
   //! The largest imbalance of a conserved quantity over the whole problem (a sum of residual
   //! entries, e.g. O2 fed minus O2 leaving and taken up), as a fraction of what the problem feeds
-  //! (OxygenProblem: of the O2 fed). The max-norm test
-  //! alone lets the residuals of N equations add up to N times its tolerance; Newton stops only
-  //! when this is within NewtonOptions::balance_tolerance too. Default: nothing to conserve.
+  //! (OxygenProblem: of the O2 fed). The max-norm test alone lets the residuals of N equations
+  //! add up to N times its tolerance; Newton stops only when this is within
+  //! NewtonOptions::balance_tolerance too. Default: nothing to conserve.
   virtual double largest_imbalance(const Eigen::VectorXd& /*r*/) const { return 0.0; }
   //! A problem with the zone layout of zone_block_solver.hpp says so here (zones > 0), and
   //! solve_newton then uses the structured linear solve; the default is a general sparse LU.
