@@ -39,8 +39,10 @@ double zone_bubble_size(const Case& c, double formed_m, double epsilon, double s
 // Solves G g = -s: the gas each zone holds when a unit flow enters by the shares s and none
 // dissolves. G is an M-matrix (transport with outflow at the surface): an exact sparse LU on small
 // and mid-sized networks, GMRES with aggregation multigrid on large ones (to the options' relative
-// tolerance: the off-gas then equals the sparged gas to that tolerance times at most sqrt(N)).
-std::vector<double> carried_gas(const SparseMatrix& g, const std::vector<double>& share, const SolverOptions& o) {
+// tolerance: the off-gas then equals the sparged gas to that tolerance times at most sqrt(N)),
+// from `guess` when given (GMRES then solves for the correction to it).
+std::vector<double> carried_gas(const SparseMatrix& g, const std::vector<double>& share, const SolverOptions& o,
+                                const std::vector<double>* guess) {
   const int n = static_cast<int>(share.size());
   Eigen::VectorXd b(n);
   for (int k = 0; k < n; ++k) b[k] = -share[k];
@@ -54,14 +56,23 @@ std::vector<double> carried_gas(const SparseMatrix& g, const std::vector<double>
       lu.solve(x);
     }
   } else {
+    Eigen::VectorXd x0 = Eigen::VectorXd::Zero(n);
+    if (guess != nullptr && static_cast<int>(guess->size()) == n) x0 = Eigen::Map<const Eigen::VectorXd>(guess->data(), n);
+    const Eigen::VectorXd r0 = b - g * x0;
+    const double target = o.gas_routing_tolerance * b.norm();  // as from a zero start
     ScalarMultigrid mg;
     Fgmres krylov;
     FgmresOptions fo;
     fo.parallel_from_unknowns = o.parallel_from_unknowns;
-    ok = mg.setup(g, {}, o) &&
-         krylov.solve([&g](const Eigen::VectorXd& in, Eigen::VectorXd& out) { out.noalias() = g * in; },
-                      [&mg](const Eigen::VectorXf& in, Eigen::VectorXf& out) { mg.precondition(in, out); },
-                      b, x, o.gas_routing_tolerance, fo);
+    if (r0.norm() <= target) {
+      x = x0;
+      ok = true;
+    } else if (mg.setup(g, {}, o)) {
+      ok = krylov.solve([&g](const Eigen::VectorXd& in, Eigen::VectorXd& out) { out.noalias() = g * in; },
+                        [&mg](const Eigen::VectorXf& in, Eigen::VectorXf& out) { mg.precondition(in, out); }, r0, x,
+                        target / r0.norm(), fo);
+      x += x0;
+    }
   }
   if (!ok || !x.allFinite()) throw SolveError("the gas transport could not be solved (a zone the gas cannot leave?)");
   return {x.data(), x.data() + n};
@@ -90,7 +101,8 @@ double sparger_bubble_diameter(const Case& c, double gas_molar_flow_mol_s) {
                   physics::largest_stable_bubble(sigma, c.broth.density_kg_m3));
 }
 
-GasRouting route_gas(const Case& c, const ZoneNetwork& net, const Hydrodynamics& h, const SolverOptions& options) {
+GasRouting route_gas(const Case& c, const ZoneNetwork& net, const Hydrodynamics& h, const SolverOptions& options,
+                     const std::vector<double>* guess) {
   const int nz = net.size();
   GasRouting g;
   const double pi = std::numbers::pi;
@@ -129,7 +141,7 @@ GasRouting route_gas(const Case& c, const ZoneNetwork& net, const Hydrodynamics&
   }
   g.transport.resize(nz, nz);
   g.transport.setFromTriplets(t.begin(), t.end());
-  g.unit_inventory = carried_gas(g.transport, net.sparger_share, options);
+  g.unit_inventory = carried_gas(g.transport, net.sparger_share, options, guess);
   return g;
 }
 

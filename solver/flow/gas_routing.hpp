@@ -40,7 +40,10 @@ struct GasRouting {
   std::vector<double> unit_inventory;
 };
 
-GasRouting route_gas(const Case& c, const ZoneNetwork& net, const Hydrodynamics& h, const SolverOptions& options = {});
+//! `guess`, when given, is an approximate unit_inventory (say, another grid's, restricted) that
+//! the large networks' iterative solve starts from; the answer is the same to its tolerance.
+GasRouting route_gas(const Case& c, const ZoneNetwork& net, const Hydrodynamics& h, const SolverOptions& options = {},
+                     const std::vector<double>* guess = nullptr);
 
 //! Off-gas of one gas species: what leaves through the surface [mol/s] for inventories g [mol/m3].
 double surface_flow(const GasRouting& routing, const std::vector<double>& g);

@@ -40,6 +40,19 @@ int containing_zone(const ZoneNetwork& coarse, double r, double z) {
   return 0;  // unreachable for a network with liquid in every column
 }
 
+// Volume-weighted mean of the fine zones' values over each coarse zone (the one that holds the
+// fine centroid); 0 where no fine centroid falls.
+std::vector<double> volume_mean_on(const ZoneNetwork& coarse, const ZoneNetwork& fine, const std::vector<double>& values) {
+  std::vector<double> sum(coarse.size(), 0.0), volume(coarse.size(), 0.0);
+  for (int k = 0; k < fine.size(); ++k) {
+    const int kc = containing_zone(coarse, fine.r[k], fine.z[k]);
+    sum[kc] += values[k] * fine.volume[k];
+    volume[kc] += fine.volume[k];
+  }
+  for (int kc = 0; kc < coarse.size(); ++kc) sum[kc] = volume[kc] > 0.0 ? sum[kc] / volume[kc] : 0.0;
+  return sum;
+}
+
 }  // namespace
 
 std::vector<ZoneStencil> interpolation_stencils(const ZoneNetwork& coarse, const ZoneNetwork& fine) {
@@ -112,37 +125,52 @@ Eigen::VectorXd nested_state(const ZoneNetwork& coarse, const OxygenField& coars
   return x;
 }
 
-bool seed_from_coarse_grid(const OxygenContext& ctx, double biomass_kg_m3, const NewtonOptions& newton,
-                           const std::vector<double>& inert_mol_m3, Eigen::VectorXd& x, CoarseWork& work) {
-  if (ctx.net.size() < newton.linear.nested_start_from_zones) return false;
-  Case coarse_case = ctx.c;
-  coarse_case.grid.radial = std::max(1, ctx.c.grid.radial / 2);
-  coarse_case.grid.axial = std::max(1, ctx.c.grid.axial / 2);
-  if (coarse_case.grid.radial == ctx.c.grid.radial && coarse_case.grid.axial == ctx.c.grid.axial) return false;
-  // The coarse network lives only in this scope: the fine solve's peak memory does not carry it.
-  // It is only a seed: whatever fails on it (a grid too coarse for the hydrodynamics, a solve
-  // that does not converge) leaves the fine solve to start cold, as it would without nesting.
-  std::optional<ZoneNetwork> net;
-  OxygenField coarse;
+std::optional<HalvedGridField> solve_on_halved_grid(const Case& c, const ZoneNetwork& fine,
+                                                    const std::vector<double>* fine_inventory, double biomass_kg_m3,
+                                                    const NewtonOptions& newton) {
+  if (fine.size() < newton.linear.nested_start_from_zones) return std::nullopt;
+  Case coarse_case = c;
+  coarse_case.grid.radial = std::max(1, c.grid.radial / 2);
+  coarse_case.grid.axial = std::max(1, c.grid.axial / 2);
+  if (coarse_case.grid.radial == c.grid.radial && coarse_case.grid.axial == c.grid.axial) return std::nullopt;
   try {
-    net = build_zone_geometry(coarse_case);
-    const Hydrodynamics hydro = compute_hydrodynamics(coarse_case, *net);
+    HalvedGridField level{build_zone_geometry(coarse_case), {}};
+    const Hydrodynamics hydro = compute_hydrodynamics(coarse_case, level.net);
     SolverOptions seed_linear = newton.linear;
     seed_linear.gas_routing_tolerance = std::max(newton.linear.gas_routing_tolerance, kCoarseRoutingTolerance);
-    const GasRouting routing = route_gas(coarse_case, *net, hydro, seed_linear);
+    // This level's gas routing (one sequential multigrid solve) on the second thread, while the
+    // levels below, which need only the case, are solved on the first (their own threads then
+    // run one by one: nested regions are inactive). A pool thread, so that what the routing
+    // frees stays in the heap the later solves on that thread draw from.
+    std::vector<double> guess;
+    if (fine_inventory != nullptr) guess = volume_mean_on(level.net, fine, *fine_inventory);
+    std::optional<GasRouting> gas;
+    std::optional<HalvedGridField> below;
+    std::exception_ptr failed;
+#pragma omp parallel sections num_threads(2)
+    {
+#pragma omp section
+      try {
+        gas = route_gas(coarse_case, level.net, hydro, seed_linear, guess.empty() ? nullptr : &guess);
+      } catch (...) {
+        failed = std::current_exception();
+      }
+#pragma omp section
+      try {
+        below = solve_on_halved_grid(coarse_case, level.net, nullptr, biomass_kg_m3, newton);
+      } catch (...) {
+        below.reset();  // no seed below: this level starts cold
+      }
+    }
+    if (failed) std::rethrow_exception(failed);
     NewtonOptions loose = newton;
     loose.balance_tolerance = std::numeric_limits<double>::infinity();  // a seed: the fine solve closes them
     loose.tolerance = std::max(newton.tolerance, kCoarseTolerance);
-    coarse = solve_oxygen_field({coarse_case, *net, hydro, routing}, biomass_kg_m3, nullptr, nullptr, loose);
+    level.field = solve_oxygen_field_seeded({coarse_case, level.net, hydro, *gas}, biomass_kg_m3, below, loose);
+    return level;
   } catch (const std::exception&) {
-    return false;
+    return std::nullopt;
   }
-  work.levels = 1 + coarse.coarse_levels;
-  work.newton_iterations = coarse.newton_iterations + coarse.coarse_newton_iterations;
-  work.linear_iterations = coarse.linear_iterations + coarse.coarse_linear_iterations;
-  work.outer_iterations = coarse.outer_iterations + coarse.coarse_outer_iterations;
-  x = nested_state(*net, coarse, ctx.net, inert_mol_m3, x);
-  return true;
 }
 
 }  // namespace oxystrat

@@ -3,6 +3,7 @@
 
 #include <Eigen/Core>
 #include <array>
+#include <optional>
 #include <vector>
 
 #include "solver/oxygen/oxygen_field.hpp"
@@ -37,18 +38,26 @@ std::vector<double> interpolate(const std::vector<ZoneStencil>& stencils, const 
 Eigen::VectorXd nested_state(const ZoneNetwork& coarse, const OxygenField& coarse_field, const ZoneNetwork& fine,
                              const std::vector<double>& fine_inert_mol_m3, const Eigen::VectorXd& cold);
 
-//! What the coarser solves behind one nested start cost (all levels).
-struct CoarseWork {
-  int levels = 0;
-  int newton_iterations = 0;
-  int linear_iterations = 0;
-  int outer_iterations = 0;
+//! The case solved on the halved grid: its network and field (the field's coarse_* counters
+//! count the levels below it).
+struct HalvedGridField {
+  ZoneNetwork net;
+  OxygenField field;
 };
 
-//! Solves the case of `ctx` on the halved grid (itself nested while still large) and replaces `x`
-//! (the cold start) by its interpolation. Returns false and leaves `x` when the network is below
-//! newton.linear.nested_start_from_zones, the grid cannot be halved, or the coarse solve fails.
-bool seed_from_coarse_grid(const OxygenContext& ctx, double biomass_kg_m3, const NewtonOptions& newton,
-                           const std::vector<double>& inert_mol_m3, Eigen::VectorXd& x, CoarseWork& work);
+//! Solves case `c`, whose network is `fine`, on the grid with half its radial and axial
+//! counts (to a seed's tolerance, itself nested while still large). Empty when `fine` is below
+//! newton.linear.nested_start_from_zones, the grid cannot be halved, or anything on the coarse
+//! grid fails: the caller then starts cold, as it would without nesting.
+//! `fine_inventory`, when given, is the gas routing's unit_inventory on `fine`: restricted, it
+//! starts the coarse routing's iterative solve.
+std::optional<HalvedGridField> solve_on_halved_grid(const Case& c, const ZoneNetwork& fine,
+                                                    const std::vector<double>* fine_inventory, double biomass_kg_m3,
+                                                    const NewtonOptions& newton);
+
+//! solve_oxygen_field() from a cold start whose halved-grid field is already solved: `halved`
+//! seeds it (moved from, and freed before the fine solve) or, when empty, no seed.
+OxygenField solve_oxygen_field_seeded(const OxygenContext& ctx, double biomass_kg_m3, std::optional<HalvedGridField>& halved,
+                                      const NewtonOptions& newton);
 
 }  // namespace oxystrat

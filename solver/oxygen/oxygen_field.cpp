@@ -174,8 +174,12 @@ void OxygenSetup::update(const Eigen::VectorXd& x) {
   }
 }
 
-OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, const OxygenField* warm,
-                               NewtonWorkspace* workspace, const NewtonOptions& newton) {
+namespace {
+
+// The steady field from `warm`'s state, or else from a cold start seeded by `halved` (when it
+// is null, solved here first).
+OxygenField solve_field(const OxygenContext& ctx, double biomass_kg_m3, const OxygenField* warm,
+                        std::optional<HalvedGridField>* halved, NewtonWorkspace* workspace, const NewtonOptions& newton) {
   NewtonWorkspace local;
   NewtonWorkspace& ws = workspace != nullptr ? *workspace : local;
   const Case& c = ctx.c;
@@ -193,12 +197,19 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
     x = warm->state;
   } else {
     x = setup.initial_state();
-    CoarseWork coarse;
-    if (seed_from_coarse_grid(ctx, biomass_kg_m3, newton, coeff.inert_mol_m3, x, coarse)) {
-      f.coarse_levels = coarse.levels;
-      f.coarse_newton_iterations = coarse.newton_iterations;
-      f.coarse_outer_iterations = coarse.outer_iterations;
-      f.coarse_linear_iterations = coarse.linear_iterations;
+    std::optional<HalvedGridField> own;
+    if (halved == nullptr) {
+      own = solve_on_halved_grid(c, net, &ctx.routing.unit_inventory, biomass_kg_m3, newton);
+      halved = &own;
+    }
+    if (*halved) {
+      const OxygenField& coarse = (*halved)->field;
+      x = nested_state((*halved)->net, coarse, net, coeff.inert_mol_m3, x);
+      f.coarse_levels = 1 + coarse.coarse_levels;
+      f.coarse_newton_iterations = coarse.newton_iterations + coarse.coarse_newton_iterations;
+      f.coarse_outer_iterations = coarse.outer_iterations + coarse.coarse_outer_iterations;
+      f.coarse_linear_iterations = coarse.linear_iterations + coarse.coarse_linear_iterations;
+      halved->reset();  // the fine solve's peak memory does not carry the coarse network
     }
   }
 
@@ -319,6 +330,18 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, c
   f.o2_balance_error = (in_o2 - out_o - f.otr_total_mol_s) / in_o2;
   f.kla_vessel_1_s = setup.kla_vessel_1_s;
   return f;
+}
+
+}  // namespace
+
+OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3, const OxygenField* warm,
+                               NewtonWorkspace* workspace, const NewtonOptions& newton) {
+  return solve_field(ctx, biomass_kg_m3, warm, nullptr, workspace, newton);
+}
+
+OxygenField solve_oxygen_field_seeded(const OxygenContext& ctx, double biomass_kg_m3, std::optional<HalvedGridField>& halved,
+                                      const NewtonOptions& newton) {
+  return solve_field(ctx, biomass_kg_m3, nullptr, &halved, nullptr, newton);
 }
 
 double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& field_at_case, double rel_tol) {
