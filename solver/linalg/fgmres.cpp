@@ -20,6 +20,22 @@ double chunk_dot(const double* a, const T* b, int n) {
   return ((acc[0] + acc[1]) + (acc[2] + acc[3])) + ((acc[4] + acc[5]) + (acc[6] + acc[7]));
 }
 
+// out = in in double, and out = in / divisor in single precision (the same arithmetic as the
+// Eigen expressions they replace), split over the threads from `parallel_from` entries on.
+void widen(const Eigen::VectorXf& in, Eigen::VectorXd& out, int parallel_from) {
+  const auto n = in.size();
+  out.resize(n);
+#pragma omp parallel for schedule(static) if (n >= parallel_from)
+  for (Eigen::Index k = 0; k < n; ++k) out[k] = static_cast<double>(in[k]);
+}
+
+void narrow_divided(const Eigen::VectorXd& in, double divisor, Eigen::VectorXf& out, int parallel_from) {
+  const auto n = in.size();
+  out.resize(n);
+#pragma omp parallel for schedule(static) if (n >= parallel_from)
+  for (Eigen::Index k = 0; k < n; ++k) out[k] = static_cast<float>(in[k] / divisor);
+}
+
 }  // namespace
 
 double Fgmres::orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<Eigen::VectorXd> h, int parallel_from) {
@@ -86,18 +102,18 @@ bool Fgmres::solve(const Operator& a, const Preconditioner& m, const Eigen::Vect
   double beta = r_.norm();
   bool converged = beta <= target;
   while (!converged && iterations_ < o.max_iterations) {
-    basis_[0] = (r_ / beta).cast<float>();
+    narrow_divided(r_, beta, basis_[0], o.parallel_from_unknowns);
     s.setZero();
     s[0] = beta;
     int j = 0;
     for (; j < restart && iterations_ < o.max_iterations; ++j) {
       ++iterations_;
       m(basis_[j], z_basis_[j]);  // rounded as stored, and used as rounded
-      zd_ = z_basis_[j].cast<double>();
+      widen(z_basis_[j], zd_, o.parallel_from_unknowns);
       a(zd_, w_);
       const double next = orthogonalise(w_, j + 1, h.col(j), o.parallel_from_unknowns);
       h(j + 1, j) = next;
-      if (next > 0.0) basis_[j + 1] = (w_ / next).cast<float>();
+      if (next > 0.0) narrow_divided(w_, next, basis_[j + 1], o.parallel_from_unknowns);
       for (int i = 0; i < j; ++i) {
         const double t = cs[i] * h(i, j) + sn[i] * h(i + 1, j);
         h(i + 1, j) = -sn[i] * h(i, j) + cs[i] * h(i + 1, j);

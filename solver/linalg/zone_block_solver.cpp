@@ -314,7 +314,9 @@ void ZoneBlockSolver::block_solve(int s, Eigen::VectorXd& x) const {
 // out = J x, straight on the interleaved vectors: the transports (once for a pair that shares
 // one), then the zone-local blocks.
 void ZoneBlockSolver::multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) const {
-  out.setZero(kS * n_);
+  out.resize(kS * n_);
+#pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
+  for (int i = 0; i < kS * n_; ++i) out[i] = 0.0;
   if (block_[0] == block_[1] && block_[2] == block_[3]) {
     // Liquid and gas pair side by side; the gas from the last column, so that the two threads
     // write the same cache lines only where they cross.
