@@ -350,8 +350,14 @@ double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& fiel
   if (ctx.c.culture.q_o2_max_mol_kg_s <= 0.0) return std::numeric_limits<double>::infinity();
   OxygenField warm = field_at_case;
   NewtonWorkspace ws;
+  // A margin needs DO_min to the search's resolution, not to the field's 1e-12: solved to a scaled
+  // residual of 1e-10 (balances left open), the tall demo's supportable biomass moved by less than
+  // 1e-6 relative at 5e3 to 2e5 zones, and the search took a third less time (bench/notes.md).
+  NewtonOptions search;
+  search.tolerance = 1e-10;
+  search.balance_tolerance = std::numeric_limits<double>::infinity();
   const auto margin = [&](double x) {
-    warm = solve_oxygen_field(ctx, x, &warm, &ws);
+    warm = solve_oxygen_field(ctx, x, &warm, &ws, search);
     return warm.do_min - critical;
   };
   // Bracket: DO_min falls as biomass rises.

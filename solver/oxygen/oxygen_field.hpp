@@ -106,7 +106,7 @@ OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3 = 
 
 //! Largest biomass [kg/m3] with every zone at or above culture.critical_do, to 1e-4 relative (0
 //! when even no culture fails, capped at 1000 kg/m3 when nothing limits). `field_at_case` seeds
-//! the search.
+//! the search, whose solves stop at a scaled residual of 1e-10 (its margins need no more).
 double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& field_at_case, double rel_tol = 1e-4);
 
 }  // namespace oxystrat

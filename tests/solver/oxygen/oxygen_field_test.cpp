@@ -143,6 +143,22 @@ TEST(OxygenField, SupportableBiomassPutsTheWorstZoneAtCriticalDo) {
   EXPECT_NEAR(at_max.do_min / c.culture.critical_do_mol_m3, 1.0, 1e-2);  // bisection to 1e-4 in biomass
 }
 
+TEST(OxygenField, SupportableBiomassOfTheLooseSearchIsBracketedByFullSolves) {
+  // The search solves to 1e-10 only; full solves (1e-12, balances closed) 3e-4 either side of
+  // its answer (its bracket is 1e-4 wide) must fall on either side of critical DO. The tall demo at about 5e4 zones
+  // (multigrid, nested start), where a loose solve's DO error is largest of the bundled sizes.
+  const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml",
+                                {parse_override("grid.radial=40"), parse_override("grid.axial=200")})
+                     .data;
+  const Chain ch(c);
+  const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
+  const auto f = solve_oxygen_field(ctx);
+  const double x_max = max_supportable_biomass(ctx, f, 1e-4);
+  const double critical = c.culture.critical_do_mol_m3;
+  EXPECT_GE(solve_oxygen_field(ctx, x_max * (1.0 - 3e-4)).do_min, critical);
+  EXPECT_LT(solve_oxygen_field(ctx, x_max * (1.0 + 3e-4)).do_min, critical);
+}
+
 TEST(CaseRun, NoGasSkipsTheOxygenSolveWithANote) {
   Case c = testing::gassed_vessel();
   c.operation.gas_flow_normal_m3_s = 0.0;
