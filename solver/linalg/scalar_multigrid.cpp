@@ -353,6 +353,39 @@ void ScalarMultigrid::ilu_solve(const Level& lev, const std::vector<double>& in,
   }
 }
 
+// ilu_solve(b - B x) added to x, with the residual of each row formed inside the forward sweep:
+// the same arithmetic as residual() then ilu_solve(), one pass over the operator fewer. The
+// residual of a row needs only x, not the chain, so it is off the sweep's critical path.
+void ScalarMultigrid::smooth_residual(const Level& lev, const std::vector<double>& b, std::vector<double>& x,
+                                      std::vector<double>& y) {
+  const int* start = lev.start.data();
+  const int* col = lev.col.data();
+  const float* val = lev.val.data();
+  const float* lu = lev.lu.data();
+  const float* inv_diag = lev.inv_diag.data();
+  const int* dp = lev.diag_pos.data();
+  double* out = y.data();
+  double last = 0.0;
+  for (int i = 0; i < lev.n; ++i) {
+    const int near = dp[i] - 1;
+    const bool chained = near >= start[i] && col[near] == i - 1;
+    double s = b[i] - row_product(start, col, val, x.data(), i);
+    for (int e = start[i], end = chained ? near : dp[i]; e < end; ++e) s -= lu[e] * out[col[e]];
+    s -= (chained ? lu[near] : 0.0f) * last;
+    out[i] = last = s;
+  }
+  last = 0.0;
+  for (int i = lev.n - 1; i >= 0; --i) {
+    const int near = dp[i] + 1;
+    const bool chained = near < start[i + 1] && col[near] == i + 1;
+    double s = out[i] * inv_diag[i];
+    for (int e = start[i + 1] - 1, end = chained ? near : dp[i]; e > end; --e) s -= lu[e] * out[col[e]];
+    s -= (chained ? lu[near] : 0.0f) * last;
+    out[i] = last = s;
+    x[i] += s;
+  }
+}
+
 // x = M_l^-1 b on level l, from a zero guess.
 void ScalarMultigrid::cycle(int l) const {
   const Level& lev = levels_[l];
@@ -403,8 +436,7 @@ void ScalarMultigrid::cycle(int l) const {
   for (int i = 0; i < n; ++i) {
     if (lev.aggregate[i] >= 0) x[i] += next.x[lev.aggregate[i]];
   }
-  residual(lev, b, x, r, nullptr);
-  ilu_solve(lev, r, r, &x);
+  smooth_residual(lev, b, x, r);
 }
 
 void ScalarMultigrid::precondition(const Eigen::VectorXf& in, Eigen::VectorXf& out) const {

@@ -56,6 +56,7 @@ class ScalarMultigrid {
   static void residual(const Level& lev, const std::vector<double>& b, const std::vector<double>& x, std::vector<double>& r,
                        std::vector<double>* coarse);
   static void ilu_solve(const Level& lev, const std::vector<double>& in, std::vector<double>& r, std::vector<double>* add_to);
+  static void smooth_residual(const Level& lev, const std::vector<double>& b, std::vector<double>& x, std::vector<double>& y);
 
   std::vector<Level> levels_;
   ScalarLu coarsest_;
