@@ -38,6 +38,18 @@ void narrow_divided(const Eigen::VectorXd& in, double divisor, Eigen::VectorXf& 
 
 }  // namespace
 
+// x += sum_i c_i z_i over the first `count` preconditioned vectors, entry by entry in one pass
+// (each entry's sum in the order of i, as count separate updates would add it).
+void Fgmres::add_combination(const Eigen::VectorXd& c, int count, Eigen::VectorXd& x, int parallel_from) const {
+  const auto n = x.size();
+#pragma omp parallel for schedule(static) if (n >= parallel_from)
+  for (Eigen::Index k = 0; k < n; ++k) {
+    double v = x[k];
+    for (int i = 0; i < count; ++i) v += c[i] * static_cast<double>(z_basis_[i][k]);
+    x[k] = v;
+  }
+}
+
 double Fgmres::orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<Eigen::VectorXd> h, int parallel_from) {
   constexpr int kChunk = 4096;
   const int m = static_cast<int>(w.size());
@@ -135,7 +147,7 @@ bool Fgmres::solve(const Operator& a, const Preconditioner& m, const Eigen::Vect
     // Update with the least-squares solution of the small Hessenberg system, then the true
     // residual in double.
     const Eigen::VectorXd c = h.topLeftCorner(j, j).triangularView<Eigen::Upper>().solve(s.head(j));
-    for (int i = 0; i < j; ++i) x += c[i] * z_basis_[i].cast<double>();
+    add_combination(c, j, x, o.parallel_from_unknowns);
     a(x, w_);
     r_ = b - w_;
     beta = r_.norm();

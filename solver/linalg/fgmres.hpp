@@ -37,6 +37,7 @@ class Fgmres {
  private:
   // w <- w minus its projections on basis_[0, count), which go to h[0, count); returns |w|.
   double orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<Eigen::VectorXd> h, int parallel_from);
+  void add_combination(const Eigen::VectorXd& c, int count, Eigen::VectorXd& x, int parallel_from) const;
   int iterations_ = 0;
   std::vector<Eigen::VectorXf> basis_, z_basis_;
   std::vector<double> partial_;
