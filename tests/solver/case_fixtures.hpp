@@ -31,4 +31,11 @@ struct Chain {
 
 inline std::string source_dir() { return OXYSTRAT_SOURCE_DIR; }
 
+//! The bundled tall demo (cases/tall-3rushton.toml) on a radial x axial grid.
+inline Case tall_demo(int radial, int axial) {
+  return read_case_file(source_dir() + "/cases/tall-3rushton.toml",
+                        {parse_override(fmt::format("grid.radial={}", radial)), parse_override(fmt::format("grid.axial={}", axial))})
+      .data;
+}
+
 }  // namespace oxystrat::testing

@@ -59,9 +59,7 @@ TEST(NestedStart, SeededSolveGivesTheFieldOfTheDirectSolve) {
   // The tall demo at about 4500 zones with the threshold lowered to 2000: one coarse level
   // (15 x 75, about 1100 zones, solved to the loose seed tolerance), then the fine solve from
   // its interpolation to the full Newton tolerance.
-  const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml",
-                                {parse_override("grid.radial=30"), parse_override("grid.axial=150")})
-                     .data;
+  const Case c = testing::tall_demo(30, 150);
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   ASSERT_GT(ch.net.size(), 4000);
@@ -101,9 +99,7 @@ TEST(NestedStart, LevelsRoutedBesideTheSolvesBelowGiveTheDirectFieldEveryTime) {
   // thread while the levels below it are solved, the first coarse level's from the fine routing
   // restricted. The field is the direct solve's (tolerance as in SeededSolveGivesTheFieldOfTheDirectSolve)
   // and the same bits on a second run, whichever thread finishes first.
-  const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml",
-                                {parse_override("grid.radial=30"), parse_override("grid.axial=150")})
-                     .data;
+  const Case c = testing::tall_demo(30, 150);
   SolverOptions multigrid;
   multigrid.multigrid_from_zones = 1;
   multigrid.multigrid_coarsest_size = 20;
@@ -131,9 +127,7 @@ TEST(NestedStart, LevelsRoutedBesideTheSolvesBelowGiveTheDirectFieldEveryTime) {
 }
 
 TEST(NestedStart, OneAndTwoThreadsGiveBitIdenticalFields) {
-  const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml",
-                                {parse_override("grid.radial=20"), parse_override("grid.axial=100")})
-                     .data;
+  const Case c = testing::tall_demo(20, 100);
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   const int saved = omp_get_max_threads();

@@ -147,9 +147,7 @@ TEST(OxygenField, SupportableBiomassOfTheLooseSearchIsBracketedByFullSolves) {
   // The search solves to 1e-10 only; full solves (1e-12, balances closed) 3e-4 either side of
   // its answer (its bracket is 1e-4 wide) must fall on either side of critical DO. The tall demo at about 5e4 zones
   // (multigrid, nested start), where a loose solve's DO error is largest of the bundled sizes.
-  const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml",
-                                {parse_override("grid.radial=40"), parse_override("grid.axial=200")})
-                     .data;
+  const Case c = testing::tall_demo(40, 200);
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   const auto f = solve_oxygen_field(ctx);
