@@ -301,26 +301,24 @@ void ScalarMultigrid::multiply(const Level& lev, const std::vector<double>& in, 
   for (int i = 0; i < lev.n; ++i) out[i] = row_product(start, col, val, in.data(), i);
 }
 
-// The residual b - B x row by row: into r, or (restrict) straight into the coarse right-hand side
-// (r then not written). One pass over the operator, none over r.
-void ScalarMultigrid::residual(const Level& lev, const std::vector<double>& b, const std::vector<double>& x,
-                               std::vector<double>& r, std::vector<double>* coarse) {
+// The residual b - B x row by row, summed straight into the coarse right-hand side (restriction
+// by the aggregates): one pass over the operator, none over a residual vector.
+void ScalarMultigrid::restrict_residual(const Level& lev, const std::vector<double>& b, const std::vector<double>& x,
+                                        std::vector<double>& coarse) {
   const int *start = lev.start.data(), *col = lev.col.data();
   const float* val = lev.val.data();
   for (int i = 0; i < lev.n; ++i) {
-    const double s = row_product(start, col, val, x.data(), i);
-    if (coarse == nullptr) {
-      r[i] = b[i] - s;
-    } else if (lev.aggregate[i] >= 0) {
-      (*coarse)[lev.aggregate[i]] += b[i] - s;
-    }
+    if (lev.aggregate[i] >= 0) coarse[lev.aggregate[i]] += b[i] - row_product(start, col, val, x.data(), i);
   }
 }
 
-// r = (LU)^-1 in (in may be r itself); with add_to, also add_to += r in the same sweep.
-void ScalarMultigrid::ilu_solve(const Level& lev, const std::vector<double>& in, std::vector<double>& r, std::vector<double>* add_to) {
+// r = (LU)^-1 in (in may be r itself); with add_to, also add_to += r in the same sweep; with
+// residual_of, r = (LU)^-1 (in - B residual_of), each row's residual formed in the forward sweep.
+void ScalarMultigrid::ilu_solve(const Level& lev, const std::vector<double>& in, std::vector<double>& r, std::vector<double>* add_to,
+                                const std::vector<double>* residual_of) {
   const int* start = lev.start.data();
   const int* col = lev.col.data();
+  const float* val = lev.val.data();
   const float* lu = lev.lu.data();
   const float* inv_diag = lev.inv_diag.data();
   const int* dp = lev.diag_pos.data();
@@ -335,7 +333,8 @@ void ScalarMultigrid::ilu_solve(const Level& lev, const std::vector<double>& in,
   for (int i = 0; i < lev.n; ++i) {
     const int near = dp[i] - 1;
     const bool chained = near >= start[i] && col[near] == i - 1;
-    double s = b[i];
+    // A row's residual needs only residual_of, not the chain: it is off the critical path.
+    double s = residual_of != nullptr ? b[i] - row_product(start, col, val, residual_of->data(), i) : b[i];
     for (int e = start[i], end = chained ? near : dp[i]; e < end; ++e) s -= lu[e] * x[col[e]];
     s -= (chained ? lu[near] : 0.0f) * last;
     x[i] = last = s;
@@ -350,39 +349,6 @@ void ScalarMultigrid::ilu_solve(const Level& lev, const std::vector<double>& in,
     s -= (chained ? lu[near] : 0.0f) * last;
     x[i] = last = s;
     if (sum != nullptr) sum[i] += s;
-  }
-}
-
-// ilu_solve(b - B x) added to x, with the residual of each row formed inside the forward sweep:
-// the same arithmetic as residual() then ilu_solve(), one pass over the operator fewer. The
-// residual of a row needs only x, not the chain, so it is off the sweep's critical path.
-void ScalarMultigrid::smooth_residual(const Level& lev, const std::vector<double>& b, std::vector<double>& x,
-                                      std::vector<double>& y) {
-  const int* start = lev.start.data();
-  const int* col = lev.col.data();
-  const float* val = lev.val.data();
-  const float* lu = lev.lu.data();
-  const float* inv_diag = lev.inv_diag.data();
-  const int* dp = lev.diag_pos.data();
-  double* out = y.data();
-  double last = 0.0;
-  for (int i = 0; i < lev.n; ++i) {
-    const int near = dp[i] - 1;
-    const bool chained = near >= start[i] && col[near] == i - 1;
-    double s = b[i] - row_product(start, col, val, x.data(), i);
-    for (int e = start[i], end = chained ? near : dp[i]; e < end; ++e) s -= lu[e] * out[col[e]];
-    s -= (chained ? lu[near] : 0.0f) * last;
-    out[i] = last = s;
-  }
-  last = 0.0;
-  for (int i = lev.n - 1; i >= 0; --i) {
-    const int near = dp[i] + 1;
-    const bool chained = near < start[i + 1] && col[near] == i + 1;
-    double s = out[i] * inv_diag[i];
-    for (int e = start[i + 1] - 1, end = chained ? near : dp[i]; e > end; --e) s -= lu[e] * out[col[e]];
-    s -= (chained ? lu[near] : 0.0f) * last;
-    out[i] = last = s;
-    x[i] += s;
   }
 }
 
@@ -407,7 +373,7 @@ void ScalarMultigrid::cycle(int l) const {
   const Level& next = levels_[l + 1];
   const int nc = next.n;
   std::fill(next.b.begin(), next.b.end(), 0.0);
-  residual(lev, b, x, r, &next.b);
+  restrict_residual(lev, b, x, next.b);
   if (l + 2 == static_cast<int>(levels_.size())) {
     cycle(l + 1);  // exact
   } else {
@@ -436,7 +402,7 @@ void ScalarMultigrid::cycle(int l) const {
   for (int i = 0; i < n; ++i) {
     if (lev.aggregate[i] >= 0) x[i] += next.x[lev.aggregate[i]];
   }
-  smooth_residual(lev, b, x, r);
+  ilu_solve(lev, b, r, &x, &x);
 }
 
 void ScalarMultigrid::precondition(const Eigen::VectorXf& in, Eigen::VectorXf& out) const {

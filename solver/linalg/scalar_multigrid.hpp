@@ -53,10 +53,12 @@ class ScalarMultigrid {
   };
   void cycle(int l) const;
   static void multiply(const Level& lev, const std::vector<double>& in, std::vector<double>& out);
-  static void residual(const Level& lev, const std::vector<double>& b, const std::vector<double>& x, std::vector<double>& r,
-                       std::vector<double>* coarse);
-  static void ilu_solve(const Level& lev, const std::vector<double>& in, std::vector<double>& r, std::vector<double>* add_to);
-  static void smooth_residual(const Level& lev, const std::vector<double>& b, std::vector<double>& x, std::vector<double>& y);
+  static void restrict_residual(const Level& lev, const std::vector<double>& b, const std::vector<double>& x,
+                                std::vector<double>& coarse);
+  // r = (LU)^-1 in, added to *add_to when given; with residual_of, of in - B residual_of instead
+  // (each row's residual formed inside the forward sweep: one pass over the operator fewer).
+  static void ilu_solve(const Level& lev, const std::vector<double>& in, std::vector<double>& r, std::vector<double>* add_to,
+                        const std::vector<double>* residual_of = nullptr);
 
   std::vector<Level> levels_;
   ScalarLu coarsest_;
