@@ -2,6 +2,7 @@
 // case_reader.hpp fills it from TOML and checks it.
 #pragma once
 
+#include <algorithm>
 #include <map>
 #include <optional>
 #include <string>
@@ -125,6 +126,8 @@ struct Feed {
 struct Grid {
   int radial = 12;  //!< Requested radial zone count (alignment may add a few)
   int axial = 40;   //!< Requested axial zone count
+  //! Half the counts in both directions, at least one each (nested starts, coarse theta95).
+  Grid halved() const { return {std::max(1, radial / 2), std::max(1, axial / 2)}; }
 };
 
 struct Output {

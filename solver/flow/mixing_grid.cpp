@@ -1,7 +1,5 @@
 #include "solver/flow/mixing_grid.hpp"
 
-#include <algorithm>
-
 #include "solver/flow/mixing_time.hpp"
 
 namespace oxystrat {
@@ -12,8 +10,7 @@ CaseMixingTime case_mixing_time(const Case& c, const ZoneNetwork& net, const Hyd
   int halvings = 0;
   const auto cells = [&coarse] { return static_cast<long>(coarse.grid.radial) * coarse.grid.axial; };
   while (cells() > max_zones && cells() > 1) {
-    coarse.grid.radial = std::max(1, coarse.grid.radial / 2);
-    coarse.grid.axial = std::max(1, coarse.grid.axial / 2);
+    coarse.grid = coarse.grid.halved();
     ++halvings;
   }
   const ZoneNetwork coarse_net = build_zone_geometry(coarse);

@@ -130,8 +130,7 @@ std::optional<HalvedGridField> solve_on_halved_grid(const Case& c, const ZoneNet
                                                     const NewtonOptions& newton) {
   if (fine.size() < newton.linear.nested_start_from_zones) return std::nullopt;
   Case coarse_case = c;
-  coarse_case.grid.radial = std::max(1, c.grid.radial / 2);
-  coarse_case.grid.axial = std::max(1, c.grid.axial / 2);
+  coarse_case.grid = c.grid.halved();
   if (coarse_case.grid.radial == c.grid.radial && coarse_case.grid.axial == c.grid.axial) return std::nullopt;
   try {
     HalvedGridField level{build_zone_geometry(coarse_case), {}};
