@@ -37,7 +37,7 @@ CaseRun run_case(const Case& c, const CaseRunOptions& opts, NewtonWorkspace* wor
   const OxygenContext ctx{c, run.net, run.hydro, run.routing};
   if (workspace != nullptr) workspace->start_new_problem();
   stage(fmt::format("steady O2/CO2 field on {} zones", run.net.size()));
-  run.field = solve_oxygen_field(ctx, -1.0, nullptr, workspace);
+  run.field = solve_oxygen_field(ctx, -1.0, nullptr, workspace, opts.field_solve);
 
   if (opts.supportable_biomass && c.culture.q_o2_max_mol_kg_s > 0.0) {
     stage("the largest biomass every zone supports (a root search: one steady solve per step)");

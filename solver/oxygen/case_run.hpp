@@ -33,6 +33,7 @@ struct CaseRunOptions {
   bool supportable_biomass = true;  //!< run the root search (many steady solves)
   bool single_zone = true;          //!< also solve the one-zone answer (and its supportable biomass)
   double biomass_rel_tol = 1e-4;    //!< relative tolerance of the supportable biomass [-]
+  NewtonOptions field_solve = {};   //!< the field's solve (margin_solve_options() when only checked against limits)
 };
 
 //! Told what is being done before each long part of a run (a command shows it on large grids).

@@ -344,6 +344,13 @@ OxygenField solve_oxygen_field_seeded(const OxygenContext& ctx, double biomass_k
   return solve_field(ctx, biomass_kg_m3, nullptr, &halved, nullptr, newton);
 }
 
+NewtonOptions margin_solve_options() {
+  NewtonOptions o;
+  o.tolerance = 1e-10;
+  o.balance_tolerance = std::numeric_limits<double>::infinity();
+  return o;
+}
+
 double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& field_at_case, double rel_tol) {
   const double critical = ctx.c.culture.critical_do_mol_m3;
   const double x_case = ctx.c.culture.biomass_kg_m3;
@@ -353,9 +360,7 @@ double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& fiel
   // A margin needs DO_min to the search's resolution, not to the field's 1e-12: solved to a scaled
   // residual of 1e-10 (balances left open), the tall demo's supportable biomass moved by less than
   // 1e-6 relative at 5e3 to 2e5 zones, and the search took a third less time (bench/notes.md).
-  NewtonOptions search;
-  search.tolerance = 1e-10;
-  search.balance_tolerance = std::numeric_limits<double>::infinity();
+  const NewtonOptions search = margin_solve_options();
   const auto margin = [&](double x) {
     warm = solve_oxygen_field(ctx, x, &warm, &ws, search);
     return warm.do_min - critical;

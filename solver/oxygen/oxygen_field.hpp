@@ -104,9 +104,14 @@ struct OxygenSetup {
 OxygenField solve_oxygen_field(const OxygenContext& ctx, double biomass_kg_m3 = -1.0, const OxygenField* warm = nullptr,
                                NewtonWorkspace* workspace = nullptr, const NewtonOptions& newton = {});
 
+//! The solve of a field that is only compared with limits (critical DO, pCO2, ...): a scaled
+//! residual of 1e-10 with the vessel's balances left open. Its DO moves by ~1e-6 of the full
+//! solve's at most (bench/notes.md), far below any margin it decides.
+NewtonOptions margin_solve_options();
+
 //! Largest biomass [kg/m3] with every zone at or above culture.critical_do, to 1e-4 relative (0
 //! when even no culture fails, capped at 1000 kg/m3 when nothing limits). `field_at_case` seeds
-//! the search, whose solves stop at a scaled residual of 1e-10 (its margins need no more).
+//! the search, whose solves are margin solves (margin_solve_options()).
 double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& field_at_case, double rel_tol = 1e-4);
 
 }  // namespace oxystrat

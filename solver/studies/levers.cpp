@@ -75,6 +75,15 @@ std::vector<LeverSpec> lever_specs(const Case& c) {
   return out;
 }
 
+// Every lever point is only checked against the constraints: a margin solve of the field, no
+// supportable biomass, no single-zone answer.
+CaseRunOptions lever_run_options() {
+  CaseRunOptions o;
+  o.supportable_biomass = o.single_zone = false;
+  o.field_solve = margin_solve_options();
+  return o;
+}
+
 struct Evaluation {
   bool ok = false;
   std::string error;
@@ -87,7 +96,7 @@ Evaluation evaluate(const LoadedCase& base, const std::vector<Override>& overrid
     auto o = overrides;
     o.push_back(parse_override(fmt::format("{}=\"{:.10g} {}\"", s.key, value, s.unit)));
     const auto loaded = read_case_text(base.source_text, base.file_name, o);
-    const auto run = run_case(loaded.data, {false, false});
+    const auto run = run_case(loaded.data, lever_run_options());
     e.effects = lever_effects(loaded.data, run);
     e.ok = true;
   } catch (const Error& err) {
@@ -159,7 +168,7 @@ LeverResult swap_impellers(const LoadedCase& base, const std::vector<Override>& 
       return r;
     }
     c.impellers = o.data.impellers;
-    const auto run = run_case(c, {false, false});
+    const auto run = run_case(c, lever_run_options());
     r.effects = lever_effects(c, run);
     r.found = r.effects.feasible;
     if (!r.found) r.note = "the other impellers alone do not meet the constraints";
@@ -205,7 +214,7 @@ LeverEffects lever_effects(const Case& c, const CaseRun& run) {
 LeversStudy study_levers(const LoadedCase& loaded, const std::vector<Override>& overrides, const LeverOptions& o) {
   LeversStudy s;
   const Case& c = loaded.data;
-  s.base = lever_effects(c, run_case(c, {false, false}));
+  s.base = lever_effects(c, run_case(c, lever_run_options()));
   const auto specs = lever_specs(c);
   const int count = static_cast<int>(specs.size()) + (o.impeller_case.empty() ? 0 : 1);
   s.levers.resize(count);

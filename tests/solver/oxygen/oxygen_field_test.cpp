@@ -145,8 +145,9 @@ TEST(OxygenField, SupportableBiomassPutsTheWorstZoneAtCriticalDo) {
 
 TEST(OxygenField, SupportableBiomassOfTheLooseSearchIsBracketedByFullSolves) {
   // The search solves to 1e-10 only; full solves (1e-12, balances closed) 3e-4 either side of
-  // its answer (its bracket is 1e-4 wide) must fall on either side of critical DO. The tall demo at about 5e4 zones
-  // (multigrid, nested start), where a loose solve's DO error is largest of the bundled sizes.
+  // its answer (its bracket is 1e-4 wide) must fall on either side of critical DO. The tall demo
+  // at about 8000 zones (multigrid, nested start), where a loose solve's DO error is largest of
+  // the bundled sizes.
   const Case c = testing::tall_demo(40, 200);
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
@@ -155,6 +156,32 @@ TEST(OxygenField, SupportableBiomassOfTheLooseSearchIsBracketedByFullSolves) {
   const double critical = c.culture.critical_do_mol_m3;
   EXPECT_GE(solve_oxygen_field(ctx, x_max * (1.0 - 3e-4)).do_min, critical);
   EXPECT_LT(solve_oxygen_field(ctx, x_max * (1.0 + 3e-4)).do_min, critical);
+}
+
+TEST(OxygenField, MarginSolveGivesTheFullSolvesValuesForEveryConstraint) {
+  // The levers and the biomass search only compare the field with limits, so they solve to 1e-10
+  // with the balances open (margin_solve_options). What the constraints read must match the full
+  // solve far below any margin: DO and pCO2 to 1e-6 relative (measured: DO within 5e-9 of air
+  // saturation here; 4e-7 at a million zones, the last pass's move), and the starved volume may differ only by zones
+  // whose DO lies within that of critical. The tall demo at about 8000 zones (multigrid, nested
+  // start).
+  const Case c = testing::tall_demo(40, 200);
+  const Chain ch(c);
+  const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
+  const auto full = solve_oxygen_field(ctx);
+  const auto margin = solve_oxygen_field(ctx, -1.0, nullptr, nullptr, margin_solve_options());
+  const double air = full.air_saturation_mol_m3, critical = c.culture.critical_do_mol_m3;
+  EXPECT_NEAR(margin.do_min, full.do_min, 1e-6 * air);
+  EXPECT_NEAR(margin.pco2_max_pa, full.pco2_max_pa, 1e-6 * full.pco2_max_pa);
+  EXPECT_NEAR(margin.kla_mean_1_s, full.kla_mean_1_s, 1e-6 * full.kla_mean_1_s);
+  double near_critical = 0.0, largest_change = 0.0;
+  for (int k = 0; k < ch.net.size(); ++k) {
+    largest_change = std::max(largest_change, std::abs(margin.do_mol_m3[k] - full.do_mol_m3[k]));
+    if (std::abs(full.do_mol_m3[k] - critical) < 1e-6 * air) near_critical += ch.net.volume[k];
+  }
+  EXPECT_LT(largest_change, 1e-6 * air);
+  EXPECT_LE(std::abs(margin.volume_fraction_below_critical - full.volume_fraction_below_critical),
+            near_critical / ch.net.total_volume() + 1e-15);
 }
 
 TEST(CaseRun, NoGasSkipsTheOxygenSolveWithANote) {
