@@ -80,13 +80,11 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
       fresh = true;
     }
     // Forcing term (Eisenstat & Walker 1996, choice 2 with gamma = 0.9, alpha = 2): loose while
-    // the residual falls slowly, tight in the quadratic phase, never above 0.1; and never below
-    // 0.5 tol / |r| (Kelley 1995, sec. 6.3 [mem]), so that a step near the end does not solve far
-    // past the tolerance. |r| is the convergence test's max norm: the 2-norm of 4N rows is ~100x
-    // larger at a million zones and would let the last step solve two decades too far.
+    // the residual falls slowly, tight in the quadratic phase; never below what puts the
+    // linearised residual at a tenth of the tolerance (2-norm >= max norm), never above 0.1.
     const double r2 = r.norm();
     double eta = r2_previous > 0.0 ? 0.9 * (r2 / r2_previous) * (r2 / r2_previous) : 1e-2;
-    eta = std::min(0.1, std::max(eta, 0.5 * opts.tolerance / rep.residual));
+    eta = std::min(0.1, std::max(eta, 0.1 * opts.tolerance * p.residual_scale() / r2));
     r2_previous = r2;
     // The right-hand side -r in r's own storage (no temporary of the system's size): r is not
     // needed again, the line search replaces it.
