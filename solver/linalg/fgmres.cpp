@@ -62,41 +62,45 @@ double Fgmres::orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<Eigen::Ve
     }
     return w.norm();
   }
-  partial_.resize(static_cast<size_t>(chunks) * count);
+  const int width = count + 1;  // per chunk: the projections, then |w|^2
+  partial_.resize(static_cast<size_t>(chunks) * width);
   double* wp = w.data();
   std::vector<double> d(count, 0.0);  // projections still to subtract
   const auto chunk_sum = [&](int i) {
     double sum = 0.0;
-    for (int c = 0; c < chunks; ++c) sum += partial_[static_cast<size_t>(c) * count + i];
+    for (int c = 0; c < chunks; ++c) sum += partial_[static_cast<size_t>(c) * width + i];
     return sum;
   };
-  // One sweep over the chunks: subtract d (if asked), then project on the basis or measure |w|^2.
-  const auto sweep = [&](bool subtract, bool measure) {
+  // One sweep over the chunks: subtract d, or project on the basis; then measure |w|^2.
+  const auto sweep = [&](bool subtract) {
 #pragma omp parallel for schedule(static) if (m >= parallel_from)
     for (int c = 0; c < chunks; ++c) {
       const int b = c * kChunk, e = std::min(m, b + kChunk);
-      double* out = partial_.data() + static_cast<size_t>(c) * count;
+      double* out = partial_.data() + static_cast<size_t>(c) * width;
       if (subtract) {
         for (int i = 0; i < count; ++i) {
           const float* v = basis_[i].data();
           const double di = d[i];
           for (int k = b; k < e; ++k) wp[k] -= di * v[k];
         }
-      }
-      if (measure) {
-        out[0] = chunk_dot(wp + b, wp + b, e - b);
       } else {
         for (int i = 0; i < count; ++i) out[i] = chunk_dot(wp + b, basis_[i].data() + b, e - b);
       }
+      out[count] = chunk_dot(wp + b, wp + b, e - b);
     }
   };
   h.head(count).setZero();
+  double norm2 = 0.0;
   for (int pass = 0; pass < 2; ++pass) {
-    sweep(pass > 0, false);
+    sweep(false);
+    const double before = chunk_sum(count);
     for (int i = 0; i < count; ++i) h[i] += (d[i] = chunk_sum(i));
+    sweep(true);
+    norm2 = chunk_sum(count);
+    // A second pass only where the first cancelled more than 90 % of the norm (see the header).
+    if (!(norm2 < 1e-2 * before)) break;
   }
-  sweep(true, true);
-  return std::sqrt(chunk_sum(0));
+  return std::sqrt(norm2);
 }
 
 bool Fgmres::solve(const Operator& a, const Preconditioner& m, const Eigen::VectorXd& b, Eigen::VectorXd& x,

@@ -5,9 +5,13 @@
 // compressed basis, as Aliaga et al. 2023 [mem] show for GMRES): a rounded image is only another
 // varying preconditioner, used as rounded, so the Arnoldi relation holds for it exactly; the
 // rounded basis is orthonormal to ~1e-7, which bounds what one cycle gains (7 decades), and every
-// restart measures the true residual in double. Orthogonalisation: classical Gram-Schmidt twice
-// ("twice is enough": Giraud, Langou & Rozloznik 2005 [mem]) in cached chunks whose partial sums
-// are added in chunk order, so the result is the same to the bit for any thread count.
+// restart measures the true residual in double. Orthogonalisation: classical Gram-Schmidt in
+// cached chunks whose partial sums are added in chunk order, so the result is the same to the bit
+// for any thread count; a second pass ("twice is enough": Giraud, Langou & Rozloznik 2005 [mem])
+// only when the first cancels more than 90 % of the vector's norm. The basis is stored in single
+// precision, orthonormal to ~6e-8 whatever the passes, and one pass keeps that within the ratio
+// of the norms (the usual test, 1/sqrt(2), fired in 93 % of the iterations and bought nothing:
+// the same Krylov counts from 494 to a million zones with one pass as with two).
 #pragma once
 
 #include <Eigen/Core>
