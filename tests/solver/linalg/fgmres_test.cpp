@@ -36,22 +36,28 @@ Eigen::VectorXd rhs(int n) {
   return b;
 }
 
+// A x = b to 1e-10 by GMRES(10) with a Jacobi preconditioner; the Krylov sweeps split over the
+// threads from `parallel_from` unknowns on.
+bool solve_with_jacobi(const Matrix& a, const Eigen::VectorXd& b, int parallel_from, Fgmres& solver, Eigen::VectorXd& x) {
+  const Eigen::VectorXd diag = a.diagonal();
+  FgmresOptions o;
+  o.restart = 10;
+  o.max_iterations = 5000;
+  o.parallel_from_unknowns = parallel_from;
+  return solver.solve([&](const Eigen::VectorXd& in, Eigen::VectorXd& out) { out = a * in; },
+                      [&](const Eigen::VectorXf& in, Eigen::VectorXf& out) {
+                        out = (in.cast<double>().array() / diag.array()).cast<float>();
+                      },
+                      b, x, 1e-10, o);
+}
+
 TEST(Fgmres, TrueResidualMeetsTheToleranceWithAJacobiPreconditioner) {
   const int n = 20000;  // five chunks
   const Matrix a = ring_transport(n);
   const Eigen::VectorXd b = rhs(n);
-  const Eigen::VectorXd diag = a.diagonal();
   Fgmres solver;
-  FgmresOptions o;
-  o.restart = 10;
-  o.max_iterations = 5000;
   Eigen::VectorXd x;
-  const bool ok = solver.solve([&](const Eigen::VectorXd& in, Eigen::VectorXd& out) { out = a * in; },
-                               [&](const Eigen::VectorXf& in, Eigen::VectorXf& out) {
-                                 out = (in.cast<double>().array() / diag.array()).cast<float>();
-                               },
-                               b, x, 1e-10, o);
-  ASSERT_TRUE(ok);
+  ASSERT_TRUE(solve_with_jacobi(a, b, FgmresOptions{}.parallel_from_unknowns, solver, x));
   EXPECT_GT(solver.last_iterations(), 10);  // restarted at least once
   // The solver's own test is on the true residual in double; recomputed here independently.
   EXPECT_LE((b - a * x).norm(), 1e-10 * b.norm());
@@ -82,19 +88,10 @@ TEST(Fgmres, OneOrTwoThreadsGiveTheSameBits) {
   const int n = 20000;
   const Matrix a = ring_transport(n);
   const Eigen::VectorXd b = rhs(n);
-  const Eigen::VectorXd diag = a.diagonal();
   Eigen::VectorXd x[2];
   for (int parallel : {0, 1}) {
     Fgmres solver;
-    FgmresOptions o;
-    o.restart = 10;
-    o.max_iterations = 5000;
-    o.parallel_from_unknowns = parallel == 1 ? 1 : n + 1;
-    ASSERT_TRUE(solver.solve([&](const Eigen::VectorXd& in, Eigen::VectorXd& out) { out = a * in; },
-                             [&](const Eigen::VectorXf& in, Eigen::VectorXf& out) {
-                               out = (in.cast<double>().array() / diag.array()).cast<float>();
-                             },
-                             b, x[parallel], 1e-10, o));
+    ASSERT_TRUE(solve_with_jacobi(a, b, parallel == 1 ? 1 : n + 1, solver, x[parallel]));
   }
   EXPECT_EQ(x[0], x[1]);
 }
