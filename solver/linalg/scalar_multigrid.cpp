@@ -196,7 +196,7 @@ void sort_rows(Csr& b) {
   }
 }
 
-double dot(const std::vector<double>& a, const std::vector<double>& b) {
+double dot(const std::vector<float>& a, const std::vector<float>& b) {
   double s = 0.0;
   for (std::size_t i = 0; i < a.size(); ++i) s += a[i] * b[i];
   return s;
@@ -274,6 +274,13 @@ bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vec
     lev.start = std::move(b.start);
     lev.col = std::move(b.col);
     lev.val.assign(b.val.begin(), b.val.end());
+    if (levels_.empty() && !lev.lu.empty()) {
+      lev.five_point = FivePointIlu::from_rows(lev.start, lev.col, lev.val, lev.lu, lev.diag_pos, lev.inv_diag);
+      if (lev.five_point) {
+        for (auto* v : {&lev.start, &lev.col, &lev.diag_pos}) std::vector<int>().swap(*v);
+        for (auto* v : {&lev.val, &lev.lu, &lev.inv_diag}) std::vector<float>().swap(*v);
+      }
+    }
     levels_.push_back(std::move(lev));
     if (last) return true;
     b = std::move(coarse);
@@ -282,48 +289,56 @@ bool ScalarMultigrid::setup(const Eigen::SparseMatrix<double>& a, const std::vec
 
 long ScalarMultigrid::nonzeros() const {
   long total = coarsest_.nonzeros();
-  for (const auto& l : levels_) total += static_cast<long>(l.val.size() + l.lu.size());
+  for (const auto& l : levels_) total += static_cast<long>(l.val.size() + l.lu.size()) + (l.five_point ? l.five_point->nonzeros() : 0);
   return total;
 }
 
 namespace {
 // Row i of a level's operator (compressed rows) times x.
-inline double row_product(const int* start, const int* col, const float* val, const double* x, int i) {
+inline double row_product(const int* start, const int* col, const float* val, const float* x, int i) {
   double s = 0.0;
   for (int e = start[i]; e < start[i + 1]; ++e) s += val[e] * x[col[e]];
   return s;
 }
 }  // namespace
 
-void ScalarMultigrid::multiply(const Level& lev, const std::vector<double>& in, std::vector<double>& out) {
+void ScalarMultigrid::multiply(const Level& lev, const std::vector<float>& in, std::vector<float>& out) {
   const int *start = lev.start.data(), *col = lev.col.data();
   const float* val = lev.val.data();
-  for (int i = 0; i < lev.n; ++i) out[i] = row_product(start, col, val, in.data(), i);
+  for (int i = 0; i < lev.n; ++i) out[i] = static_cast<float>(row_product(start, col, val, in.data(), i));
 }
 
 // The residual b - B x row by row, summed straight into the coarse right-hand side (restriction
 // by the aggregates): one pass over the operator, none over a residual vector.
-void ScalarMultigrid::restrict_residual(const Level& lev, const std::vector<double>& b, const std::vector<double>& x,
-                                        std::vector<double>& coarse) {
+void ScalarMultigrid::restrict_residual(const Level& lev, const std::vector<float>& b, const std::vector<float>& x,
+                                        std::vector<float>& coarse) {
+  if (lev.five_point) {
+    lev.five_point->restrict_residual(b, x, lev.aggregate, coarse);
+    return;
+  }
   const int *start = lev.start.data(), *col = lev.col.data();
   const float* val = lev.val.data();
   for (int i = 0; i < lev.n; ++i) {
-    if (lev.aggregate[i] >= 0) coarse[lev.aggregate[i]] += b[i] - row_product(start, col, val, x.data(), i);
+    if (lev.aggregate[i] >= 0) coarse[lev.aggregate[i]] += static_cast<float>(b[i] - row_product(start, col, val, x.data(), i));
   }
 }
 
 // r = (LU)^-1 in (in may be r itself); with add_to, also add_to += r in the same sweep; with
 // residual_of, r = (LU)^-1 (in - B residual_of), each row's residual formed in the forward sweep.
-void ScalarMultigrid::ilu_solve(const Level& lev, const std::vector<double>& in, std::vector<double>& r, std::vector<double>* add_to,
-                                const std::vector<double>* residual_of) {
+void ScalarMultigrid::ilu_solve(const Level& lev, const std::vector<float>& in, std::vector<float>& r, std::vector<float>* add_to,
+                                const std::vector<float>* residual_of) {
+  if (lev.five_point) {
+    lev.five_point->solve(in, r, add_to, residual_of);
+    return;
+  }
   const int* start = lev.start.data();
   const int* col = lev.col.data();
   const float* val = lev.val.data();
   const float* lu = lev.lu.data();
   const float* inv_diag = lev.inv_diag.data();
   const int* dp = lev.diag_pos.data();
-  const double* b = in.data();
-  double* x = r.data();
+  const float* b = in.data();
+  float* x = r.data();
   // Each sweep is a chain from row to row through the neighbour just finished (column i - 1
   // forward, i + 1 backward; rows are sorted by column, so it is the entry next to the
   // diagonal). That neighbour is taken from a register, not from memory, and subtracted last, so
@@ -337,18 +352,20 @@ void ScalarMultigrid::ilu_solve(const Level& lev, const std::vector<double>& in,
     double s = residual_of != nullptr ? b[i] - row_product(start, col, val, residual_of->data(), i) : b[i];
     for (int e = start[i], end = chained ? near : dp[i]; e < end; ++e) s -= lu[e] * x[col[e]];
     s -= (chained ? lu[near] : 0.0f) * last;
-    x[i] = last = s;
+    x[i] = static_cast<float>(s);
+    last = s;
   }
   last = 0.0;
-  double* sum = add_to != nullptr ? add_to->data() : nullptr;
+  float* sum = add_to != nullptr ? add_to->data() : nullptr;
   for (int i = lev.n - 1; i >= 0; --i) {
     const int near = dp[i] + 1;
     const bool chained = near < start[i + 1] && col[near] == i + 1;
     double s = x[i] * inv_diag[i];  // U's rows are stored divided by the diagonal
     for (int e = start[i + 1] - 1, end = chained ? near : dp[i]; e > end; --e) s -= lu[e] * x[col[e]];
     s -= (chained ? lu[near] : 0.0f) * last;
-    x[i] = last = s;
-    if (sum != nullptr) sum[i] += s;
+    x[i] = static_cast<float>(s);
+    last = s;
+    if (sum != nullptr) sum[i] += static_cast<float>(s);
   }
 }
 
@@ -359,20 +376,20 @@ void ScalarMultigrid::cycle(int l) const {
   auto &x = lev.x, &r = lev.r;
   const auto& b = lev.b;
   if (l + 1 == static_cast<int>(levels_.size())) {
-    if (!lev.lu.empty()) {  // coarsening stalled here: the smoother ends the cycle (setup())
+    if (!lev.lu.empty() || lev.five_point) {  // coarsening stalled here: the smoother ends the cycle (setup())
       ilu_solve(lev, b, x, nullptr);
       return;
     }
     for (int i = 0; i < n; ++i) coarse_scratch_[i] = b[i];
     coarsest_.solve(coarse_scratch_);
-    for (int i = 0; i < n; ++i) x[i] = coarse_scratch_[i];
+    for (int i = 0; i < n; ++i) x[i] = static_cast<float>(coarse_scratch_[i]);
     return;
   }
   // Pre-smoothing from zero: x = (LU)^-1 b; its residual restricted to the next level.
   ilu_solve(lev, b, x, nullptr);
   const Level& next = levels_[l + 1];
   const int nc = next.n;
-  std::fill(next.b.begin(), next.b.end(), 0.0);
+  std::fill(next.b.begin(), next.b.end(), 0.0f);
   restrict_residual(lev, b, x, next.b);
   if (l + 2 == static_cast<int>(levels_.size())) {
     cycle(l + 1);  // exact
@@ -406,14 +423,16 @@ void ScalarMultigrid::cycle(int l) const {
 }
 
 void ScalarMultigrid::precondition(const Eigen::VectorXf& in, Eigen::VectorXf& out) const {
-  Eigen::VectorXd v = in.cast<double>();
-  solve(v);
-  out = v.cast<float>();
+  const Level& top = levels_.front();
+  for (int i = 0; i < top.n; ++i) top.b[i] = -in[i];  // B = -A
+  cycle(0);
+  out.resize(top.n);
+  for (int i = 0; i < top.n; ++i) out[i] = top.x[i];
 }
 
 void ScalarMultigrid::solve(Eigen::VectorXd& x) const {
   const Level& top = levels_.front();
-  for (int i = 0; i < top.n; ++i) top.b[i] = -x[i];  // B = -A
+  for (int i = 0; i < top.n; ++i) top.b[i] = static_cast<float>(-x[i]);  // B = -A
   cycle(0);
   for (int i = 0; i < top.n; ++i) x[i] = top.x[i];
 }

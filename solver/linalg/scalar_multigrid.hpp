@@ -20,8 +20,10 @@
 
 #include <Eigen/Core>
 #include <Eigen/Sparse>
+#include <optional>
 #include <vector>
 
+#include "solver/linalg/five_point_ilu.hpp"
 #include "solver/linalg/scalar_lu.hpp"
 
 namespace oxystrat {
@@ -49,16 +51,21 @@ class ScalarMultigrid {
     std::vector<float> lu;        // ILU(0) factors on the pattern of B
     std::vector<float> inv_diag;  // 1 / U's diagonal: a product, not a division, on the solve's critical path
     std::vector<int> aggregate;   // coarse index of each row, -1 when left out of the coarse level
-    mutable std::vector<double> x, b, r, v, w;  // v, w: the K-cycle's first direction and its image (not on level 0)
+    // The finest level in five-point form when it has that shape; its compressed rows are then
+    // released (the K-cycle multiplies only the coarse levels).
+    std::optional<FivePointIlu> five_point;
+    // Single precision too: the cycle's output is a preconditioner's (FGMRES keeps it in single
+    // precision), and its sums are taken in double.
+    mutable std::vector<float> x, b, r, v, w;  // v, w: the K-cycle's first direction and its image (not on level 0)
   };
   void cycle(int l) const;
-  static void multiply(const Level& lev, const std::vector<double>& in, std::vector<double>& out);
-  static void restrict_residual(const Level& lev, const std::vector<double>& b, const std::vector<double>& x,
-                                std::vector<double>& coarse);
+  static void multiply(const Level& lev, const std::vector<float>& in, std::vector<float>& out);
+  static void restrict_residual(const Level& lev, const std::vector<float>& b, const std::vector<float>& x,
+                                std::vector<float>& coarse);
   // r = (LU)^-1 in, added to *add_to when given; with residual_of, of in - B residual_of instead
   // (each row's residual formed inside the forward sweep: one pass over the operator fewer).
-  static void ilu_solve(const Level& lev, const std::vector<double>& in, std::vector<double>& r, std::vector<double>* add_to,
-                        const std::vector<double>* residual_of = nullptr);
+  static void ilu_solve(const Level& lev, const std::vector<float>& in, std::vector<float>& r, std::vector<float>* add_to,
+                        const std::vector<float>* residual_of = nullptr);
 
   std::vector<Level> levels_;
   ScalarLu coarsest_;

@@ -50,11 +50,12 @@ TEST(GasRouting, MultigridRoutingLeavesThroughTheSurfaceToItsTolerance) {
   for (const auto* start : starts) {
     const auto routing = route_gas(c, net, hydro, o, start);
     EXPECT_NEAR(surface_flow(routing, routing.unit_inventory), 1.0, 1e-10 * std::sqrt(net.size()));
-    // Each zone's inventory as the LU's to 1e-9 relative: 3e-11 measured from zero (the
-    // residual's 1e-10 carried over with a factor ~0.3); thirty times that leaves room for
-    // another network.
+    // Each zone's inventory as the LU's to 1e-8 relative. The error is the residual's image under
+    // G^-1, so it depends on where GMRES stops inside its tolerance: measured 5e-11 from zero
+    // (relative residual 4e-12) and 1.7e-9 from the rough start (relative residual 6e-11, just
+    // inside the 1e-10); 1e-8 leaves room for another network.
     for (int k = 0; k < net.size(); ++k) {
-      EXPECT_NEAR(routing.unit_inventory[k], exact.routing.unit_inventory[k], 1e-9 * exact.routing.unit_inventory[k]) << k;
+      EXPECT_NEAR(routing.unit_inventory[k], exact.routing.unit_inventory[k], 1e-8 * exact.routing.unit_inventory[k]) << k;
     }
   }
 }
