@@ -423,18 +423,13 @@ void ScalarMultigrid::cycle(int l) const {
 }
 
 void ScalarMultigrid::precondition(const Eigen::VectorXf& in, Eigen::VectorXf& out) const {
-  const Level& top = levels_.front();
-  for (int i = 0; i < top.n; ++i) top.b[i] = -in[i];  // B = -A
-  cycle(0);
-  out.resize(top.n);
-  for (int i = 0; i < top.n; ++i) out[i] = top.x[i];
+  solve_with([&in](int i) { return in[i]; });
+  out = Eigen::Map<const Eigen::VectorXf>(solution().data(), levels_.front().n);
 }
 
 void ScalarMultigrid::solve(Eigen::VectorXd& x) const {
-  const Level& top = levels_.front();
-  for (int i = 0; i < top.n; ++i) top.b[i] = static_cast<float>(-x[i]);  // B = -A
-  cycle(0);
-  for (int i = 0; i < top.n; ++i) x[i] = top.x[i];
+  solve_with([&x](int i) { return x[i]; });
+  x = Eigen::Map<const Eigen::VectorXf>(solution().data(), levels_.front().n).cast<double>();
 }
 
 }  // namespace oxystrat

@@ -39,6 +39,15 @@ class ScalarMultigrid {
   void solve(Eigen::VectorXd& x) const;
   //! The same as a Krylov preconditioner (fgmres.hpp), whose vectors are single precision.
   void precondition(const Eigen::VectorXf& in, Eigen::VectorXf& out) const;
+  //! One K-cycle from a zero guess for the right-hand side whose row i is rhs(i), read where it
+  //! lies (no copy of it); the answer is then solution(), until the next cycle.
+  template <class Rhs>
+  void solve_with(const Rhs& rhs) const {
+    const Level& top = levels_.front();
+    for (int i = 0; i < top.n; ++i) top.b[i] = static_cast<float>(-rhs(i));  // B = -A
+    cycle(0);
+  }
+  const std::vector<float>& solution() const { return levels_.front().x; }
   int levels() const { return static_cast<int>(levels_.size()); }
   long nonzeros() const;  //!< all levels' operators and smoothers and the coarsest factor
 

@@ -252,8 +252,10 @@ bool ZoneBlockSolver::refresh_preconditioner() {
   if (!have_jacobian_) return false;
   multigrid_ = n_ >= options_.multigrid_from_zones;
   // The preconditioner needs only the gas rows' coupling to their own liquid (C of each pair).
-  gas_from_liquid_.resize(n_);
-  for (int k = 0; k < n_; ++k) gas_from_liquid_[k] = {local_[k][kS * 2 + 0], local_[k][kS * 3 + 1]};
+  for (int pair = 0; pair < 2; ++pair) {
+    gas_from_liquid_[pair].resize(n_);
+    for (int k = 0; k < n_; ++k) gas_from_liquid_[pair][k] = local_[k][kS * (pair + 2) + pair];
+  }
   // Each species' block is its transport plus the zone-local diagonal; the gas blocks become
   // their Schur complements S = G - diag(C B / A_kk). Both as a shift: block - diag(shift).
   std::array<std::vector<double>, kS> shift;
@@ -355,22 +357,39 @@ void ZoneBlockSolver::precondition(const Eigen::VectorXf& v, Eigen::VectorXf& ou
     }
   }
   out.resize(kS * n_);
+  if (multigrid_) {  // the answers where the cycles left them
+    const std::array<const float*, kS> x{mg_[0].solution().data(), mg_[1].solution().data(), mg_[2].solution().data(),
+                                         mg_[3].solution().data()};
+#pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
+    for (int k = 0; k < n_; ++k) {
+      for (int s = 0; s < kS; ++s) out[kS * k + s] = x[s][k];
+    }
+    return;
+  }
 #pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
   for (int k = 0; k < n_; ++k) {
     for (int s = 0; s < kS; ++s) out[kS * k + s] = static_cast<float>(s_[s][k]);
   }
 }
 
-// x_l = A^-1 v_l, x_g = S^-1 (v_g - C x_l) for one pair, into s_[l] and s_[g].
+// x_l = A^-1 v_l, x_g = S^-1 (v_g - C x_l) for one pair: into the multigrid's own solution
+// vectors, each cycle reading its right-hand side straight from v; else into s_[l] and s_[g].
 void ZoneBlockSolver::precondition_pair(int pair, const Eigen::VectorXf& v) {
   const int l = pair, g = pair + 2, n = n_;
+  const double* c = gas_from_liquid_[pair].data();
+  if (multigrid_) {
+    mg_[l].solve_with([&v, l](int k) { return v[kS * k + l]; });
+    const float* xl = mg_[l].solution().data();
+    mg_[g].solve_with([&v, g, c, xl](int k) { return v[kS * k + g] - c[k] * xl[k]; });
+    return;
+  }
   Eigen::VectorXd& xl = s_[l];
   Eigen::VectorXd& xg = s_[g];
   xl.resize(n);
   xg.resize(n);
   for (int k = 0; k < n; ++k) xl[k] = v[kS * k + l];
   block_solve(l, xl);
-  for (int k = 0; k < n; ++k) xg[k] = v[kS * k + g] - gas_from_liquid_[k][pair] * xl[k];
+  for (int k = 0; k < n; ++k) xg[k] = v[kS * k + g] - c[k] * xl[k];
   block_solve(g, xg);
 }
 
@@ -382,8 +401,8 @@ void ZoneBlockSolver::precondition_fused(const Eigen::VectorXf& v) {
   for (int k = 0; k < n; ++k) s_[0][k] = v[kS * k + 0], s_[1][k] = v[kS * k + 1];
   ScalarLu::solve_both(lu_[0], lu_[1], s_[0], s_[1]);
   for (int k = 0; k < n; ++k) {
-    s_[2][k] = v[kS * k + 2] - gas_from_liquid_[k][0] * s_[0][k];
-    s_[3][k] = v[kS * k + 3] - gas_from_liquid_[k][1] * s_[1][k];
+    s_[2][k] = v[kS * k + 2] - gas_from_liquid_[0][k] * s_[0][k];
+    s_[3][k] = v[kS * k + 3] - gas_from_liquid_[1][k] * s_[1][k];
   }
   ScalarLu::solve_both(lu_[2], lu_[3], s_[2], s_[3]);
 }

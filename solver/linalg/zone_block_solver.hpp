@@ -113,7 +113,7 @@ class ZoneBlockSolver {
   std::array<Eigen::SparseMatrix<double>, kSpecies> p_;
   std::array<ScalarLu, kSpecies> lu_;
   std::array<ScalarMultigrid, kSpecies> mg_;
-  std::vector<std::array<double, 2>> gas_from_liquid_;  // C of each pair at the refresh, per zone
+  std::array<std::vector<double>, 2> gas_from_liquid_;  // C of each pair at the refresh, per zone
   bool multigrid_ = false;
   bool factored_ = false, have_jacobian_ = false;
   bool fused_ = false;  // the O2 and CO2 exact LUs share their symbolic part: solved together
