@@ -64,9 +64,11 @@ bool layout_transport(const Eigen::SparseMatrix<double>* m, int n) {
 }
 
 // out[kS i + s] += sum_j m_ij x[kS j + s] for the species s of `first` .. `first + count - 1`,
-// which share the matrix m; columns from the last to the first when `backward`.
+// which share the matrix m; columns from the last to the first when `backward`. With `local`,
+// also the zone-local rows of those species, zone by zone as its column passes (the same lines
+// of out and x, while they are in cache).
 void add_product(const Eigen::SparseMatrix<double>& m, int first, int count, bool backward, const Eigen::VectorXd& x,
-                 Eigen::VectorXd& out) {
+                 Eigen::VectorXd& out, const ZoneBlockSolver::LocalBlock* local = nullptr) {
   const int* outer = m.outerIndexPtr();
   const int* inner = m.innerIndexPtr();
   const double* val = m.valuePtr();
@@ -83,6 +85,13 @@ void add_product(const Eigen::SparseMatrix<double>& m, int first, int count, boo
       }
     } else {
       for (int e = outer[col]; e < outer[col + 1]; ++e) o[kS * inner[e] + first] += val[e] * xc[0];
+    }
+    if (local != nullptr) {
+      const double* xk = x.data() + kS * col;
+      for (int si = first; si < first + count; ++si) {
+        const double* row = local[col].data() + kS * si;
+        o[kS * col + si] += ((row[0] * xk[0] + row[1] * xk[1]) + (row[2] * xk[2] + row[3] * xk[3]));
+      }
     }
   }
 }
@@ -320,18 +329,18 @@ void ZoneBlockSolver::multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) c
 #pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
   for (int i = 0; i < kS * n_; ++i) out[i] = 0.0;
   if (block_[0] == block_[1] && block_[2] == block_[3]) {
-    // Liquid and gas pair side by side; the gas from the last column, so that the two threads
-    // write the same cache lines only where they cross.
+    // Liquid and gas pair side by side, each with its species' zone-local rows; the gas from the
+    // last column, so that the two threads write the same cache lines only where they cross.
 #pragma omp parallel sections num_threads(2) if (kS * n_ >= options_.parallel_from_unknowns)
     {
 #pragma omp section
-      add_product(*block_[0], 0, 2, false, x, out);
+      add_product(*block_[0], 0, 2, false, x, out, local_.data());
 #pragma omp section
-      add_product(*block_[2], 2, 2, true, x, out);
+      add_product(*block_[2], 2, 2, true, x, out, local_.data());
     }
-  } else {
-    for (int s = 0; s < kS; ++s) add_product(*block_[s], s, 1, false, x, out);
+    return;
   }
+  for (int s = 0; s < kS; ++s) add_product(*block_[s], s, 1, false, x, out);
 #pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
   for (int k = 0; k < n_; ++k) {
     const LocalBlock& c = local_[k];
