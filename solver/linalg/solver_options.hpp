@@ -27,6 +27,12 @@ struct SolverOptions {
   //! on the halved grid (nested iteration; solver/oxygen/nested_start.hpp). Nesting already pays
   //! near 5000 zones; below it the bundled cases keep the direct cold solve (bench/notes.md).
   int nested_start_from_zones = 5000;
+  //! From this many zones on, Newton's forcing term is also floored on the max norm of the
+  //! convergence test (steady_problem.cpp): at a million zones the last step then stops oversolving
+  //! (45 -> 43 Krylov iterations, ~0.4 s). Smaller networks keep only the 2-norm floor: there the
+  //! oversolve costs little and its margin absorbs the last holdup update (with the max-norm floor
+  //! 494 and 1972 zones took an extra outer pass; bench/notes.md, session 9).
+  int max_norm_forcing_from_zones = 5000;
   //! Relative residual of the multigrid solve for the gas each zone carries (gas routing): the
   //! sparged gas leaves through the surface to this times at most sqrt(zones). 1e-10 costs a
   //! sixth less than 1e-12 at 2.5e5 zones; the nested start's coarse grids take 1e-8 (a seed).

@@ -59,12 +59,12 @@ bool take_jacobian(const SteadyProblem& p, const ZoneLayout& layout, const Eigen
 // Inexact Newton with the structured linear solve. Returns false when it cannot go on (the
 // Jacobian lacks the structure, GMRES fails even with a fresh preconditioner, or the line search
 // finds no decrease); x then holds the last accepted iterate and the caller continues from it.
+// r and m: the residual and merit at x on entry (r is overwritten).
 bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::VectorXd& x, const NewtonOptions& opts,
-                       NewtonWorkspace& ws, NewtonReport& rep) {
+                       NewtonWorkspace& ws, NewtonReport& rep, Eigen::VectorXd& r, double m) {
   const int n = p.size();
-  Eigen::VectorXd r(n), r_try(n), dx(n), x_try(n);
+  Eigen::VectorXd r_try(n), dx(n), x_try(n);
   std::vector<Eigen::Triplet<double>> piece;
-  double m = merit(p, x, r);
   double r2_previous = 0.0;
   auto& blocks = ws.blocks;
   for (rep.iterations = 0; rep.iterations < opts.max_iterations; ++rep.iterations) {
@@ -85,6 +85,12 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
     const double r2 = r.norm();
     double eta = r2_previous > 0.0 ? 0.9 * (r2 / r2_previous) * (r2 / r2_previous) : 1e-2;
     eta = std::min(0.1, std::max(eta, 0.1 * opts.tolerance * p.residual_scale() / r2));
+    // On a large network the 2-norm is many times the max norm, and that floor lets the last
+    // step oversolve by up to two decades: there the floor is half the way to the tolerance on
+    // the convergence test's own norm (Kelley 1995, eq. 6.20 [mem]).
+    if (layout.zones >= opts.linear.max_norm_forcing_from_zones) {
+      eta = std::min(0.1, std::max(eta, 0.5 * opts.tolerance / max_norm(p, r)));
+    }
     r2_previous = r2;
     // The right-hand side -r in r's own storage (no temporary of the system's size): r is not
     // needed again, the line search replaces it.
@@ -127,16 +133,21 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
 
 }  // namespace
 
-NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const NewtonOptions& opts, NewtonWorkspace* workspace) {
+NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const NewtonOptions& options, NewtonWorkspace* workspace) {
   NewtonReport rep;
   const int n = p.size();
   NewtonWorkspace local;
   NewtonWorkspace& ws = workspace != nullptr ? *workspace : local;
   const ZoneLayout layout = p.zone_layout();
-  ws.blocks.set_options(opts.linear);
+  ws.blocks.set_options(options.linear);
+  Eigen::VectorXd r(n);
+  double m = merit(p, x, r);
+  NewtonOptions opts = options;
+  if (opts.reduction > 0.0) opts.tolerance = std::max(opts.tolerance, opts.reduction * max_norm(p, r));
   int structured_iterations = 0, linear_iterations = 0;
   if (opts.structured && layout.zones > 0 && 4 * layout.zones == n) {
-    if (structured_newton(p, layout, x, opts, ws, rep)) return rep;
+    if (structured_newton(p, layout, x, opts, ws, rep, r, m)) return rep;
+    m = merit(p, x, r);  // at the last accepted iterate
     structured_iterations = rep.iterations;  // carried on by the general path from x
     linear_iterations = rep.linear_iterations;
     ws.refresh_blocks = true;
@@ -154,7 +165,7 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
     return out;
   };
   if (ws.analysed && ws.jacobian.rows() != n) ws.analysed = ws.factored = false;  // another problem size
-  Eigen::VectorXd r(n), r_try(n);
+  Eigen::VectorXd r_try(n);
   std::vector<Eigen::Triplet<double>> triplets;
   bool fresh = false;
   const auto refactor = [&] {
@@ -173,7 +184,6 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
     fresh = true;
     return ws.factored;
   };
-  double m = merit(p, x, r);
   for (rep.iterations = 0; rep.iterations < opts.max_iterations; ++rep.iterations) {
     if (converged(p, r, opts, rep)) {
       rep.converged = true;

@@ -52,6 +52,9 @@ struct NewtonOptions {
   //! SteadyProblem::largest_imbalance() at convergence: the vessel's O2 balance closes to 1e-9 of
   //! the O2 fed on networks of any size.
   double balance_tolerance = 1e-9;
+  //! When > 0, the solve ends once the max |r_i| / residual_scale() has fallen this much below
+  //! its start (or reached `tolerance`): a loose solve whose problem will change again.
+  double reduction = 0.0;
   bool structured = true;    //!< use the structured solve when the problem has a zone layout
   SolverOptions linear;      //!< size thresholds of the linear solves and the nested start
 };

@@ -232,9 +232,7 @@ OxygenField solve_field(const OxygenContext& ctx, double biomass_kg_m3, const Ox
     NewtonOptions pass = newton;
     if (!last) {
       pass.balance_tolerance = std::numeric_limits<double>::infinity();  // the last pass closes the balances
-      Eigen::VectorXd r(problem.size());
-      problem.residual(x, r);
-      pass.tolerance = std::max(newton.tolerance, 1e-2 * r.cwiseAbs().maxCoeff() / problem.residual_scale());
+      pass.reduction = 1e-2;
     }
     rep = solve_newton(problem, trial, pass, &ws);
     if (!rep.converged) {
