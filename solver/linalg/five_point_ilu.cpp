@@ -40,13 +40,6 @@ std::optional<FivePointIlu> FivePointIlu::from_rows(const std::vector<int>& star
   return f;
 }
 
-double FivePointIlu::residual(const float* b, const float* y, int i) const {
-  const int* c = &col_[4 * static_cast<size_t>(i)];
-  const float* v = &val_[5 * static_cast<size_t>(i)];
-  return b[i] - ((double(v[0]) * y[c[0]] + double(v[1]) * y[c[1]]) + (double(v[2]) * y[c[2]] + double(v[3]) * y[c[3]]) +
-                 double(v[4]) * y[i]);
-}
-
 // As ScalarMultigrid's sweeps: the neighbour just finished (i - 1 forward, i + 1 backward) comes
 // from a register and is subtracted last, so that the chain from row to row is one multiply and
 // one subtraction; the far neighbour and the residual are ready before it arrives.
@@ -57,11 +50,18 @@ void FivePointIlu::solve(const std::vector<float>& in, std::vector<float>& r, st
   const float* b = in.data();
   float* x = r.data();
   double last = 0.0;
-  for (int i = 0; i < n_; ++i) {
-    const double rhs = residual_of != nullptr ? residual(b, residual_of->data(), i) : b[i];
-    const double s = rhs - double(l[4 * i]) * x[c[4 * i]] - double(l[4 * i + 1]) * last;
-    x[i] = static_cast<float>(s);
-    last = s;
+  const auto forward = [&](auto rhs) {
+    for (int i = 0; i < n_; ++i) {
+      const double s = rhs(i) - double(l[4 * i]) * x[c[4 * i]] - double(l[4 * i + 1]) * last;
+      x[i] = static_cast<float>(s);
+      last = s;
+    }
+  };
+  if (residual_of != nullptr) {
+    const float* y = residual_of->data();
+    forward([&](int i) { return residual(b, y, i); });
+  } else {
+    forward([&](int i) { return double(b[i]); });
   }
   last = 0.0;
   float* sum = add_to != nullptr ? add_to->data() : nullptr;

@@ -29,8 +29,13 @@ class FivePointIlu {
   long nonzeros() const { return static_cast<long>(val_.size() + lu_.size()); }
 
  private:
-  // Row i's residual (b - B y)_i.
-  double residual(const float* b, const float* y, int i) const;
+  // Row i's residual (b - B y)_i: in the header, so that the sweeps inline it.
+  double residual(const float* b, const float* y, int i) const {
+    const int* c = &col_[4 * static_cast<size_t>(i)];
+    const float* v = &val_[5 * static_cast<size_t>(i)];
+    return b[i] - ((double(v[0]) * y[c[0]] + double(v[1]) * y[c[1]]) + (double(v[2]) * y[c[2]] + double(v[3]) * y[c[3]]) +
+                   double(v[4]) * y[i]);
+  }
 
   int n_ = 0;
   // Per row, slots 0..3: a column further before, the column just before (i - 1), the column
