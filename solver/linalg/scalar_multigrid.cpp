@@ -189,6 +189,7 @@ bool ilu0(const std::vector<int>& start, const std::vector<int>& col, std::vecto
 void sort_rows(Csr& b) {
   std::vector<std::pair<int, double>> row;
   for (int i = 0; i < b.n; ++i) {
+    if (std::is_sorted(b.col.begin() + b.start[i], b.col.begin() + b.start[i + 1])) continue;  // the finest level's are
     row.clear();
     for (int e = b.start[i]; e < b.start[i + 1]; ++e) row.emplace_back(b.col[e], b.val[e]);
     std::sort(row.begin(), row.end());
