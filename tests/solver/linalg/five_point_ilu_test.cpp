@@ -6,6 +6,7 @@
 
 #include <Eigen/Dense>
 #include <cmath>
+#include <optional>
 #include <vector>
 
 #include "solver/linalg/five_point_ilu.hpp"
@@ -107,12 +108,26 @@ std::vector<float> sample(int n, double phase) {
   return v;
 }
 
-TEST(FivePointIlu, SweepsApplyTheInverseOfTheirFactors) {
-  const Rows m = grid_operator(7, 5);
-  const auto f = FivePointIlu::from_rows(m.start, m.col, m.val, m.lu, m.diag_pos, m.inv_diag);
-  ASSERT_TRUE(f.has_value());
+// A grid's operator, its five-point form and the same factors dense.
+struct Example {
+  Rows m;
+  std::optional<FivePointIlu> f;
   Eigen::MatrixXd l, u, b;
-  dense_factors(m, l, u, b);
+};
+
+Example example(int columns, int rows) {
+  Example e{grid_operator(columns, rows), std::nullopt, {}, {}, {}};
+  e.f = FivePointIlu::from_rows(e.m.start, e.m.col, e.m.val, e.m.lu, e.m.diag_pos, e.m.inv_diag);
+  dense_factors(e.m, e.l, e.u, e.b);
+  return e;
+}
+
+TEST(FivePointIlu, SweepsApplyTheInverseOfTheirFactors) {
+  const Example e = example(7, 5);
+  ASSERT_TRUE(e.f.has_value());
+  const Rows& m = e.m;
+  const auto& f = e.f;
+  const Eigen::MatrixXd &l = e.l, &u = e.u, &b = e.b;
   const std::vector<float> rhs = sample(m.n, 0.0), y = sample(m.n, 1.0), base = sample(m.n, 2.0);
   const Eigen::VectorXd rhs_d = Eigen::Map<const Eigen::VectorXf>(rhs.data(), m.n).cast<double>();
   const Eigen::VectorXd y_d = Eigen::Map<const Eigen::VectorXf>(y.data(), m.n).cast<double>();
@@ -135,17 +150,16 @@ TEST(FivePointIlu, SweepsApplyTheInverseOfTheirFactors) {
 }
 
 TEST(FivePointIlu, RestrictsTheResidualByAggregate) {
-  const Rows m = grid_operator(6, 4);
-  const auto f = FivePointIlu::from_rows(m.start, m.col, m.val, m.lu, m.diag_pos, m.inv_diag);
-  ASSERT_TRUE(f.has_value());
-  Eigen::MatrixXd l, u, b;
-  dense_factors(m, l, u, b);
+  const Example e = example(6, 4);
+  ASSERT_TRUE(e.f.has_value());
+  const Rows& m = e.m;
+  const Eigen::MatrixXd& b = e.b;
   const std::vector<float> rhs = sample(m.n, 0.3), x = sample(m.n, 1.3);
   std::vector<int> aggregate(m.n);
   for (int i = 0; i < m.n; ++i) aggregate[i] = i % 5 == 4 ? -1 : i / 3;  // some rows left out
   const int coarse = m.n / 3 + 1;
   std::vector<float> got(coarse, 0.0f);
-  f->restrict_residual(rhs, x, aggregate, got);
+  e.f->restrict_residual(rhs, x, aggregate, got);
   const Eigen::VectorXd res = Eigen::Map<const Eigen::VectorXf>(rhs.data(), m.n).cast<double>() -
                               b * Eigen::Map<const Eigen::VectorXf>(x.data(), m.n).cast<double>();
   std::vector<double> expect(coarse, 0.0);
