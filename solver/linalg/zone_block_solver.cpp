@@ -328,9 +328,10 @@ void ZoneBlockSolver::multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) c
   out.resize(kS * n_);
 #pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
   for (int i = 0; i < kS * n_; ++i) out[i] = 0.0;
+  // Each species' transport with its zone-local rows. Liquid and gas pair side by side when each
+  // shares one transport; the gas from the last column, so that the two threads write the same
+  // cache lines only where they cross.
   if (block_[0] == block_[1] && block_[2] == block_[3]) {
-    // Liquid and gas pair side by side, each with its species' zone-local rows; the gas from the
-    // last column, so that the two threads write the same cache lines only where they cross.
 #pragma omp parallel sections num_threads(2) if (kS * n_ >= options_.parallel_from_unknowns)
     {
 #pragma omp section
@@ -340,16 +341,7 @@ void ZoneBlockSolver::multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) c
     }
     return;
   }
-  for (int s = 0; s < kS; ++s) add_product(*block_[s], s, 1, false, x, out);
-#pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
-  for (int k = 0; k < n_; ++k) {
-    const LocalBlock& c = local_[k];
-    const double* xk = x.data() + kS * k;
-    for (int si = 0; si < kS; ++si) {
-      const double* row = c.data() + kS * si;
-      out[kS * k + si] += ((row[0] * xk[0] + row[1] * xk[1]) + (row[2] * xk[2] + row[3] * xk[3]));
-    }
-  }
+  for (int s = 0; s < kS; ++s) add_product(*block_[s], s, 1, false, x, out, local_.data());
 }
 
 // Block Jacobi between the two species pairs, block lower-triangular within a pair (header).
