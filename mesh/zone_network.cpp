@@ -77,18 +77,49 @@ ZoneNetwork build_zone_geometry(const Case& c) {
 
   const int nc = net.columns();
   const int nr = net.rows();
+  const auto cell = [nc](int i, int j) { return static_cast<size_t>(j) * nc + i; };
+  // Wetted extent of the face between cell (i, j) and its outer neighbour (heights lo..hi), and
+  // of the face with the cell above (radii r_lines[i]..returned radius).
+  const auto radial_face = [&](int i, int j) {
+    const double floor = net.shape.bottom_height(net.r_lines[i + 1]);
+    return std::pair{std::max(net.z_lines[j], floor), net.z_lines[j + 1]};
+  };
+  const auto axial_face_outer_radius = [&](int i, int j) {
+    return std::min(net.r_lines[i + 1], net.shape.wetted_radius(net.z_lines[j + 1]));
+  };
+  std::vector<char> wet(static_cast<size_t>(nc) * nr, 0), joined(wet.size(), 0);
+  for (int j = 0; j < nr; ++j) {
+    for (int i = 0; i < nc; ++i) {
+      wet[cell(i, j)] = net.shape.annulus_volume(net.r_lines[i], net.r_lines[i + 1], net.z_lines[j], net.z_lines[j + 1]) > 0.0;
+    }
+  }
+  // A wetted cell becomes a zone only if it has a face with another: where the head just touches
+  // a cell corner, the volume and the face extents can round to opposite sides of zero (they are
+  // computed in different expressions), and a zone without faces would make every transport
+  // operator singular.
+  for (int j = 0; j < nr; ++j) {
+    for (int i = 0; i < nc; ++i) {
+      if (!wet[cell(i, j)]) continue;
+      if (i + 1 < nc && wet[cell(i + 1, j)]) {
+        const auto [lo, hi] = radial_face(i, j);
+        if (hi > lo) joined[cell(i, j)] = joined[cell(i + 1, j)] = 1;
+      }
+      if (j + 1 < nr && wet[cell(i, j + 1)] && axial_face_outer_radius(i, j) > net.r_lines[i]) {
+        joined[cell(i, j)] = joined[cell(i, j + 1)] = 1;
+      }
+    }
+  }
   net.zone_of_cell.assign(static_cast<size_t>(nc) * nr, -1);
   for (int j = 0; j < nr; ++j) {
     for (int i = 0; i < nc; ++i) {
+      if (!wet[cell(i, j)] || !(joined[cell(i, j)] || nc * nr == 1)) continue;
       const double r0 = net.r_lines[i], r1 = net.r_lines[i + 1];
       const double z0 = net.z_lines[j], z1 = net.z_lines[j + 1];
-      const double v = net.shape.annulus_volume(r0, r1, z0, z1);
-      if (!(v > 0.0)) continue;
-      net.zone_of_cell[static_cast<size_t>(j) * nc + i] = net.size();
+      net.zone_of_cell[cell(i, j)] = net.size();
       const auto centroid = wetted_centroid(net.shape, r0, r1, z0, z1);
       net.column.push_back(i);
       net.row.push_back(j);
-      net.volume.push_back(v);
+      net.volume.push_back(net.shape.annulus_volume(r0, r1, z0, z1));
       net.r.push_back(centroid.r);
       net.z.push_back(centroid.z);
       net.r0.push_back(r0);
@@ -102,7 +133,7 @@ ZoneNetwork build_zone_geometry(const Case& c) {
     }
   }
 
-  // Faces between neighbouring wetted cells, with their wetted extent.
+  // Faces between neighbouring zones, with their wetted extent.
   const double pi = std::numbers::pi;
   for (int j = 0; j < nr; ++j) {
     for (int i = 0; i < nc; ++i) {
@@ -111,9 +142,7 @@ ZoneNetwork build_zone_geometry(const Case& c) {
       if (i + 1 < nc) {
         const int b = net.zone_at(i + 1, j);
         const double rf = net.r_lines[i + 1];
-        const double floor = net.shape.bottom_height(rf);
-        const double lo = std::max(net.z_lines[j], floor);
-        const double hi = net.z_lines[j + 1];
+        const auto [lo, hi] = radial_face(i, j);
         if (b >= 0 && hi > lo) {
           Face f;
           f.zone_a = a;
@@ -121,7 +150,7 @@ ZoneNetwork build_zone_geometry(const Case& c) {
           f.orientation = FaceOrientation::radial;
           f.area = 2.0 * pi * rf * (hi - lo);
           f.ra = rf, f.za = lo, f.rb = rf, f.zb = hi;
-          f.a_on_wall = floor > net.z_lines[j];
+          f.a_on_wall = lo > net.z_lines[j];
           f.spacing = net.r[b] - net.r[a];
           net.faces.push_back(f);
         }
@@ -129,7 +158,7 @@ ZoneNetwork build_zone_geometry(const Case& c) {
       if (j + 1 < nr) {
         const int b = net.zone_at(i, j + 1);
         const double zf = net.z_lines[j + 1];
-        const double r_wet = std::min(net.r_lines[i + 1], net.shape.wetted_radius(zf));
+        const double r_wet = axial_face_outer_radius(i, j);
         const double r_in = net.r_lines[i];
         if (b >= 0 && r_wet > r_in) {
           Face f;
