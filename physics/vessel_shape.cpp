@@ -79,10 +79,12 @@ double VesselShape::annulus_volume(double r0, double r1, double z0, double z1) c
   // Below r_full the whole height z0..z1 is wetted; beyond r_none nothing is.
   const double r_full = std::clamp(wetted_radius(z0), r0, r1);
   const double r_none = std::clamp(wetted_radius(z1), r0, r1);
-  double v = (z1 - z0) * 0.5 * (r_full * r_full - r0 * r0);
+  // Differences of squares as (a - b)(a + b): exactly zero for a == b, also where the compiler
+  // fuses a * a - b * b into one multiply-add (which leaves b * b's rounding error behind).
+  double v = (z1 - z0) * 0.5 * ((r_full - r0) * (r_full + r0));
   // Partly wetted band: integral of r (z1 - bottom_height(r)) dr.
   if (r_none > r_full) {
-    v += z1 * 0.5 * (r_none * r_none - r_full * r_full) - (moment(r_none) - moment(r_full));
+    v += z1 * 0.5 * ((r_none - r_full) * (r_none + r_full)) - (moment(r_none) - moment(r_full));
   }
   return 2.0 * pi * v;
 }
