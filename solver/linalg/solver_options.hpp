@@ -27,6 +27,9 @@ struct SolverOptions {
   //! on the halved grid (nested iteration; solver/oxygen/nested_start.hpp). Nesting already pays
   //! near 5000 zones; below it the bundled cases keep the direct cold solve (bench/notes.md).
   int nested_start_from_zones = 5000;
+  //! A nested cold start of at least this many zones also corrects the fine state on the halved
+  //! grid between its outer passes (solver/oxygen/coarse_correction.hpp).
+  int coarse_correction_from_zones = 5000;
   //! From this many zones on, Newton's forcing term is also floored on the max norm of the
   //! convergence test (steady_problem.cpp): at a million zones the last step then stops oversolving
   //! (45 -> 43 Krylov iterations, ~0.4 s). Smaller networks keep only the 2-norm floor: there the

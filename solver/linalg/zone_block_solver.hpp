@@ -90,6 +90,9 @@ class ZoneBlockSolver {
     factored_ = false;  // a preconditioner of the other kind may be cached
   }
   const SolverOptions& options() const { return options_; }
+  //! Frees the Krylov vectors (the next solve allocates them again): between solves they are
+  //! idle, and on a large network they are the largest part of the solver's memory.
+  void release_krylov_vectors() { krylov_ = Fgmres{}; }
 
  private:
   void multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) const;  // out = J x

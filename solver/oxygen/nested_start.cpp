@@ -44,8 +44,9 @@ int containing_zone(const ZoneNetwork& coarse, double r, double z) {
 // fine centroid); 0 where no fine centroid falls.
 std::vector<double> volume_mean_on(const ZoneNetwork& coarse, const ZoneNetwork& fine, const std::vector<double>& values) {
   std::vector<double> sum(coarse.size(), 0.0), volume(coarse.size(), 0.0);
+  const auto owner = coarse_owners(coarse, fine);
   for (int k = 0; k < fine.size(); ++k) {
-    const int kc = containing_zone(coarse, fine.r[k], fine.z[k]);
+    const int kc = owner[k];
     sum[kc] += values[k] * fine.volume[k];
     volume[kc] += fine.volume[k];
   }
@@ -54,6 +55,12 @@ std::vector<double> volume_mean_on(const ZoneNetwork& coarse, const ZoneNetwork&
 }
 
 }  // namespace
+
+std::vector<int> coarse_owners(const ZoneNetwork& coarse, const ZoneNetwork& fine) {
+  std::vector<int> owner(fine.size());
+  for (int k = 0; k < fine.size(); ++k) owner[k] = containing_zone(coarse, fine.r[k], fine.z[k]);
+  return owner;
+}
 
 std::vector<ZoneStencil> interpolation_stencils(const ZoneNetwork& coarse, const ZoneNetwork& fine) {
   std::vector<ZoneStencil> s(fine.size());
@@ -133,8 +140,11 @@ std::optional<HalvedGridField> solve_on_halved_grid(const Case& c, const ZoneNet
   coarse_case.grid = c.grid.halved();
   if (coarse_case.grid.radial == c.grid.radial && coarse_case.grid.axial == c.grid.axial) return std::nullopt;
   try {
-    HalvedGridField level{build_zone_geometry(coarse_case), {}};
-    const Hydrodynamics hydro = compute_hydrodynamics(coarse_case, level.net);
+    HalvedGridField level;
+    level.c = coarse_case;
+    level.net = build_zone_geometry(coarse_case);
+    level.hydro = compute_hydrodynamics(coarse_case, level.net);
+    const Hydrodynamics& hydro = level.hydro;
     SolverOptions seed_linear = newton.linear;
     seed_linear.gas_routing_tolerance = std::max(newton.linear.gas_routing_tolerance, kCoarseRoutingTolerance);
     // This level's gas routing (one sequential multigrid solve) on the second thread, while the
@@ -165,7 +175,8 @@ std::optional<HalvedGridField> solve_on_halved_grid(const Case& c, const ZoneNet
     NewtonOptions loose = newton;
     loose.balance_tolerance = std::numeric_limits<double>::infinity();  // a seed: the fine solve closes them
     loose.tolerance = std::max(newton.tolerance, kCoarseTolerance);
-    level.field = solve_oxygen_field_seeded({coarse_case, level.net, hydro, *gas}, biomass_kg_m3, below, loose);
+    level.routing = std::move(*gas);
+    level.field = solve_oxygen_field_seeded({level.c, level.net, hydro, level.routing}, biomass_kg_m3, below, loose);
     return level;
   } catch (const std::exception&) {
     return std::nullopt;

@@ -6,6 +6,8 @@
 #include <optional>
 #include <vector>
 
+#include "solver/flow/gas_routing.hpp"
+#include "solver/flow/hydrodynamics.hpp"
 #include "solver/oxygen/oxygen_field.hpp"
 #include "mesh/zone_network.hpp"
 
@@ -15,6 +17,10 @@ namespace oxystrat {
 // from the same case solved on the grid with half the radial and half the axial count (nested
 // iteration or mesh sequencing: Brandt 1977, Math. Comp. 31, full multigrid; Knoll & Keyes 2004,
 // J. Comput. Phys. 193, section on mesh sequencing; both cited from memory).
+
+//! For each zone of `fine`: the zone of `coarse` whose cell holds its centroid (where the coarse
+//! bottom head leaves that cell dry, the lowest wetted cell above it in the same column).
+std::vector<int> coarse_owners(const ZoneNetwork& coarse, const ZoneNetwork& fine);
 
 //! Weights of the coarse zones that give the value at one fine zone.
 struct ZoneStencil {
@@ -38,10 +44,13 @@ std::vector<double> interpolate(const std::vector<ZoneStencil>& stencils, const 
 Eigen::VectorXd nested_state(const ZoneNetwork& coarse, const OxygenField& coarse_field, const ZoneNetwork& fine,
                              const std::vector<double>& fine_inert_mol_m3, const Eigen::VectorXd& cold);
 
-//! The case solved on the halved grid: its network and field (the field's coarse_* counters
-//! count the levels below it).
+//! The case solved on the halved grid: its case, network, hydrodynamics, gas routing and field
+//! (the field's coarse_* counters count the levels below it).
 struct HalvedGridField {
+  Case c;
   ZoneNetwork net;
+  Hydrodynamics hydro;
+  GasRouting routing;
   OxygenField field;
 };
 

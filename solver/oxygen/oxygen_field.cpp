@@ -10,6 +10,7 @@
 
 #include "physics/bubbles.hpp"
 #include "physics/mass_transfer.hpp"
+#include "solver/oxygen/coarse_correction.hpp"
 #include "solver/oxygen/nested_start.hpp"
 #include "solver/oxygen/oxygen_problem.hpp"
 #include "physics/solubility.hpp"
@@ -176,6 +177,21 @@ void OxygenSetup::update(const Eigen::VectorXd& x) {
 
 namespace {
 
+// One coarse-grid correction of x between two outer passes. The fine Krylov vectors are idle
+// then: their memory serves the coarse solve. A correction that leaves the fine residual a
+// hundred times larger is undone (the next pass would spend its iterations removing it).
+void correct_on_halved_grid(CoarseCorrection& correction, const OxygenProblem& problem, const std::vector<double>& inert,
+                            Eigen::VectorXd& x, NewtonWorkspace& ws, const NewtonOptions& newton) {
+  ws.blocks.release_krylov_vectors();
+  Eigen::VectorXd r(x.size());
+  problem.residual(x, r);
+  const double before = r.cwiseAbs().maxCoeff();
+  const Eigen::VectorXd kept = x;
+  if (!correction.apply(r, inert, x, newton)) return;
+  problem.residual(x, r);
+  if (!(r.cwiseAbs().maxCoeff() <= 100.0 * before)) x = kept;
+}
+
 // The steady field from `warm`'s state, or else from a cold start seeded by `halved` (when it
 // is null, solved here first).
 OxygenField solve_field(const OxygenContext& ctx, double biomass_kg_m3, const OxygenField* warm,
@@ -193,6 +209,7 @@ OxygenField solve_field(const OxygenContext& ctx, double biomass_kg_m3, const Ox
   const double h_co2 = setup.henry_co2;
   OxygenField f;
   Eigen::VectorXd x;
+  std::optional<CoarseCorrection> correction;  // on the halved grid, between the outer passes
   if (warm != nullptr && warm->state.size() == 4 * n) {
     x = warm->state;
   } else {
@@ -209,7 +226,9 @@ OxygenField solve_field(const OxygenContext& ctx, double biomass_kg_m3, const Ox
       f.coarse_newton_iterations = coarse.newton_iterations + coarse.coarse_newton_iterations;
       f.coarse_outer_iterations = coarse.outer_iterations + coarse.coarse_outer_iterations;
       f.coarse_linear_iterations = coarse.linear_iterations + coarse.coarse_linear_iterations;
-      halved->reset();  // the fine solve's peak memory does not carry the coarse network
+      // The halved grid stays for the corrections, or else is freed now (the fine solve's peak).
+      if (n >= newton.linear.coarse_correction_from_zones) correction.emplace(std::move(**halved), net, biomass_kg_m3);
+      halved->reset();
     }
   }
 
@@ -264,7 +283,9 @@ OxygenField solve_field(const OxygenContext& ctx, double biomass_kg_m3, const Ox
     f.newton_iterations += rep.iterations;
     f.linear_iterations += rep.linear_iterations;
     if (last) break;
+    if (correction) correct_on_halved_grid(*correction, problem, coeff.inert_mol_m3, x, ws, newton);
   }
+  if (correction) f.coarse_linear_iterations += correction->linear_iterations();
 
   // Fields and summary.
   f.state = x;

@@ -58,7 +58,8 @@ struct OxygenField {
   int outer_iterations = 0;
   int linear_iterations = 0;            //!< Krylov iterations of the structured Newton steps
   // The counts above are this network's own solve; a nested cold start (nested_start.hpp) adds
-  // the solves on the coarser grids that seeded it, summed over all levels:
+  // the solves on the coarser grids that seeded it, summed over all levels, and the Krylov
+  // iterations of the corrections on the halved grid (coarse_correction.hpp):
   int coarse_levels = 0;                //!< coarser grids solved first (0: no nesting)
   int coarse_newton_iterations = 0;
   int coarse_outer_iterations = 0;
