@@ -140,7 +140,7 @@ bool CoarseCorrection::apply(const Eigen::VectorXd& fine_residual, const std::ve
   }
   const ShiftedProblem coarse(problem, shift);
   NewtonOptions o = newton;
-  o.reduction = 1e-2;  // cut tenfold only, the fine passes had more left to do (bench/notes.md)
+  o.reduction = 1e-2;  // cut only tenfold, it left the fine passes twice the iterations (bench/notes.md)
   o.balance_tolerance = std::numeric_limits<double>::infinity();  // the fine solve closes the balances
   Eigen::VectorXd xc = xc0;
   // A workspace of its own each time: kept, the coarse preconditioner (a set-up saved) would add
