@@ -177,9 +177,13 @@ std::string limits_summary(const Case& c, const CaseRun& run) {
   }
   double eta_max = 0.0;
   for (double e : s.kolmogorov_m) eta_max = std::isfinite(e) ? std::max(eta_max, e) : eta_max;
-  t += fmt::format("  eddies         Kolmogorov length from {:.0f} um (smallest anywhere) to {:.0f} um; stress up to "
-                   "{:.3g} Pa\n",
-                   1e6 * s.kolmogorov_min_m, 1e6 * eta_max, s.stress_max_pa);
+  // Beyond a centimetre the zone is barely stirred (a stagnant broth's runs to kilometres): no
+  // eddy scale to speak of, so no number.
+  constexpr double kBarelyStirred_m = 0.01;
+  const std::string largest = eta_max > kBarelyStirred_m ? std::string("over 10000 um where the broth is barely stirred")
+                                                         : fmt::format("{:.0f} um", 1e6 * eta_max);
+  t += fmt::format("  eddies         Kolmogorov length from {:.0f} um (smallest anywhere) to {}; stress up to {:.3g} Pa\n",
+                   1e6 * s.kolmogorov_min_m, largest, s.stress_max_pa);
   if (c.culture.kind == CultureKind::cell) {
     t += fmt::format("  cells          {:.2g} x the {:.0e} W/m3 where lethal effects on CHO cells begin (Walls et al. "
                      "2017); cells on microcarriers were damaged with eddies below 1/2-2/3 of the bead diameter "

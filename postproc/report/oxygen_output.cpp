@@ -32,7 +32,7 @@ std::vector<double> scaled(const std::vector<double>& v, double factor) {
 std::pair<double, double> cstar_bottom_top(const ZoneNetwork& net, const OxygenField& f) {
   std::vector<double> sum(net.rows(), 0.0), vol(net.rows(), 0.0);
   for (int k = 0; k < net.size(); ++k) {
-    if (f.holdup[k] <= 0.0) continue;
+    if (f.holdup[k] < gas_free_holdup) continue;
     sum[net.row[k]] += f.cstar_mol_m3[k] * net.volume[k];
     vol[net.row[k]] += net.volume[k];
   }
@@ -118,8 +118,7 @@ void write_oxygen_h5(H5Writer& h5, const Case& c, const CaseRun& run) {
   h5.write("/profile/do_min", p.min, "mol/m3");
   h5.write("/profile/do_mean", p.mean, "mol/m3");
   h5.write("/profile/do_max", p.max, "mol/m3");
-  std::vector<bool> gassed(f.holdup.size());
-  for (size_t k = 0; k < gassed.size(); ++k) gassed[k] = f.holdup[k] > 0.0;
+  const std::vector<bool> gassed = gassed_zones(f);
   const auto ps = height_profile(run.net, f.cstar_mol_m3, gassed);
   h5.write("/profile/cstar_mean", zero_where_nan(ps.mean), "mol/m3");
   h5.attribute("/profile/cstar_mean", "meaning", "mean over the gassed zones of each level (0 where none is gassed)");
@@ -131,8 +130,7 @@ void write_profile_csv(const std::string& path, const CaseRun& run) {
   if (!run.field) return;
   const auto& f = *run.field;
   const auto p = height_profile(run.net, f.do_mol_m3);
-  std::vector<bool> gassed(f.holdup.size());
-  for (size_t k = 0; k < gassed.size(); ++k) gassed[k] = f.holdup[k] > 0.0;
+  const std::vector<bool> gassed = gassed_zones(f);
   const auto ps = height_profile(run.net, f.cstar_mol_m3, gassed);
   const auto pk = height_profile(run.net, f.kla_1_s);
   const auto pe = height_profile(run.net, run.hydro.epsilon);

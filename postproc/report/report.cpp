@@ -156,8 +156,7 @@ std::string run_report_body(const Case& c, const CaseRun& run, std::optional<dou
                        {{true, crit, "critical DO"}});
   s += svg::zone_map(run.net, f.do_mol_m3, "DO in the (r, z) section", "mmol/L", outlines(c), crit);
   s += "</div></div></div>\n<div class=\"row\">\n";
-  std::vector<bool> gassed(f.holdup.size());
-  for (size_t k = 0; k < gassed.size(); ++k) gassed[k] = f.holdup[k] > 0.0;
+  const std::vector<bool> gassed = gassed_zones(f);
   const auto ps = height_profile(run.net, f.cstar_mol_m3, gassed);
   const auto pk = height_profile(run.net, f.kla_1_s);
   std::vector<double> kla_h(pk.mean.size());

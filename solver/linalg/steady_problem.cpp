@@ -119,6 +119,7 @@ bool structured_newton(const SteadyProblem& p, const ZoneLayout& layout, Eigen::
     double lambda = 1.0, m_try = m;
     for (int k = 0; k < 40; ++k, lambda *= 0.5) {
       x_try = x + lambda * dx;
+      p.keep_in_domain(x, x_try);
       m_try = merit(p, x_try, r_try);
       if (m_try < (1.0 - 1e-4 * lambda) * m) break;  // Armijo on 1/2 |r|^2
     }
@@ -198,6 +199,7 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
     if (!fresh) {
       // Chord step with an old factorisation: keep it only if it cuts |r| at least threefold.
       Eigen::VectorXd x_try = x + dx;
+      p.keep_in_domain(x, x_try);
       const double m_try = merit(p, x_try, r_try);
       if (m_try < m / 9.0) {
         x = x_try;
@@ -213,6 +215,7 @@ NewtonReport solve_newton(const SteadyProblem& p, Eigen::VectorXd& x, const Newt
     double m_try = m;
     for (int k = 0; k < 40; ++k, lambda *= 0.5) {
       x_try = x + lambda * dx;
+      p.keep_in_domain(x, x_try);
       m_try = merit(p, x_try, r_try);
       if (m_try < (1.0 - 1e-4 * lambda) * m) break;  // Armijo on 1/2 |r|^2
     }

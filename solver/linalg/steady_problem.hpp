@@ -44,6 +44,12 @@ class SteadyProblem {
   //! A problem with the zone layout of zone_block_solver.hpp says so here (zones > 0), and
   //! solve_newton then uses the structured linear solve; the default is a general sparse LU.
   virtual ZoneLayout zone_layout() const { return {}; }
+  //! Keeps a trial iterate where the problem is defined, given the accepted iterate `x` it steps
+  //! from (e.g. amounts that cannot be negative). Newton calls it on every trial point of its
+  //! line search. It may move only components that a step takes out of the domain or most of the
+  //! way to its edge, so that the short steps near a solution stay plain Newton steps.
+  //! Default: every point is in the domain.
+  virtual void keep_in_domain(const Eigen::VectorXd& /*x*/, Eigen::VectorXd& /*x_try*/) const {}
 };
 
 struct NewtonOptions {

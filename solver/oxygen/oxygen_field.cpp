@@ -154,8 +154,10 @@ void OxygenSetup::update(const Eigen::VectorXd& x) {
   // Zone by zone in parallel, summed in zone order (the same total for any thread count).
 #pragma omp parallel for schedule(static) if (n >= 50000)
   for (int k = 0; k < n; ++k) {
-    kla[k] = local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k], ctx.routing.sauter_m[k],
-                       ctx.hydro.apparent_viscosity[k]);
+    kla[k] = gas.holdup[k] < gas_free_holdup
+                 ? 0.0
+                 : local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k], ctx.routing.sauter_m[k],
+                             ctx.hydro.apparent_viscosity[k]);
   }
   double kla_volume = 0.0;
   for (int k = 0; k < n; ++k) kla_volume += kla[k] * net.volume[k];
@@ -417,6 +419,12 @@ double max_supportable_biomass(const OxygenContext& ctx, const OxygenField& fiel
     if (std::abs(fx) < 1e-9 * critical) return x;
   }
   return 0.5 * (lo + hi);
+}
+
+std::vector<bool> gassed_zones(const OxygenField& f) {
+  std::vector<bool> gassed(f.holdup.size());
+  for (size_t k = 0; k < gassed.size(); ++k) gassed[k] = f.holdup[k] >= gas_free_holdup;
+  return gassed;
 }
 
 }  // namespace oxystrat

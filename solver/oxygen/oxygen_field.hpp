@@ -22,6 +22,13 @@ namespace oxystrat {
 //! describe (typical stirred-tank holdups are 0.05-0.25, [mem]).
 inline constexpr double bubbly_flow_holdup = 0.3;
 
+//! Holdup below which a zone counts as gas-free (kLa 0): the drift-flux transport leaves
+//! exponentially small amounts (1e-30 and less) in zones the gas does not reach, such as a
+//! viscous broth's stagnant region, and their composition, a ratio of such amounts, would put
+//! derivatives of 1e30 into the Newton matrix. A billionth of the volume transfers nothing
+//! measurable at any kLa a correlation gives.
+inline constexpr double gas_free_holdup = 1e-9;
+
 struct OxygenField {
   // Per zone
   std::vector<double> do_mol_m3;        //!< dissolved O2 [mol/m3]
@@ -66,6 +73,9 @@ struct OxygenField {
   int coarse_linear_iterations = 0;
   Eigen::VectorXd state;                //!< solver state, for warm starts
 };
+
+//! Per zone: holds gas (holdup at least gas_free_holdup); the zones where C* and kLa mean something.
+std::vector<bool> gassed_zones(const OxygenField& f);
 
 struct OxygenContext {
   const Case& c;

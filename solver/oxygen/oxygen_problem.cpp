@@ -50,6 +50,16 @@ void OxygenProblem::residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const
   }
 }
 
+void OxygenProblem::keep_in_domain(const Eigen::VectorXd& x, Eigen::VectorXd& x_try) const {
+  constexpr double kLargestFall = 0.1;  // a gas amount may fall tenfold per step, no more
+  for (int k = 0; k < n_; ++k) {
+    for (int s = 2; s < 4; ++s) {
+      const int i = 4 * k + s;
+      x_try[i] = std::max(x_try[i], kLargestFall * std::max(x[i], 0.0));
+    }
+  }
+}
+
 double OxygenProblem::largest_imbalance(const Eigen::VectorXd& r) const {
   std::array<double, 4> sum{};
   for (int k = 0; k < n_; ++k) {

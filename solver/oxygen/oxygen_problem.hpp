@@ -74,6 +74,11 @@ class OxygenProblem : public SteadyProblem {
   double largest_imbalance(const Eigen::VectorXd& r) const override;
   //! Liquid O2, CO2 then gas O2, CO2 per zone.
   ZoneLayout zone_layout() const override { return {n_}; }
+  //! Gas O2 and CO2 stay positive: a step may take each to no less than a tenth of its value.
+  //! With a negative amount the gas composition y = g / (g_O2 + g_CO2 + inert) changes the sign of
+  //! its derivatives, and the preconditioner of a zone with a trace of gas loses its structure.
+  //! The liquid needs no bound: the uptake is continued linearly below zero.
+  void keep_in_domain(const Eigen::VectorXd& x, Eigen::VectorXd& x_try) const override;
 
  private:
   ZoneBlockSolver::LocalBlock local_block(const Eigen::VectorXd& x, int k) const;
