@@ -83,10 +83,13 @@ void add_run_command(CLI::App& app) {
     fmt::print("{}", verdict_text(c, verdict));
     fmt::print("{}", geometry_summary(loaded, net));
     fmt::print("{}", power_table(c, hydro));
-    fmt::print("Mixing  theta95 = {:.4g} s (whole vessel{}{}; `oxystrat mixing` for the tracer history)\n", theta,
-               hydro.stagnant_volume_fraction > 0.0
-                   ? fmt::format(", with {:.1f} % of it stagnant outside the caverns", 100.0 * hydro.stagnant_volume_fraction)
-                   : "",
+    fmt::print("Mixing  theta95 {} {:.4g} s ({}{}; `oxystrat mixing` for the tracer history)\n", mixing.reached ? "=" : ">",
+               theta,
+               mixing.judged_volume_fraction < 1.0
+                   ? fmt::format("the broth inside the caverns; the {:.1f} % outside them is stagnant, exchanging by "
+                                 "molecular diffusion only, and not counted",
+                                 100.0 * (1.0 - mixing.judged_volume_fraction))
+                   : std::string("whole vessel"),
                mixing.halvings > 0 ? fmt::format("; on a coarser grid of {} zones, see the notes", mixing.zones) : "");
     fmt::print("{}", oxygen_summary(c, run));
     std::optional<UncertaintyResult> unc;
@@ -110,6 +113,7 @@ void add_run_command(CLI::App& app) {
       write_oxygen_h5(h5, c, run);
       h5.write("/summary/theta95", theta, "s");
       h5.write("/summary/theta95_zones", static_cast<double>(mixing.zones), "1");
+      h5.write("/summary/theta95_judged_volume_fraction", mixing.judged_volume_fraction, "1");
       write_verdict_h5(h5, verdict);
       if (unc) write_uncertainty_h5(h5, *unc);
       if (grid) write_grid_check_h5(h5, *grid);

@@ -118,7 +118,11 @@ std::string power_table(const Case& c, const Hydrodynamics& h) {
 
 void write_mixing_h5(H5Writer& h5, const MixingResult& m) {
   h5.write("/mixing/theta95", m.theta_s, "s");
-  h5.attribute("/mixing/theta95", "meaning", "time after which every zone stays within +-5 % of the final value");
+  h5.attribute("/mixing/theta95", "meaning",
+               "time after which every zone the flow reaches stays within +-5 % of the final value");
+  h5.write("/mixing/judged_volume_fraction", m.judged_volume_fraction, "1");
+  h5.attribute("/mixing/judged_volume_fraction", "meaning",
+               "share of the volume theta95 judges: 1, or less where broth outside every cavern is stagnant");
   h5.write("/mixing/theta95_probe", m.theta_probe_s, "s");
   h5.write("/mixing/time", m.time_s, "s");
   h5.write("/mixing/probe", m.probe, "1");

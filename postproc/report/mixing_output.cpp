@@ -28,7 +28,8 @@ std::string seconds(double t) { return format_number(t, 3, 1) + " s"; }
 
 std::string mixing_headline(const Case& c, const MixingResult& mix, double homogeneity) {
   const int pct = static_cast<int>(std::lround(100 * homogeneity));
-  std::string s = mix.reached ? fmt::format("The whole vessel mixes to {} % in {} ({} impeller turns).", pct, seconds(mix.theta_s),
+  const std::string what = mix.judged_volume_fraction < 1.0 ? "The broth inside the caverns" : "The whole vessel";
+  std::string s = mix.reached ? fmt::format("{} mixes to {} % in {} ({} impeller turns).", what, pct, seconds(mix.theta_s),
                                             format_number(c.operation.speed_rps * mix.theta_s, 3, 0))
                               : fmt::format("The tracer did not mix to {} % within {}: the mixing time is longer.", pct,
                                             seconds(mix.theta_s));
@@ -51,7 +52,8 @@ std::string mixing_report_body(const Case& c, const ZoneNetwork& net, const Hydr
                                    mix.probe_zone, format_number(net.r[mix.probe_zone], 3, 2), format_number(net.z[mix.probe_zone], 3, 2),
                                    format_number(100 * band, 2, 1), seconds(mix.theta_probe_s));
   if (hydro.stagnant_volume_fraction > 0.0) {
-    detail += fmt::format(" {} % of the volume lies outside the impellers' caverns and mixes slowly.",
+    detail += fmt::format(" {} % of the volume lies outside the impellers' caverns: stagnant, it exchanges by molecular "
+                          "diffusion only (weeks) and the mixing time leaves it out.",
                           format_number(100 * hydro.stagnant_volume_fraction, 2, 1));
   }
   std::string s = verdict_box_html(ok, mixing_headline(c, mix, homogeneity), detail);

@@ -154,8 +154,10 @@ Hydrodynamics compute_hydrodynamics(const Case& c, const ZoneNetwork& net) {
   zone_viscosity(c, h.epsilon, h.shear_rate, h.apparent_viscosity);
   const auto share = turbulence_share(c, net, np, h.apparent_viscosity, caverns);
   h.stagnant_volume_fraction = 0.0;
+  h.stagnant.assign(net.size(), false);
   for (int k = 0; k < net.size(); ++k) {
-    if (share[k] == 0.0) h.stagnant_volume_fraction += net.volume[k] / net.total_volume();
+    h.stagnant[k] = share[k] == 0.0;
+    if (h.stagnant[k]) h.stagnant_volume_fraction += net.volume[k] / net.total_volume();
   }
 
   // Turbulent exchange: D_t = c_t eps^(1/3) T^(4/3) per zone, damped below the turbulent regime,

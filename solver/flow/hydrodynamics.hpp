@@ -50,6 +50,7 @@ struct Hydrodynamics {
   std::vector<double> shear_rate;     //!< shear rate sustained by that dissipation per zone [1/s]
   std::vector<double> apparent_viscosity;  //!< broth viscosity at that shear rate per zone [Pa s]
   double stagnant_volume_fraction = 0.0;   //!< share of the volume outside every cavern [-]
+  std::vector<bool> stagnant;               //!< per zone: outside every cavern (molecular exchange only)
   std::vector<double> velocity_r, velocity_z;  //!< zone-mean liquid velocity [m/s]
 };
 

@@ -5,7 +5,10 @@
 namespace oxystrat {
 
 CaseMixingTime case_mixing_time(const Case& c, const ZoneNetwork& net, const Hydrodynamics& h, int max_zones) {
-  if (net.size() <= max_zones) return {tracer_mixing_time(net, h, {}).theta_s, net.size(), 0};
+  const auto result = [](const MixingResult& m, int zones, int halvings) {
+    return CaseMixingTime{m.theta_s, zones, halvings, m.reached, m.judged_volume_fraction};
+  };
+  if (net.size() <= max_zones) return result(tracer_mixing_time(net, h, {}), net.size(), 0);
   Case coarse = c;
   int halvings = 0;
   const auto cells = [&coarse] { return static_cast<long>(coarse.grid.radial) * coarse.grid.axial; };
@@ -15,7 +18,7 @@ CaseMixingTime case_mixing_time(const Case& c, const ZoneNetwork& net, const Hyd
   }
   const ZoneNetwork coarse_net = build_zone_geometry(coarse);
   const Hydrodynamics coarse_hydro = compute_hydrodynamics(coarse, coarse_net);
-  return {tracer_mixing_time(coarse_net, coarse_hydro, {}).theta_s, coarse_net.size(), halvings};
+  return result(tracer_mixing_time(coarse_net, coarse_hydro, {}), coarse_net.size(), halvings);
 }
 
 }  // namespace oxystrat

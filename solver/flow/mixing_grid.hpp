@@ -15,6 +15,8 @@ struct CaseMixingTime {
   double theta_s = 0.0;  //!< whole-vessel theta95 [s]
   int zones = 0;         //!< zones of the network it was found on
   int halvings = 0;      //!< times the case's grid was halved for it (0: the case's own network)
+  bool reached = true;   //!< false: the tracer had not mixed when the integration gave up (theta_s is a lower bound)
+  double judged_volume_fraction = 1.0;  //!< MixingResult::judged_volume_fraction
 };
 
 //! theta95 seen on a grid finer than this is within ~1 % of the finest grids measured on the tall
