@@ -40,9 +40,10 @@ MixingResult tracer_mixing_time(const ZoneNetwork& net, const Hydrodynamics& h, 
   // The default point, the surface by the shaft, can lie in stagnant broth above the top cavern,
   // where a tracer would never leave: then the nearest zone the flow reaches stands in for it.
   if (opts.inject_z_m < 0.0 && !h.stagnant.empty() && h.stagnant[res.inject_zone]) {
+    const double inject_r = std::min(opts.inject_r_m, big_r);
     double nearest = std::numeric_limits<double>::infinity();
     for (int k = 0; k < net.size(); ++k) {
-      const double d = std::hypot(net.r[k] - net.r[res.inject_zone], net.z[k] - inject_z);
+      const double d = std::hypot(net.r[k] - inject_r, net.z[k] - inject_z);
       if (!h.stagnant[k] && d < nearest) {
         nearest = d;
         res.inject_zone = k;
