@@ -63,7 +63,11 @@ void add_mixing_command(CLI::App& app) {
     fmt::print("{}\n{}\n{}", c.title, mixing_headline(c, mix, mo.homogeneity), power_table(c, hydro));
     fmt::print("Mixing ({} zones, {} implicit steps, {} factorisations)\n", net.size(), mix.stats.steps,
                mix.stats.factorisations);
-    fmt::print("  theta{} whole vessel  {:.4g} s  (N theta = {:.4g})\n", pct, mix.theta_s, c.operation.speed_rps * mix.theta_s);
+    fmt::print("  theta{} whole vessel  {:.4g} s  (N theta = {:.4g}{})\n", pct, mix.theta_s, c.operation.speed_rps * mix.theta_s,
+               mix.judged_volume_fraction < 1.0
+                   ? fmt::format("; the broth inside the caverns: the {:.1f} % outside them is stagnant and not counted",
+                                 100.0 * (1.0 - mix.judged_volume_fraction))
+                   : "");
     fmt::print("  theta{} at the probe  {:.4g} s  (zone {} at r = {:.3g} m, z = {:.3g} m)\n", pct, mix.theta_probe_s,
                mix.probe_zone, net.r[mix.probe_zone], net.z[mix.probe_zone]);
     fmt::print("  injected in zone {} at r = {:.3g} m, z = {:.3g} m\n", mix.inject_zone, net.r[mix.inject_zone],

@@ -69,7 +69,8 @@ std::string mixing_report_body(const Case& c, const ZoneNetwork& net, const Hydr
   std::vector<double> dev;
   for (double d : mix.max_deviation) dev.push_back(100.0 * std::min(d, 1.0));
   s += svg::line_chart("Farthest zone from uniform (capped at 100 %)", "time [s]", "largest deviation [%]",
-                       {{"largest over the zones", mix.time_s, dev, "#d62728"}},
+                       {{mix.judged_volume_fraction < 1.0 ? "largest over the zones the flow reaches" : "largest over the zones", mix.time_s,
+                         dev, "#d62728"}},
                        {{false, 100.0 * band, fmt::format("{} % band", format_number(100 * band, 2, 1))},
                         {true, mix.theta_s, fmt::format("theta{}", static_cast<int>(std::lround(100 * homogeneity)))}},
                        560, 340, 0.0, 100.0);
