@@ -35,5 +35,21 @@ TEST_F(MixingReportCli, ReportOpensWithTheTerminalVerdictAndHasItsFigures) {
   EXPECT_EQ(with_data, figures);
 }
 
+TEST_F(MixingReportCli, StagnantBrothIsNamedAndAnUnmixedVesselGetsALowerBound) {
+  // The viscous demo: caverns that touch, a little stagnant broth outside them, which theta95 leaves
+  // out and says so.
+  const auto viscous = oxystrat({"mixing", (kSourceDir / "cases/viscous-broth-40m3.toml").string(), "--out", "viscous"});
+  ASSERT_EQ(viscous.exit_code, 0) << viscous.err;
+  EXPECT_THAT(viscous.out, HasSubstr("The broth inside the caverns mixes to 95 %"));
+  EXPECT_THAT(viscous.out, HasSubstr("outside them is stagnant and not counted"));
+  // The tall demo with a yield stress: three caverns with stagnant broth between them never mix
+  // with each other, and `run` prints theta95 as a lower bound.
+  const auto apart = oxystrat({"run", (kSourceDir / "cases/tall-3rushton.toml").string(), "--set",
+                               "broth.rheology=herschel-bulkley", "--set", "broth.yield_stress=100 Pa", "--set",
+                               "broth.consistency=5 Pa s^n", "--set", "broth.flow_index=0.3", "--no-levers", "--out", "apart"});
+  ASSERT_EQ(apart.exit_code, 0) << apart.err;
+  EXPECT_THAT(apart.out, HasSubstr("theta95 > "));
+}
+
 }  // namespace
 }  // namespace oxystrat::test
