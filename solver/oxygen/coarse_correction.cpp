@@ -30,6 +30,7 @@ class ShiftedProblem : public SteadyProblem {
   }
   double residual_scale() const override { return p_.residual_scale(); }
   ZoneLayout zone_layout() const override { return p_.zone_layout(); }
+  void keep_in_domain(const Eigen::VectorXd& x, Eigen::VectorXd& x_try) const override { p_.keep_in_domain(x, x_try); }
 
  private:
   const SteadyProblem& p_;
@@ -140,7 +141,7 @@ bool CoarseCorrection::apply(const Eigen::VectorXd& fine_residual, const std::ve
   }
   const ShiftedProblem coarse(problem, shift);
   NewtonOptions o = newton;
-  o.reduction = 1e-2;  // cut only tenfold, it left the fine passes twice the iterations (bench/notes.md)
+  o.reduction = 1e-2;  // cut a hundredfold only; tenfold left the fine passes twice the iterations (bench/notes.md)
   o.balance_tolerance = std::numeric_limits<double>::infinity();  // the fine solve closes the balances
   Eigen::VectorXd xc = xc0;
   // A workspace of its own each time: kept, the coarse preconditioner (a set-up saved) would add
