@@ -75,6 +75,11 @@ std::vector<double> carried_gas(const SparseMatrix& g, const std::vector<double>
     }
   }
   if (!ok || !x.allFinite()) throw SolveError("the gas transport could not be solved (a zone the gas cannot leave?)");
+  // -G^-1 of an M-matrix has no negative entry, so neither has the exact answer. The iterative
+  // one may, inside its tolerance, where the gas hardly reaches (-1e-8 mol/m3 beside a cavern):
+  // a negative inert inventory there would turn the zone's gas composition and its Jacobian
+  // inside out (the preconditioner's blocks stop being M-matrices and its set-up fails).
+  x = x.cwiseMax(0.0);
   return {x.data(), x.data() + n};
 }
 
