@@ -45,6 +45,17 @@ double mole_fraction(const Eigen::VectorXd& x, const std::vector<double>& inert,
 
 }  // namespace
 
+NewtonOptions coarse_newton_options(const NewtonOptions& fine) {
+  NewtonOptions o = fine;
+  o.reduction = 1e-2;  // cut a hundredfold only; tenfold left the fine passes twice the iterations (bench/notes.md)
+  o.balance_tolerance = std::numeric_limits<double>::infinity();  // the fine solve closes the balances
+  // A hundredfold takes 1-3 steps when the correction works; a halved grid of 2.4e4 zones whose
+  // line search had stalled took all 60 and then minutes in the general LU.
+  o.max_iterations = 12;
+  o.linear.general_lu_up_to_unknowns = 0;
+  return o;
+}
+
 CoarseCorrection::CoarseCorrection(HalvedGridField level, const ZoneNetwork& fine, double biomass_kg_m3)
     : level_(std::move(level)),
       fine_(fine),
@@ -140,9 +151,7 @@ bool CoarseCorrection::apply(const Eigen::VectorXd& fine_residual, const std::ve
     for (int s = 0; s < kS; ++s) shift[kS * owner_[k] + s] -= fine_residual[kS * k + s];
   }
   const ShiftedProblem coarse(problem, shift);
-  NewtonOptions o = newton;
-  o.reduction = 1e-2;  // cut a hundredfold only; tenfold left the fine passes twice the iterations (bench/notes.md)
-  o.balance_tolerance = std::numeric_limits<double>::infinity();  // the fine solve closes the balances
+  const NewtonOptions o = coarse_newton_options(newton);
   Eigen::VectorXd xc = xc0;
   // A workspace of its own each time: kept, the coarse preconditioner (a set-up saved) would add
   // to the fine passes' peak memory.

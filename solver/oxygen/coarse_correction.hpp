@@ -20,6 +20,11 @@
 
 namespace oxystrat {
 
+//! The coarse solve's Newton options, from the fine solve's: a hundredfold cut of the residual,
+//! the balances left to the fine solve, and at most a few structured steps, never the general LU
+//! (a correction only speeds the fine solve up; one that stalls is dropped, not pursued for minutes).
+NewtonOptions coarse_newton_options(const NewtonOptions& fine);
+
 class CoarseCorrection {
  public:
   //! Takes over the halved grid's level (its case, network, hydrodynamics and routing).
@@ -29,8 +34,8 @@ class CoarseCorrection {
 
   //! x += P (x_c - R x) for the fine state x with residual `fine_residual` (fine_inert_mol_m3:
   //! the fine zones' inert gas, which the gas mole fractions are converted with). The coarse
-  //! problem is solved until its residual has fallen a hundredfold. False, with x unchanged, when
-  //! that solve fails.
+  //! problem is solved with coarse_newton_options(newton). False, with x unchanged, when that
+  //! solve fails.
   bool apply(const Eigen::VectorXd& fine_residual, const std::vector<double>& fine_inert_mol_m3, Eigen::VectorXd& x,
              const NewtonOptions& newton);
   //! Krylov iterations of the coarse solves so far.

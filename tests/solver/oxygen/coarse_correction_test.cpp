@@ -50,6 +50,18 @@ double largest_difference(const Eigen::VectorXd& a, const Eigen::VectorXd& b, in
   return d;
 }
 
+TEST(CoarseCorrection, ItsSolveIsShortAndNeverTheGeneralLu) {
+  // A stalled coarse solve (the viscous demo's halved 2.4e4-zone grid) used to run its 60 Newton
+  // steps and then factor the general sparse LU for minutes; the fine solve does not need it.
+  NewtonOptions fine;
+  fine.max_iterations = 200;
+  const NewtonOptions o = coarse_newton_options(fine);
+  EXPECT_LE(o.max_iterations, 12);
+  EXPECT_EQ(o.linear.general_lu_up_to_unknowns, 0);
+  EXPECT_DOUBLE_EQ(o.reduction, 1e-2);
+  EXPECT_EQ(o.tolerance, fine.tolerance);  // the fine solve's own test still ends it early
+}
+
 TEST(CoarseCorrection, LeavesAConvergedFieldWhereItIs) {
   const Converged s;
   auto correction = s.correction();
