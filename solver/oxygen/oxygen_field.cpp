@@ -151,10 +151,18 @@ void OxygenSetup::update(const Eigen::VectorXd& x) {
   coeff.cstar_per_y_o2.resize(n);
   coeff.cstar_per_y_co2.resize(n);
   std::vector<double> kla(n);
+  // Gas-free: little gas now, or little that the sparged gas would leave there if none of it
+  // dissolved. The second holds the inert gas that anchors the zone's composition; without it, a
+  // zone's O2 and CO2 could dissolve away inside one Newton pass at a fixed kLa, towards a
+  // composition 0/0 that Newton approaches tenfold per step and never reaches.
+  const double molar_volume_rt = kR * c.vessel.temperature_k;
+  const double sparged = ctx.hydro.gas_molar_flow_mol_s;
   // Zone by zone in parallel, summed in zone order (the same total for any thread count).
 #pragma omp parallel for schedule(static) if (n >= 50000)
   for (int k = 0; k < n; ++k) {
-    kla[k] = gas.holdup[k] < gas_free_holdup
+    const double undissolved =
+        ctx.routing.unit_inventory[k] * sparged * molar_volume_rt / (gas.pressure[k] - water_pressure_pa);
+    kla[k] = std::min(gas.holdup[k], undissolved) < gas_free_holdup
                  ? 0.0
                  : local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k], ctx.routing.sauter_m[k],
                              ctx.hydro.apparent_viscosity[k]);

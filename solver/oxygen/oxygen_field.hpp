@@ -26,7 +26,9 @@ inline constexpr double bubbly_flow_holdup = 0.3;
 //! exponentially small amounts (1e-30 and less) in zones the gas does not reach, such as a
 //! viscous broth's stagnant region, and their composition, a ratio of such amounts, would put
 //! derivatives of 1e30 into the Newton matrix. A billionth of the volume transfers nothing
-//! measurable at any kLa a correlation gives.
+//! measurable at any kLa a correlation gives. The same bound applies to the holdup the sparged
+//! gas would give with none of it dissolved (OxygenSetup::update): a zone below it has too little
+//! inert gas to hold its composition.
 inline constexpr double gas_free_holdup = 1e-9;
 
 struct OxygenField {

@@ -126,6 +126,27 @@ TEST(OxygenField, ZonesTheGasDoesNotReachTransferNothing) {
   EXPECT_LT(std::abs(f.o2_balance_error), 1e-9);
 }
 
+TEST(OxygenField, AZoneTheSpargedGasDoesNotReachTransfersNothingWhateverGasItHolds) {
+  // The second gas-free rule: a zone is gas-free when the sparged gas, none of it dissolved, would
+  // leave less than gas_free_holdup there, whatever O2 and CO2 the state puts in it (without
+  // inert gas to hold its composition, that O2 and CO2 would dissolve away at a fixed kLa; Newton
+  // chased them towards 0/0 tenfold per step on the viscous demo's 1e5-zone grid).
+  const Case c = testing::gassed_vessel(6, 16);
+  const Chain ch(c);
+  GasRouting routing = ch.routing;
+  const int zone = ch.net.size() / 2;
+  routing.unit_inventory[zone] = 0.0;  // the sparged gas does not reach it
+  const OxygenContext ctx{c, ch.net, ch.hydro, routing};
+  OxygenSetup setup(ctx, -1.0);
+  Eigen::VectorXd x = OxygenSetup(OxygenContext{c, ch.net, ch.hydro, ch.routing}, -1.0).initial_state();
+  ASSERT_GT(x[4 * zone + 2], 0.0);  // yet the state holds O2 and CO2 gas there
+  setup.update(x);
+  EXPECT_GT(setup.holdup[zone], gas_free_holdup);
+  EXPECT_EQ(setup.coeff.transfer_o2[zone], 0.0);
+  EXPECT_EQ(setup.coeff.transfer_co2[zone], 0.0);
+  EXPECT_GT(setup.coeff.transfer_o2[zone + 1], 0.0);  // its neighbour transfers
+}
+
 TEST(OxygenField, ViscousDemoSolvesOnAFineGrid) {
   // The fault the two rules above mend: on 2.9e4 zones a Newton step took a trace-gas zone's gas
   // O2 below zero, the preconditioner broke down and the solve failed. Now it converges, with the
