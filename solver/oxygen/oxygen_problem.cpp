@@ -6,6 +6,41 @@
 
 namespace oxystrat {
 
+ZoneTransfer zone_transfer(const TransferCoefficients& coeff, int k, double c, double d, double go, double gc) {
+  const double g = go + gc + coeff.inert_mol_m3[k];
+  const double t_o = coeff.transfer_o2[k], t_c = coeff.transfer_co2[k];
+  const double k_o = coeff.cstar_per_y_o2[k], k_c = coeff.cstar_per_y_co2[k];
+  const double g0 = coeff.gas_mol_m3.empty() ? 0.0 : coeff.gas_mol_m3[k];
+  ZoneTransfer z;
+  if (g0 > 0.0) {
+    // (T / g0) (K g_O2 - C g): linear in the gas amounts, no composition ratio.
+    const double a = t_o / g0, b = t_c / g0;
+    z.otr = a * (k_o * go - c * g);
+    z.ctr = b * (k_c * gc - d * g);
+    z.otr_c = -a * g;
+    z.otr_go = a * (k_o - c);
+    z.otr_gc = -a * c;
+    z.ctr_d = -b * g;
+    z.ctr_gc = b * (k_c - d);
+    z.ctr_go = -b * d;
+    return z;
+  }
+  // Fixed T and S: y = g_O2 / g, d y / d g_O2 = (g - g_O2) / g^2, d y / d g_CO2 = -g_O2 / g^2.
+  const double y = g > 0.0 ? go / g : 0.0, yc = g > 0.0 ? gc / g : 0.0;
+  z.otr = t_o * (k_o * y - c);
+  z.ctr = t_c * (k_c * yc - d);
+  z.otr_c = -t_o;
+  z.ctr_d = -t_c;
+  if (g > 0.0) {
+    const double g2 = g * g;
+    z.otr_go = t_o * k_o * (g - go) / g2;
+    z.otr_gc = -t_o * k_o * go / g2;
+    z.ctr_gc = t_c * k_c * (g - gc) / g2;
+    z.ctr_go = -t_c * k_c * gc / g2;
+  }
+  return z;
+}
+
 OxygenProblem::OxygenProblem(const ZoneNetwork& net, const GasRouting& routing, const SparseMatrix& transport,
                              const TransferCoefficients& coeff, const Uptake& uptake, double inlet_o2_mol_s,
                              double inlet_co2_mol_s)
@@ -36,17 +71,13 @@ void OxygenProblem::residual(const Eigen::VectorXd& x, Eigen::VectorXd& r) const
     }
   }
   for (int k = 0; k < n_; ++k) {
-    const double c = x[4 * k], d = x[4 * k + 1], go = x[4 * k + 2], gc = x[4 * k + 3];
-    const double total = go + gc + coeff_.inert_mol_m3[k];
-    const double y = total > 0.0 ? go / total : 0.0;
-    const double yc = total > 0.0 ? gc / total : 0.0;
-    const double otr = coeff_.transfer_o2[k] * (coeff_.cstar_per_y_o2[k] * y - c);
-    const double ctr = coeff_.transfer_co2[k] * (coeff_.cstar_per_y_co2[k] * yc - d);
+    const double c = x[4 * k];
+    const ZoneTransfer z = zone_transfer(coeff_, k, c, x[4 * k + 1], x[4 * k + 2], x[4 * k + 3]);
     const double our = uptake_.our(c) * uptake_.scale(k) * net_.volume[k];
-    r[4 * k] += otr - our;
-    r[4 * k + 1] += ctr + uptake_.rq * our;
-    r[4 * k + 2] += inlet_o2_ * net_.sparger_share[k] - otr;
-    r[4 * k + 3] += inlet_co2_ * net_.sparger_share[k] - ctr;
+    r[4 * k] += z.otr - our;
+    r[4 * k + 1] += z.ctr + uptake_.rq * our;
+    r[4 * k + 2] += inlet_o2_ * net_.sparger_share[k] - z.otr;
+    r[4 * k + 3] += inlet_co2_ * net_.sparger_share[k] - z.ctr;
   }
 }
 
@@ -77,27 +108,12 @@ void OxygenProblem::jacobian(const Eigen::VectorXd& x, std::vector<Eigen::Triple
 // The derivatives of a zone's transfer, uptake and gas composition terms: its 4 x 4 block
 // (row-major; rows and columns liquid O2, liquid CO2, gas O2, gas CO2).
 ZoneBlockSolver::LocalBlock OxygenProblem::local_block(const Eigen::VectorXd& x, int k) const {
-  const double go = x[4 * k + 2], gc = x[4 * k + 3];
-  const double total = go + gc + coeff_.inert_mol_m3[k];
-  const double t_o = coeff_.transfer_o2[k], t_c = coeff_.transfer_co2[k];
-  const double k_o = coeff_.cstar_per_y_o2[k], k_c = coeff_.cstar_per_y_co2[k];
-  // d y / d g_O2 = (total - g_O2) / total^2, d y / d g_CO2 = -g_O2 / total^2; likewise for CO2.
-  double dy_dgo = 0.0, dy_dgc = 0.0, dyc_dgc = 0.0, dyc_dgo = 0.0;
-  if (total > 0.0) {
-    const double t2 = total * total;
-    dy_dgo = (total - go) / t2;
-    dy_dgc = -go / t2;
-    dyc_dgc = (total - gc) / t2;
-    dyc_dgo = -gc / t2;
-  }
+  const ZoneTransfer z = zone_transfer(coeff_, k, x[4 * k], x[4 * k + 1], x[4 * k + 2], x[4 * k + 3]);
   const double dour = uptake_.dour(x[4 * k]) * uptake_.scale(k) * net_.volume[k];
-  // d OTR / d(C, g_O2, g_CO2) and d CTR / d(D, g_O2, g_CO2)
-  const double otr_c = -t_o, otr_go = t_o * k_o * dy_dgo, otr_gc = t_o * k_o * dy_dgc;
-  const double ctr_d = -t_c, ctr_gc = t_c * k_c * dyc_dgc, ctr_go = t_c * k_c * dyc_dgo;
-  return {otr_c - dour, 0.0,    otr_go,  otr_gc,   //
-          uptake_.rq * dour, ctr_d, ctr_go, ctr_gc,  //
-          -otr_c, 0.0, -otr_go, -otr_gc,             //
-          0.0, -ctr_d, -ctr_go, -ctr_gc};
+  return {z.otr_c - dour, 0.0,    z.otr_go,  z.otr_gc,   //
+          uptake_.rq * dour, z.ctr_d, z.ctr_go, z.ctr_gc,  //
+          -z.otr_c, 0.0, -z.otr_go, -z.otr_gc,             //
+          0.0, -z.ctr_d, -z.ctr_go, -z.ctr_gc};
 }
 
 bool OxygenProblem::jacobian_parts(const Eigen::VectorXd& x, std::vector<ZoneBlockSolver::LocalBlock>& local,

@@ -63,20 +63,67 @@ TEST(OxygenField, AnalyticJacobianMatchesFiniteDifferences) {
   }
   const SparseMatrix l = transport_matrix(ch.net, ch.hydro.face_flow, ch.hydro.face_exchange);
   Uptake u{c.culture.q_o2_max_mol_kg_s * c.culture.biomass_kg_m3, c.culture.k_o2_mol_m3, 1.1, {}};
-  const OxygenProblem p(ch.net, ch.routing, l, coeff, u, 1.0, 0.01);
   Eigen::VectorXd x = f.state;
   for (int i = 0; i < x.size(); ++i) x[i] = x[i] * (1.0 + 0.1 * std::sin(i)) + 1e-4;  // away from kinks
-  std::vector<Eigen::Triplet<double>> t;
-  p.jacobian(x, t);
-  Eigen::SparseMatrix<double> j(p.size(), p.size());
-  j.setFromTriplets(t.begin(), t.end());
-  const Eigen::MatrixXd fd = finite_difference_jacobian(p, x);
-  const Eigen::MatrixXd an = Eigen::MatrixXd(j);
-  // Central differences with h ~ 1e-6 x: truncation ~1e-12, cancellation ~1e-10 relative to the row scale.
-  for (int r = 0; r < p.size(); ++r) {
-    const double scale = std::max(1e-12, an.row(r).cwiseAbs().maxCoeff());
-    for (int col = 0; col < p.size(); ++col) EXPECT_NEAR(an(r, col), fd(r, col), 1e-6 * scale) << r << "," << col;
+  // Both forms of the transfer: kLa fixed, and kLa following the zone's gas from g0 (here 0.8-1.2
+  // times the gas of x, so the ratio is not 1).
+  for (const bool follows_gas : {false, true}) {
+    coeff.gas_mol_m3.clear();
+    for (int k = 0; follows_gas && k < n; ++k) {
+      coeff.gas_mol_m3.push_back((x[4 * k + 2] + x[4 * k + 3] + coeff.inert_mol_m3[k]) * (1.0 + 0.2 * std::cos(k)));
+    }
+    const OxygenProblem p(ch.net, ch.routing, l, coeff, u, 1.0, 0.01);
+    std::vector<Eigen::Triplet<double>> t;
+    p.jacobian(x, t);
+    Eigen::SparseMatrix<double> j(p.size(), p.size());
+    j.setFromTriplets(t.begin(), t.end());
+    const Eigen::MatrixXd fd = finite_difference_jacobian(p, x);
+    const Eigen::MatrixXd an = Eigen::MatrixXd(j);
+    // Central differences with h ~ 1e-6 x: truncation ~1e-12, cancellation ~1e-10 relative to the row scale.
+    for (int r = 0; r < p.size(); ++r) {
+      const double scale = std::max(1e-12, an.row(r).cwiseAbs().maxCoeff());
+      for (int col = 0; col < p.size(); ++col) {
+        EXPECT_NEAR(an(r, col), fd(r, col), 1e-6 * scale) << r << "," << col << (follows_gas ? " (follows gas)" : "");
+      }
+    }
   }
+}
+
+TEST(OxygenProblem, TransferFollowsTheZonesGasAndEndsWithIt) {
+  // Exact algebra: at g = g0 the transfer is the plain kLa V (K y - C); at half the gas, of the
+  // same composition, half of it; with no gas left, none (round-off only).
+  TransferCoefficients coeff;
+  coeff.transfer_o2 = {2e-3};
+  coeff.transfer_co2 = {1.8e-3};
+  coeff.cstar_per_y_o2 = {1.2};
+  coeff.cstar_per_y_co2 = {30.0};
+  coeff.inert_mol_m3 = {0.0};  // pure O2 sparged: nothing that stays in the gas
+  coeff.gas_mol_m3 = {2.0};
+  const double c = 0.3, d = 0.5, go = 1.9, gc = 0.1;  // g = g0
+  const ZoneTransfer full = zone_transfer(coeff, 0, c, d, go, gc);
+  EXPECT_NEAR(full.otr, 2e-3 * (1.2 * go / 2.0 - c), 1e-18);
+  EXPECT_NEAR(full.ctr, 1.8e-3 * (30.0 * gc / 2.0 - d), 1e-18);
+  const ZoneTransfer half = zone_transfer(coeff, 0, c, d, 0.5 * go, 0.5 * gc);
+  EXPECT_NEAR(half.otr, 0.5 * full.otr, 1e-18);
+  EXPECT_NEAR(half.ctr, 0.5 * full.ctr, 1e-18);
+  const ZoneTransfer none = zone_transfer(coeff, 0, c, d, 0.0, 0.0);
+  EXPECT_EQ(none.otr, 0.0);
+  EXPECT_EQ(none.ctr, 0.0);
+}
+
+TEST(OxygenField, PureOxygenWhoseGasDissolvesCompletelyInPlacesConverges) {
+  // Found by attacking the tool: the viscous demo sparged with pure O2. Far from the caverns the
+  // bubbles dissolve completely; at a fixed kLa such a zone had no steady state (its gas stays
+  // pure O2 as it vanishes) and Newton stalled at a scaled residual of 2.6e-9. The O2 balance
+  // closes to the solver's 1e-9 and every gas amount is positive.
+  Case c = read_case_file(testing::source_dir() + "/cases/viscous-broth-40m3.toml").data;
+  c.operation.oxygen_fraction = 1.0;
+  c.operation.co2_fraction = 0.0;
+  const Chain ch(c);
+  const auto f = solve_oxygen_field({c, ch.net, ch.hydro, ch.routing});
+  EXPECT_LT(std::abs(f.o2_balance_error), 1e-9);
+  for (int k = 0; k < ch.net.size(); ++k) EXPECT_GE(f.state[4 * k + 2], 0.0) << k;
+  EXPECT_GT(f.do_min, c.culture.critical_do_mol_m3);  // pure O2 lifts the whole tank above critical
 }
 
 TEST(OxygenProblem, AStepKeepsEveryGasAmountPositive) {

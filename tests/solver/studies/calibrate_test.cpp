@@ -93,12 +93,14 @@ TEST(CalibrateKla, RecoversKnownConstantsExactlyFromModelData) {
   EXPECT_EQ(r.points, 12);
   EXPECT_TRUE(r.power_exponent_fitted && r.gas_exponent_fitted);
   // The zone model with the fitted constants: kla_normalise (the pilot's default) makes its
-  // volume mean the vessel correlation, to round-off.
+  // volume mean the vessel correlation, to the outer loop's tolerance: the kLa reported is the
+  // balances' own, which follows the zone's gas from where the holdup last settled (to 1e-8;
+  // oxygen_problem.hpp). Measured 2-8e-9; 1e-7 leaves room.
   ASSERT_EQ(r.rows.size(), 12u);
   for (const auto& row : r.rows) {
     EXPECT_NEAR(row.fitted_1_s / row.measured_1_s, 1.0, 1e-9);
     ASSERT_GE(row.zone_mean_1_s, 0.0);
-    EXPECT_NEAR(row.zone_mean_1_s / row.fitted_1_s, 1.0, 1e-9);
+    EXPECT_NEAR(row.zone_mean_1_s / row.fitted_1_s, 1.0, 1e-7);
   }
   EXPECT_THAT(r.warnings, ::testing::IsEmpty());
 }
