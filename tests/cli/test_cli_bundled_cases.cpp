@@ -93,5 +93,13 @@ TEST_P(BundledCase, VtkFilesHoldEveryZone) {
 
 INSTANTIATE_TEST_SUITE_P(Cases, BundledCase, testing::ValuesIn(bundled_cases()), case_test_name);
 
+TEST_F(CliTest, ASmallHoldupIsPrintedWithItsDigits) {
+  // The cell-culture demo at 0.001 vvm holds ~0.015 % gas; one decimal printed it as "0.0 %".
+  const auto r = oxystrat({"run", (kSourceDir / "cases/cell-culture-2m3.toml").string(), "--set",
+                           "operation.gas_flow=0.001 vvm", "--no-levers", "--out", "result"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, testing::ContainsRegex("holdup 0\\.01[0-9]+ % mean"));
+}
+
 }  // namespace
 }  // namespace oxystrat::test
