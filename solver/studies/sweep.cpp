@@ -61,8 +61,7 @@ SweepAxis parse_vary(const std::string& argument, const LoadedCase& base) {
       throw CaseError(fmt::format("--vary '{}': the case's value '{}' is not a number", argument, *raw));
     }
   } else {
-    throw CaseError(fmt::format("--vary '{}': the case has no key {}; give the unit: {}=START:STOP:COUNT:UNIT", argument,
-                                a.key, a.key));
+    a.plain_assumed = true;  // e.g. operation.oxygen_fraction=0.21:1:5
   }
   return a;
 }
@@ -101,6 +100,11 @@ void check_sweep_axes(const LoadedCase& base, const std::vector<Override>& base_
         // The reader names the override as a --set; here it is the --vary argument's value.
         std::string why = e.what();
         if (const std::string set = "--set '" + point[d].raw + "': "; why.rfind(set, 0) == 0) why.erase(0, set.size());
+        if (axes[d].plain_assumed) {
+          why += fmt::format(" (the case does not write {}, so its values were taken as plain numbers; give the unit: "
+                             "{}=START:STOP:COUNT:UNIT)",
+                             axes[d].key, axes[d].key);
+        }
         throw CaseError(fmt::format("--vary '{}' at {}: {}", axes[d].argument.empty() ? axes[d].key : axes[d].argument,
                                     point[d].raw, why));
       }

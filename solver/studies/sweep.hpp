@@ -21,10 +21,12 @@ struct SweepAxis {
   int count = 1;
   std::string unit;  //!< unit the values are written in ("rpm"); empty for plain numbers
   std::string argument;  //!< the --vary text, for messages
+  bool plain_assumed = false;  //!< no unit given and none in the case: the values are plain numbers
 };
 
 //! Parses KEY=START:STOP:COUNT[:UNIT] (finite numbers, COUNT 1 to 10000); without a unit, the
-//! unit the case writes the key in.
+//! unit the case writes the key in, or plain numbers for a key the case does not write (a
+//! fraction, a count; check_sweep_axes says so if the key needs a unit).
 SweepAxis parse_vary(const std::string& argument, const LoadedCase& base);
 
 //! Most points one sweep may have: each needs a few kilobytes of results held to the end, and the

@@ -111,7 +111,20 @@ TEST(SweepPlan, VaryTakesTheCaseFilesUnitWhenNoneIsGiven) {
   EXPECT_EQ(parse_vary("operation.gas_flow=0.5:1:2", base).unit, "vvm");
   EXPECT_EQ(parse_vary("operation.speed=5:8:2:rps", base).unit, "rps");
   EXPECT_THROW(parse_vary("operation.speed=300:500", base), CaseError);
-  EXPECT_THROW(parse_vary("operation.nothing=1:2:2", base), CaseError);
+  const auto check = [&](const std::string& vary) { check_sweep_axes(base, {}, {parse_vary(vary, base)}); };
+  EXPECT_THROW(check("operation.nothing=1:2:2"), CaseError);
+  // A key the case does not write: a dimensionless one takes plain numbers (a CO2 fraction of
+  // 0.001 to 0.05, not 0.001 % to 0.05 %); one with units says which to give.
+  const auto fraction = parse_vary("operation.co2_fraction=0.001:0.05:3", base);
+  EXPECT_EQ(fraction.unit, "");
+  EXPECT_NO_THROW(check_sweep_axes(base, {}, {fraction}));
+  try {
+    check("impeller.0.blade_height=0.02:0.04:2");
+    ADD_FAILURE() << "a length without its unit was accepted";
+  } catch (const CaseError& e) {
+    EXPECT_NE(std::string(e.what()).find("give the unit: impeller.0.blade_height=START:STOP:COUNT:UNIT"), std::string::npos)
+        << e.what();
+  }
 }
 
 TEST(Sweep, NamesKnownBeforehandAreTheNamesThePointsCarry) {
