@@ -178,8 +178,8 @@ std::string gas_summary(const CaseRun& run) {
   const auto& g = run.routing;
   const auto [d_lo, d_hi] = std::minmax_element(g.sauter_m.begin(), g.sauter_m.end());
   const auto [u_lo, u_hi] = std::minmax_element(g.slip_m_s.begin(), g.slip_m_s.end());
-  std::string s = fmt::format("  gas            holdup {:.3g} % mean, {:.2g} % max; bubbles {:.2g}-{:.2g} mm", 100 * f.holdup_mean,
-                              100 * f.holdup_max, 1e3 * *d_lo, 1e3 * *d_hi);
+  std::string s = fmt::format("  gas            holdup {:.3g} % mean, {:.2g} % max (of the liquid volume); bubbles {:.2g}-{:.2g} mm",
+                              100 * f.holdup_mean, 100 * f.holdup_max, 1e3 * *d_lo, 1e3 * *d_hi);
   if (g.sparger_bubble_m > 0.0) s += fmt::format(" (sparger forms {:.2g} mm)", 1e3 * g.sparger_bubble_m);
   s += fmt::format(", rising {:.2g}-{:.2g} m/s; gassed level {:.3g} m\n", *u_lo, *u_hi, f.gassed_level_m);
   return s;

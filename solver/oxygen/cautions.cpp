@@ -77,7 +77,19 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
                                 "al. 1996).",
                                 field->pco2_max_pa / 133.322387415));
     }
-    if (field->volume_fraction_churning > 0.0) {
+    if (field->volume_fraction_churning > widespread_churning_share) {
+      // Not a plume but the vessel's gas flow: a tall vessel at a high superficial velocity.
+      const double vs_max = *std::max_element(field->superficial_gas_m_s.begin(), field->superficial_gas_m_s.end());
+      out.push_back(fmt::format(
+          "model range: gas holdup (gas volume per liquid volume) reaches {:.0f} % ({:.0f} % of the gassed dispersion) "
+          "and exceeds {:.0f} % in {:.0f} % of the volume: not a sparger plume but the gas flow itself. At a superficial "
+          "gas velocity of up to {:.2g} m/s a tall vessel runs towards the churn-turbulent regime (from ~0.05 m/s in "
+          "bubble columns, Shah et al. 1982 [mem]), where large, fast bubbles carry much of the gas; one bubble size per "
+          "zone then overstates the holdup and the gassed level, and holdup, kLa and pressure are rough. Less gas, more "
+          "back pressure or O2 enrichment lower the velocity.",
+          100.0 * field->holdup_max, 100.0 * field->holdup_max / (1.0 + field->holdup_max), 100.0 * bubbly_flow_holdup,
+          100.0 * field->volume_fraction_churning, vs_max));
+    } else if (field->volume_fraction_churning > 0.0) {
       out.push_back(fmt::format("model range: gas holdup reaches {:.0f} % ({:.1f} % of the volume above {:.0f} %), beyond "
                                 "bubbly flow: churning gas plumes there (typically the sparger plume) are not described "
                                 "by the zone model; holdup, kLa and pressure there are rough.",

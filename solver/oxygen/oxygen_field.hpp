@@ -21,6 +21,9 @@ namespace oxystrat {
 //! Holdup beyond which bubbly flow gives way to churning plumes that the zone model does not
 //! describe (typical stirred-tank holdups are 0.05-0.25, [mem]).
 inline constexpr double bubbly_flow_holdup = 0.3;
+//! Share of the volume above bubbly_flow_holdup beyond which it is the vessel's gas flow, not a
+//! sparger plume, that churns (our choice: a plume fills a few per cent of a vessel).
+inline constexpr double widespread_churning_share = 0.1;
 
 //! Holdup below which a zone counts as gas-free (kLa 0): the drift-flux transport leaves
 //! exponentially small amounts (1e-30 and less) in zones the gas does not reach, such as a

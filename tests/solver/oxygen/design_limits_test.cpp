@@ -7,6 +7,7 @@
 #include <cmath>
 
 #include "case_fixtures.hpp"
+#include "input/case_reader.hpp"
 #include "physics/heat.hpp"
 #include "physics/solubility.hpp"
 #include "solver/oxygen/case_run.hpp"
@@ -77,6 +78,25 @@ TEST(HeatBalance, CoolingLimitedCaseSupportsLessBiomassThanItsOxygen) {
   const auto at_limit = heat_balance(c, {run.hydro.power_gassed_w, run.hydro.gas_molar_flow_mol_s, x, x, c.culture.rq * x});
   EXPECT_NEAR(at_limit.required_w / *q.available_w, 1.0, 1e-10);
   EXPECT_NEAR(*q.max_biomass_kg_m3, *q.max_our_mol_m3_s / c.culture.q_o2_max_mol_kg_s, 1e-12);
+}
+
+TEST(Cautions, ChurningGasIsAPlumeOrTheVesselsGasFlow) {
+  // The tall demo: 2.3 % of the volume above a holdup of 0.3, its sparger plume. The 150 m3 demo
+  // at 1 vvm: ~96 %, the whole vessel's gas flow; the caution says so, with the dispersion's gas
+  // fraction beside the holdup per liquid volume (which passes 100 % there: 95 %, i.e. 49 %).
+  const auto churning = [](const std::string& file, const std::vector<Override>& o) {
+    const Case c = read_case_file(testing::source_dir() + "/cases/" + file, o).data;
+    const auto run = run_case(c, {false, false});
+    for (const auto& w : run.cautions) {
+      if (w.find("model range: gas holdup") != std::string::npos) return w;
+    }
+    return std::string();
+  };
+  const std::string plume = churning("tall-3rushton.toml", {});
+  EXPECT_NE(plume.find("typically the sparger plume"), std::string::npos) << plume;
+  const std::string vessel = churning("tall-bacterial-150m3.toml", {parse_override("operation.gas_flow=1 vvm")});
+  EXPECT_NE(vessel.find("not a sparger plume but the gas flow itself"), std::string::npos) << vessel;
+  EXPECT_NE(vessel.find("of the gassed dispersion"), std::string::npos) << vessel;
 }
 
 TEST(Shear, KolmogorovLengthAndStressPerZone) {
