@@ -326,10 +326,9 @@ OxygenField solve_field(const OxygenContext& ctx, double biomass_kg_m3, const Ox
     f.cstar_mol_m3[k] = coeff.cstar_per_y_o2[k] * f.y_o2[k];
     // The balances' own kLa and transfer: kLa follows the zone's gas from the value it was last
     // computed at (oxygen_problem.hpp); the outer loop has settled, so they differ by < 1e-8.
-    const double g0 = coeff.gas_mol_m3.empty() ? 0.0 : coeff.gas_mol_m3[k];
-    const double gas_ratio = g0 > 0.0 ? (x[4 * k + 2] + x[4 * k + 3] + coeff.inert_mol_m3[k]) / g0 : 1.0;
-    f.kla_1_s[k] = coeff.transfer_o2[k] * gas_ratio / net.volume[k];
-    f.otr_mol_m3_s[k] = zone_transfer(coeff, k, x[4 * k], x[4 * k + 1], x[4 * k + 2], x[4 * k + 3]).otr / net.volume[k];
+    const ZoneTransfer z = zone_transfer(coeff, k, x[4 * k], x[4 * k + 1], x[4 * k + 2], x[4 * k + 3]);
+    f.kla_1_s[k] = coeff.transfer_o2[k] * z.gas_ratio / net.volume[k];
+    f.otr_mol_m3_s[k] = z.otr / net.volume[k];
     f.our_mol_m3_s[k] = uptake.our(f.do_mol_m3[k]);
     f.pco2_pa[k] = f.co2_mol_m3[k] / h_co2;
     f.do_saturation[k] = f.do_mol_m3[k] / air_sat;

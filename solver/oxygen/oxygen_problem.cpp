@@ -14,6 +14,7 @@ ZoneTransfer zone_transfer(const TransferCoefficients& coeff, int k, double c, d
   ZoneTransfer z;
   if (g0 > 0.0) {
     // (T / g0) (K g_O2 - C g): linear in the gas amounts, no composition ratio.
+    z.gas_ratio = g / g0;
     const double a = t_o / g0, b = t_c / g0;
     z.otr = a * (k_o * go - c * g);
     z.ctr = b * (k_c * gc - d * g);

@@ -9,11 +9,11 @@
 // with L the liquid transport, G the gas transport (solver/flow/gas_routing.hpp), F the sparged
 // flows and s_k the sparger's share, T = kLa V, K = C* per unit O2 mole fraction (Henry x
 // salting-out x (p - p_water)), y = g_O2 / (g_O2 + g_CO2 + g_inert), and likewise for CO2.
-// T and S are fixed during a Newton solve at the gas the zone held when they were computed (g0);
-// within the solve they follow the zone's gas g = g_O2 + g_CO2 + g_inert as T g / g0, so that
-// the transfer ends with the gas: T (g / g0) (K y - C) = (T / g0) (K g_O2 - C g). At the solution
-// of the outer loop g = g0 and this is the plain T (K y - C). Without it a zone of pure O2 whose
-// gas all dissolves has no steady state at a fixed T (y stays near 1 as the gas vanishes).
+// T and S are computed by the outer loop at the gas each zone held then (g0); within a Newton
+// solve they follow the zone's gas g = g_O2 + g_CO2 + g_inert as T g / g0, so that the transfer
+// ends with the gas: T (g / g0) (K y - C) = (T / g0) (K g_O2 - C g). At the solution of the outer
+// loop g = g0 and this is the plain T (K y - C). Without it a zone of pure O2 whose gas all
+// dissolves has no steady state at a fixed T (y stays near 1 as the gas vanishes).
 #pragma once
 
 #include <algorithm>
@@ -41,6 +41,7 @@ struct TransferCoefficients {
 //! O2 and CO2 transfer of one zone into the liquid [mol/s] and their derivatives by the zone's
 //! C_O2, C_CO2, g_O2, g_CO2 (the balances' single definition of the transfer; see above).
 struct ZoneTransfer {
+  double gas_ratio = 1.0;  //!< g / g0: the factor on T and S (1 where they stay fixed)
   double otr = 0.0, ctr = 0.0;
   double otr_c = 0.0, otr_go = 0.0, otr_gc = 0.0;
   double ctr_d = 0.0, ctr_go = 0.0, ctr_gc = 0.0;
