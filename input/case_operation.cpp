@@ -5,6 +5,7 @@
 #include <algorithm>
 
 #include "physics/solubility.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat::detail {
 namespace {
@@ -73,7 +74,7 @@ void read_do_calibration(TomlSource& src, Case& c) {
   b.gas_o2_fraction = src.choice("do_calibration.gas", {"air", "inlet"}).value_or("air") == "inlet"
                           ? c.operation.oxygen_fraction
                           : physics::air_o2_fraction;
-  const double p = c.vessel.head_pressure_pa + c.broth.density_kg_m3 * 9.80665 * (h - b.probe_height_m);
+  const double p = c.vessel.head_pressure_pa + c.broth.density_kg_m3 * kG * (h - b.probe_height_m);
   b.reference_mol_m3 = physics::henry_o2(t) * salt * b.gas_o2_fraction * (p - physics::water_vapour_pressure(t));
   b.label = fmt::format("% of in-vessel saturation ({:.3g} % O2 at {:.4g} bar(a), probe at {:.3g} m)",
                         100.0 * b.gas_o2_fraction, p / 1e5, b.probe_height_m);

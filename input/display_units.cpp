@@ -1,4 +1,5 @@
 #include "input/display_units.hpp"
+#include "physics/constants.hpp"
 
 #include <array>
 #include <stdexcept>
@@ -10,8 +11,6 @@ struct Entry {
   std::string_view display, si;
   double per_si;
 };
-
-constexpr double kMmHgPa = 133.322387415;  // conventional millimetre of mercury
 
 // Every non-SI unit a table prints (costs per hour stay in their currency and are not listed).
 constexpr std::array<Entry, 14> kTable{{

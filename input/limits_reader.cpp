@@ -5,6 +5,7 @@
 #include <cmath>
 
 #include "physics/solubility.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat::detail {
 namespace {
@@ -147,7 +148,7 @@ void read_prices(TomlSource& src, Case& c) {
   p.electricity_per_j = read_price(src, "prices.electricity", p.currency, {{"kWh", 3.6e6}, {"MWh", 3.6e9}, {"GJ", 1e9}},
                                    fmt::format("electricity = \"0.12 {}/kWh\"", p.currency));
   // One normal m3 of O2 (0 degC, 1 atm, ideal gas) is 44.615 mol, 1.4276 kg.
-  const double nm3_kg = 101325.0 / (8.314462618 * 273.15) * physics::molar_mass_o2;
+  const double nm3_kg = 101325.0 / (kR * 273.15) * physics::molar_mass_o2;
   if (src.has("prices.oxygen")) {
     p.oxygen_per_kg = read_price(src, "prices.oxygen", p.currency, {{"kg", 1.0}, {"t", 1e3}, {"Nm3", nm3_kg}},
                                  fmt::format("oxygen = \"0.15 {}/kg\"", p.currency));

@@ -6,6 +6,8 @@
 #include <cmath>
 #include <fmt/format.h>
 
+#include "physics/constants.hpp"
+
 namespace oxystrat::units {
 namespace {
 
@@ -29,7 +31,7 @@ const std::vector<UnitDef>& table(Dimension dim) {
   static const std::vector<UnitDef> pressure{{"bar", 1e5},  {"Pa", 1.0},        {"kPa", 1e3},
                                              {"MPa", 1e6},  {"mbar", 100.0},    {"atm", 101325.0},
                                              {"psi", 6894.757293168361},
-                                             {"mmHg", 133.322387415}, {"Torr", 101325.0 / 760.0}};
+                                             {"mmHg", kMmHgPa}, {"Torr", 101325.0 / 760.0}};
   static const std::vector<UnitDef> temperature{{"degC", 1.0, zero_celsius_k}, {"K", 1.0}};
   static const std::vector<UnitDef> biomass{{"g/L", 1.0}, {"kg/m3", 1.0}, {"mg/L", 1e-3}};
   static const std::vector<UnitDef> specific_rate{
@@ -65,7 +67,7 @@ const std::vector<UnitDef>& table(Dimension dim) {
                                                  {"kJ/mmol", 1e6}, {"kcal/mmol", 4.184e6}};
   static const std::vector<UnitDef> specific_power{{"W/kg", 1.0}, {"mW/kg", 1e-3}, {"kW/kg", 1e3}};
   static const std::vector<UnitDef> pressure_difference{{"bar", 1e5}, {"Pa", 1.0}, {"kPa", 1e3}, {"mbar", 100.0},
-                                                        {"psi", 6894.757293168361}, {"mmHg", 133.322387415}};
+                                                        {"psi", 6894.757293168361}, {"mmHg", kMmHgPa}};
   // Cell-culture units: counts per volume, the dry mass of one cell, uptake per cell.
   static const std::vector<UnitDef> cell_density{{"cells/mL", 1e6}, {"cells/L", 1e3}, {"cells/m3", 1.0},
                                                  {"cells/uL", 1e9}};

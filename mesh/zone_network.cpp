@@ -8,11 +8,10 @@
 
 #include "mesh/grid_lines.hpp"
 #include "input/errors.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 namespace {
-
-constexpr double kG = 9.80665;  // standard gravity [m/s2]
 
 struct Centroid {
   double r, z;

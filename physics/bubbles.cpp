@@ -1,16 +1,11 @@
 #include "physics/bubbles.hpp"
+#include "physics/constants.hpp"
 
 #include <algorithm>
 #include <cmath>
 #include <numbers>
 
 namespace oxystrat::physics {
-namespace {
-
-constexpr double kG = 9.80665;  // standard gravity [m/s2]
-
-}  // namespace
-
 double water_surface_tension(double temperature_k) {
   const double tau = 1.0 - temperature_k / 647.096;
   return 0.2358 * std::pow(tau, 1.256) * (1.0 - 0.625 * tau);

@@ -10,11 +10,10 @@
 #include "postproc/report/number_format.hpp"
 #include "postproc/report/svg_plot.hpp"
 #include "postproc/report/verdict_output.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 namespace {
-
-constexpr double kMmHg = 133.322387415;
 
 std::string status(const LeverResult& r) {
   if (r.already) return "meets already";
@@ -39,7 +38,7 @@ std::string safety(const LeverResult& r, const LeverEffects& base) {
     w.push_back(fmt::format("O2-enriched gas ({:.0f} % O2): oxygen service", 100.0 * e.oxygen_fraction));
   }
   if (e.flooded_impellers > base.flooded_impellers) w.push_back(fmt::format("{} impeller(s) flooded", e.flooded_impellers));
-  if (e.pco2_max_pa > 150.0 * kMmHg) w.push_back(fmt::format("pCO2 {:.0f} mmHg", e.pco2_max_pa / kMmHg));
+  if (e.pco2_max_pa > 150.0 * kMmHgPa) w.push_back(fmt::format("pCO2 {:.0f} mmHg", e.pco2_max_pa / kMmHgPa));
   if (e.head_pressure_pa > base.head_pressure_pa) w.push_back(fmt::format("vessel at {:.2f} bar(a)", e.head_pressure_pa / 1e5));
   if (e.cooling_margin && *e.cooling_margin < 0.0) w.push_back("cooling too small");
   std::string s;
@@ -97,7 +96,7 @@ std::string levers_text(const Case& c, const LeversStudy& s) {
     const auto& e = r.effects;
     t += fmt::format("  {:<14} {:<14} {:<28} {:>7} {:>9.4g} {:>9.4g} {:>8.3g} {:>9.3g} {:>8.3g} {:>9.0f}{}\n", r.name,
                      status(r), value_text(r), change_text(r), e.power_gassed_w / 1e3, e.total_power_w / 1e3,
-                     e.power_per_volume_w_m3 / 1e3, e.tip_speed_m_s, e.epsilon_max_w_kg, e.pco2_max_pa / kMmHg,
+                     e.power_per_volume_w_m3 / 1e3, e.tip_speed_m_s, e.epsilon_max_w_kg, e.pco2_max_pa / kMmHgPa,
                      priced && e.cost_per_h ? fmt::format(" {:>9.4g}", *e.cost_per_h) : "");
     const auto warn = safety(r, s.base);
     if (!warn.empty()) t += "      watch: " + warn + "\n";
@@ -124,7 +123,7 @@ void write_levers_csv(const std::string& path, const LeversStudy& s) {
     out << fmt::format("{},{},{},{},{:.10g},{:.10g},{:.10g},{:.6g},{:.6g},{:.6g},{},{:.6g},{:.6g},{:.6g},{:.6g},{:.6g},{:.6g},{:.6g},{}\n",
                        r.name, r.key, status(r), r.unit, r.current, r.limit, r.value, e.power_gassed_w / 1e3,
                        e.power_per_volume_w_m3 / 1e3, e.tip_speed_m_s, e.flooded_impellers, e.epsilon_max_w_kg,
-                       e.pco2_max_pa / kMmHg, e.head_pressure_pa / 1e5, 100.0 * e.oxygen_fraction, e.do_min_mol_m3,
+                       e.pco2_max_pa / kMmHgPa, e.head_pressure_pa / 1e5, 100.0 * e.oxygen_fraction, e.do_min_mol_m3,
                        100.0 * e.volume_fraction_below_critical, 3600.0 * e.kla_mean_1_s, note);
   }
   finish_file(out, path);
@@ -206,7 +205,7 @@ std::string levers_report_body(const Case& c, const LeversStudy& s) {
                      escape(r.name), escape(status(r)), escape(value_text(r)), escape(change_text(r)),
                      format_number(e.power_gassed_w / 1e3), format_number(e.total_power_w / 1e3), format_number(e.power_per_volume_w_m3 * pv_unit.factor),
                      format_number(e.tip_speed_m_s, 3), format_number(e.epsilon_max_w_kg, 3),
-                     format_number(e.pco2_max_pa / kMmHg, 3), format_number(e.do_min_mol_m3), escape(watch_and_note(r, s.base)));
+                     format_number(e.pco2_max_pa / kMmHgPa, 3), format_number(e.do_min_mol_m3), escape(watch_and_note(r, s.base)));
     cats.push_back(r.name);
     pg.push_back(e.power_gassed_w / 1e3);
     dmin.push_back(e.do_min_mol_m3);

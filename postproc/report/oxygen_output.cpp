@@ -11,11 +11,10 @@
 #include "physics/solubility.hpp"
 #include "input/errors.hpp"
 #include "postproc/report/limits_output.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 namespace {
-
-constexpr double kMmHg = 133.322387415;
 
 std::vector<double> zero_where_nan(std::vector<double> v) {
   for (auto& x : v) x = std::isnan(x) ? 0.0 : x;
@@ -160,7 +159,7 @@ std::vector<CellArray> oxygen_cell_arrays(const CaseRun& run) {
           {"y_o2", f.y_o2, {}},
           {"y_co2", f.y_co2, {}},
           {"pco2", f.pco2_pa, {}},
-          {"pco2_mmHg", scaled(f.pco2_pa, 1.0 / kMmHg), {}},
+          {"pco2_mmHg", scaled(f.pco2_pa, 1.0 / kMmHgPa), {}},
           {"co2", f.co2_mol_m3, {}},
           {"pressure_gassed", f.pressure_pa, {}}};
 }
@@ -230,7 +229,7 @@ std::string oxygen_summary(const Case& c, const CaseRun& run) {
                      100 * f.offgas_y_co2, 100 * one.offgas_y_o2, 100 * one.offgas_y_co2);
     s += fmt::format("  OTR total      {:.4g} mol/s ({:.1f} mmol/(L h)); O2 balance residual {:.1e}\n", f.otr_total_mol_s,
                      3600 * f.otr_total_mol_s / run.net.total_volume(), f.o2_balance_error);
-    s += fmt::format("  pCO2 max       {:.0f} mmHg\n", f.pco2_max_pa / kMmHg);
+    s += fmt::format("  pCO2 max       {:.0f} mmHg\n", f.pco2_max_pa / kMmHgPa);
     if (c.culture.q_o2_max_mol_kg_s > 0.0) {
       s += fmt::format("  max biomass    {:7.1f} g/L (OUR {:.0f} mmol/(L h))   {:7.1f} g/L (OUR {:.0f} mmol/(L h))\n",
                        run.max_biomass_kg_m3, 3600 * run.max_biomass_kg_m3 * c.culture.q_o2_max_mol_kg_s,

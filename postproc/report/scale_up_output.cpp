@@ -12,11 +12,10 @@
 #include "postproc/report/number_format.hpp"
 #include "postproc/report/svg_plot.hpp"
 #include "postproc/report/verdict_output.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 namespace {
-
-constexpr double kMmHg = 133.322387415;
 
 struct Column {
   const char* head;
@@ -34,7 +33,7 @@ const Column kColumns[] = {
     {"theta95", "s", [](const ScaleMetrics& m) { return m.theta95_s; }},
     {"DO min", "mmol/L", [](const ScaleMetrics& m) { return m.do_min_mol_m3; }},
     {"max X", "g/L", [](const ScaleMetrics& m) { return m.max_biomass_kg_m3; }},
-    {"pCO2", "mmHg", [](const ScaleMetrics& m) { return m.effects.pco2_max_pa / kMmHg; }},
+    {"pCO2", "mmHg", [](const ScaleMetrics& m) { return m.effects.pco2_max_pa / kMmHgPa; }},
 };
 
 std::string verdict(const ScaleMetrics& m) { return m.effects.feasible ? "meets" : "fails"; }

@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include "input/units.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 
@@ -17,7 +18,7 @@ std::string geometry_summary(const LoadedCase& loaded, const ZoneNetwork& net) {
                    to_string(v.bottom), net.shape.head_depth());
   s += fmt::format("        {} baffles x {:.3g} m, head pressure {}, bottom pressure {}, {}\n", v.baffles,
                    v.baffle_width_m, units::format(Dimension::pressure, v.head_pressure_pa),
-                   units::format(Dimension::pressure, v.head_pressure_pa + c.broth.density_kg_m3 * 9.80665 * v.liquid_height_m),
+                   units::format(Dimension::pressure, v.head_pressure_pa + c.broth.density_kg_m3 * kG * v.liquid_height_m),
                    units::format(Dimension::temperature, v.temperature_k));
   if (v.pressure_rating_pa > 0.0) {
     s += fmt::format("        pressure rating {}\n", units::format(Dimension::pressure, v.pressure_rating_pa));

@@ -19,11 +19,10 @@
 #include "postproc/report/svg_plot.hpp"
 #include "postproc/io/vtk_writer.hpp"
 #include "input/errors.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 namespace {
-
-constexpr double kMmHgPa = 133.322387415;
 
 // One summary column: name in HDF5, CSV header, unit factor from SI and the value.
 struct Column {

@@ -5,12 +5,10 @@
 #include "physics/solubility.hpp"
 #include "postproc/report/svg_plot.hpp"
 #include "solver/flow/hydrodynamics.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 namespace {
-
-constexpr double kG = 9.80665;
-constexpr double kR = 8.314462618;
 
 // Actual volume flow of the wet gas at the sparger's pressure and the broth temperature [m3/s].
 double sparger_actual_flow(const Case& c) {

@@ -16,8 +16,6 @@
 namespace oxystrat {
 namespace {
 
-constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
-
 std::string lower_without_spaces(std::string_view s) {
   std::string out;
   for (char c : s) {
@@ -37,7 +35,7 @@ double time_factor(std::string_view unit) {
   if (unit == "s") return 1.0;
   if (unit == "min") return 60.0;
   if (unit == "h") return 3600.0;
-  return kNaN;
+  return std::numeric_limits<double>::quiet_NaN();
 }
 
 // SI value (mol/m3) of one DO concentration unit, or nothing.
@@ -146,7 +144,6 @@ DoTrace do_trace_from(const CsvTable& table) {
   }
   return tr;
 }
-
 
 }  // namespace
 

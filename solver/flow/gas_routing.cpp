@@ -10,12 +10,10 @@
 #include "solver/linalg/fgmres.hpp"
 #include "solver/linalg/scalar_lu.hpp"
 #include "solver/linalg/scalar_multigrid.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 namespace {
-
-constexpr double kR = 8.314462618;  // molar gas constant [J/(mol K)], CODATA 2018
-constexpr double kG = 9.80665;
 
 // Bubble size in zone k from the sparger's size and the zone's dissipation: Hinze's inertial
 // limit, or in a broth so viscous that it falls below the Kolmogorov length, the viscous one.

@@ -6,12 +6,10 @@
 
 #include "physics/solubility.hpp"
 #include "solver/flow/viscous_flow.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 namespace {
-
-constexpr double kG = 9.80665;        // standard gravity [m/s2]
-constexpr double kR = 8.314462618;    // molar gas constant [J/(mol K)], CODATA 2018
 
 // Gas flow reaching each impeller at its own pressure. The first impeller above the sparger takes
 // all of it; upper impellers take model.upper_gas_share of the local flow, since much of the gas

@@ -9,6 +9,7 @@
 #include "physics/impeller_power.hpp"
 #include "solver/flow/loop_flow.hpp"
 #include "mesh/zone_network.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 
@@ -55,7 +56,7 @@ struct Hydrodynamics {
 };
 
 //! Ideal-gas molar volume at 0 degC and 1 atm [m3/mol] (CODATA 2018 R).
-inline constexpr double normal_molar_volume = 8.314462618 * 273.15 / 101325.0;
+inline constexpr double normal_molar_volume = kR * 273.15 / 101325.0;
 
 Hydrodynamics compute_hydrodynamics(const Case& c, const ZoneNetwork& net);
 

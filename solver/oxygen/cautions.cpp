@@ -7,6 +7,7 @@
 
 #include "physics/solubility.hpp"
 #include "solver/flow/viscous_flow.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 
@@ -15,7 +16,7 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
   const auto& v = c.vessel;
   const double bar = 1e5;
   if (v.pressure_rating_pa > 0.0) {
-    const double bottom = v.head_pressure_pa + c.broth.density_kg_m3 * 9.80665 * v.liquid_height_m;
+    const double bottom = v.head_pressure_pa + c.broth.density_kg_m3 * kG * v.liquid_height_m;
     if (v.head_pressure_pa > v.pressure_rating_pa) {
       out.push_back(fmt::format("PRESSURE: head pressure {:.3g} bar(a) is ABOVE the vessel rating {:.3g} bar(a). Do not "
                                 "operate; the rating and relief settings of the certified vessel govern.",
@@ -75,7 +76,7 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
     if (field->pco2_max_pa > pco2_inhibition_pa) {
       out.push_back(fmt::format("pCO2 reaches {:.0f} mmHg, above the ~150 mmHg known to inhibit cell cultures (Gray et "
                                 "al. 1996).",
-                                field->pco2_max_pa / 133.322387415));
+                                field->pco2_max_pa / kMmHgPa));
     }
     if (field->volume_fraction_churning > widespread_churning_share) {
       // Not a plume but the vessel's gas flow: a tall vessel at a high superficial velocity.

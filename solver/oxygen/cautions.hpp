@@ -8,6 +8,7 @@
 #include "input/case.hpp"
 #include "solver/flow/hydrodynamics.hpp"
 #include "solver/oxygen/oxygen_field.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 
@@ -15,6 +16,6 @@ namespace oxystrat {
 std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const OxygenField* field);
 
 //! pCO2 above which cell cultures are inhibited [Pa]: 150 mmHg (Gray et al. 1996).
-inline constexpr double pco2_inhibition_pa = 150.0 * 133.322387415;
+inline constexpr double pco2_inhibition_pa = 150.0 * kMmHgPa;
 
 }  // namespace oxystrat

@@ -8,7 +8,7 @@
 namespace oxystrat {
 namespace {
 
-constexpr int kS = 4;  // unknowns per zone: liquid O2, CO2, gas O2, CO2
+constexpr int kUnknownsPerZone = 4;  // unknowns per zone: liquid O2, CO2, gas O2, CO2
 
 // A problem whose residual is another's minus a fixed vector (same Jacobian).
 class ShiftedProblem : public SteadyProblem {
@@ -39,8 +39,8 @@ class ShiftedProblem : public SteadyProblem {
 
 // Gas mole fraction of `species` (2: O2, 3: CO2) in zone k of state x; 0 without gas.
 double mole_fraction(const Eigen::VectorXd& x, const std::vector<double>& inert, int k, int species) {
-  const double total = x[kS * k + 2] + x[kS * k + 3] + inert[k];
-  return inert[k] > 0.0 && total > 0.0 ? x[kS * k + species] / total : 0.0;
+  const double total = x[kUnknownsPerZone * k + 2] + x[kUnknownsPerZone * k + 3] + inert[k];
+  return inert[k] > 0.0 && total > 0.0 ? x[kUnknownsPerZone * k + species] / total : 0.0;
 }
 
 }  // namespace
@@ -70,32 +70,32 @@ CoarseCorrection::CoarseCorrection(HalvedGridField level, const ZoneNetwork& fin
 Eigen::VectorXd CoarseCorrection::restricted_state(const Eigen::VectorXd& x, const std::vector<double>& fine_inert) const {
   const int nc = level_.net.size();
   std::vector<double> volume(nc, 0.0), gassed(nc, 0.0);
-  Eigen::VectorXd sum = Eigen::VectorXd::Zero(kS * nc);  // volume times C_O2, C_CO2, y_O2, y_CO2
+  Eigen::VectorXd sum = Eigen::VectorXd::Zero(kUnknownsPerZone * nc);  // volume times C_O2, C_CO2, y_O2, y_CO2
   for (int k = 0; k < fine_.size(); ++k) {
     const int kc = owner_[k];
     const double v = fine_.volume[k];
     volume[kc] += v;
-    sum[kS * kc] += v * x[kS * k];
-    sum[kS * kc + 1] += v * x[kS * k + 1];
+    sum[kUnknownsPerZone * kc] += v * x[kUnknownsPerZone * k];
+    sum[kUnknownsPerZone * kc + 1] += v * x[kUnknownsPerZone * k + 1];
     if (!(fine_inert[k] > 0.0)) continue;
     gassed[kc] += v;
-    sum[kS * kc + 2] += v * mole_fraction(x, fine_inert, k, 2);
-    sum[kS * kc + 3] += v * mole_fraction(x, fine_inert, k, 3);
+    sum[kUnknownsPerZone * kc + 2] += v * mole_fraction(x, fine_inert, k, 2);
+    sum[kUnknownsPerZone * kc + 3] += v * mole_fraction(x, fine_inert, k, 3);
   }
   // A coarse zone that holds no fine centroid keeps the halved grid's own solution.
   Eigen::VectorXd xc = level_.field.state;
   const auto& inert = setup_.coeff.inert_mol_m3;
   for (int kc = 0; kc < nc; ++kc) {
     if (volume[kc] > 0.0) {
-      xc[kS * kc] = sum[kS * kc] / volume[kc];
-      xc[kS * kc + 1] = sum[kS * kc + 1] / volume[kc];
+      xc[kUnknownsPerZone * kc] = sum[kUnknownsPerZone * kc] / volume[kc];
+      xc[kUnknownsPerZone * kc + 1] = sum[kUnknownsPerZone * kc + 1] / volume[kc];
     }
     if (!(gassed[kc] > 0.0) || !(inert[kc] > 0.0)) continue;
-    const double y_o2 = sum[kS * kc + 2] / gassed[kc], y_co2 = sum[kS * kc + 3] / gassed[kc];
+    const double y_o2 = sum[kUnknownsPerZone * kc + 2] / gassed[kc], y_co2 = sum[kUnknownsPerZone * kc + 3] / gassed[kc];
     if (!(y_o2 + y_co2 < 1.0)) continue;
     const double total = inert[kc] / (1.0 - y_o2 - y_co2);
-    xc[kS * kc + 2] = y_o2 * total;
-    xc[kS * kc + 3] = y_co2 * total;
+    xc[kUnknownsPerZone * kc + 2] = y_o2 * total;
+    xc[kUnknownsPerZone * kc + 3] = y_co2 * total;
   }
   return xc;
 }
@@ -106,8 +106,8 @@ void CoarseCorrection::add_prolonged(const Eigen::VectorXd& xc, const Eigen::Vec
   const auto& inert = setup_.coeff.inert_mol_m3;
   Eigen::VectorXd d = xc - xc0;  // the gas rows then hold the change of the mole fractions
   for (int kc = 0; kc < nc; ++kc) {
-    for (int species = 2; species < kS; ++species) {
-      d[kS * kc + species] = mole_fraction(xc, inert, kc, species) - mole_fraction(xc0, inert, kc, species);
+    for (int species = 2; species < kUnknownsPerZone; ++species) {
+      d[kUnknownsPerZone * kc + species] = mole_fraction(xc, inert, kc, species) - mole_fraction(xc0, inert, kc, species);
     }
   }
   // Made again for each correction: kept, they would add to the fine passes' peak memory.
@@ -115,26 +115,26 @@ void CoarseCorrection::add_prolonged(const Eigen::VectorXd& xc, const Eigen::Vec
   for (int k = 0; k < fine_.size(); ++k) {
     const auto& s = stencils[k];
     // Mole fractions from the coarse zones that carry gas only (as nested_state() does).
-    double e[kS] = {0.0, 0.0, 0.0, 0.0}, gas_weight = 0.0;
+    double e[kUnknownsPerZone] = {0.0, 0.0, 0.0, 0.0}, gas_weight = 0.0;
     for (int i = 0; i < 4; ++i) {
       const int kc = s.zone[i];
       const double w = s.weight[i];
-      e[0] += w * d[kS * kc];
-      e[1] += w * d[kS * kc + 1];
+      e[0] += w * d[kUnknownsPerZone * kc];
+      e[1] += w * d[kUnknownsPerZone * kc + 1];
       if (w == 0.0 || !(inert[kc] > 0.0)) continue;
       gas_weight += w;
-      e[2] += w * d[kS * kc + 2];
-      e[3] += w * d[kS * kc + 3];
+      e[2] += w * d[kUnknownsPerZone * kc + 2];
+      e[3] += w * d[kUnknownsPerZone * kc + 3];
     }
-    x[kS * k] += e[0];
-    x[kS * k + 1] += e[1];
+    x[kUnknownsPerZone * k] += e[0];
+    x[kUnknownsPerZone * k + 1] += e[1];
     if (!(gas_weight > 0.0) || !(fine_inert[k] > 0.0)) continue;
     const double y_o2 = mole_fraction(x, fine_inert, k, 2) + e[2] / gas_weight;
     const double y_co2 = mole_fraction(x, fine_inert, k, 3) + e[3] / gas_weight;
     if (!(y_o2 >= 0.0 && y_co2 >= 0.0 && y_o2 + y_co2 < 1.0)) continue;
     const double total = fine_inert[k] / (1.0 - y_o2 - y_co2);
-    x[kS * k + 2] = y_o2 * total;
-    x[kS * k + 3] = y_co2 * total;
+    x[kUnknownsPerZone * k + 2] = y_o2 * total;
+    x[kUnknownsPerZone * k + 3] = y_co2 * total;
   }
 }
 
@@ -148,7 +148,7 @@ bool CoarseCorrection::apply(const Eigen::VectorXd& fine_residual, const std::ve
   Eigen::VectorXd shift(problem.size());
   problem.residual(xc0, shift);
   for (int k = 0; k < fine_.size(); ++k) {
-    for (int s = 0; s < kS; ++s) shift[kS * owner_[k] + s] -= fine_residual[kS * k + s];
+    for (int s = 0; s < kUnknownsPerZone; ++s) shift[kUnknownsPerZone * owner_[k] + s] -= fine_residual[kUnknownsPerZone * k + s];
   }
   const ShiftedProblem coarse(problem, shift);
   const NewtonOptions o = coarse_newton_options(newton);

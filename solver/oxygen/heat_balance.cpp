@@ -5,19 +5,13 @@
 
 #include "physics/heat.hpp"
 #include "physics/solubility.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
-namespace {
-
-constexpr double kGasConstant = 8.314462618;  // J/(mol K), CODATA 2018
-constexpr double kGravity = 9.80665;          // m/s2
-
-}  // namespace
-
 double sparger_pressure_pa(const Case& c) {
   if (!c.has_sparger) return c.vessel.head_pressure_pa;
   const double depth = std::max(0.0, c.vessel.liquid_height_m - c.sparger.elevation_m);
-  return c.vessel.head_pressure_pa + c.broth.density_kg_m3 * kGravity * depth;
+  return c.vessel.head_pressure_pa + c.broth.density_kg_m3 * kG * depth;
 }
 
 std::optional<double> cooling_available_w(const Case& c) {
@@ -39,7 +33,7 @@ HeatBalance heat_balance(const Case& c, const HeatInputs& in) {
   b.agitation_w = in.power_gassed_w;
   // The gas expands isothermally at broth temperature from the sparger's pressure to the head's:
   // its work goes into the liquid and is dissipated (the power input of a bubble column).
-  b.gas_expansion_w = in.inlet_gas_mol_s * kGasConstant * t * std::log(sparger_pressure_pa(c) / p_top);
+  b.gas_expansion_w = in.inlet_gas_mol_s * kR * t * std::log(sparger_pressure_pa(c) / p_top);
   b.gas_sensible_w = in.inlet_gas_mol_s * physics::dry_gas_molar_heat_capacity * (t - c.utilities.gas_temperature_k);
   // Dry inlet, off-gas saturated with water at broth temperature and head pressure.
   const double pw = physics::water_vapour_pressure(t);

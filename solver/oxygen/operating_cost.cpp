@@ -6,6 +6,7 @@
 #include "physics/compression.hpp"
 #include "physics/solubility.hpp"
 #include "solver/oxygen/heat_balance.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 
@@ -19,7 +20,7 @@ OperatingCost operating_cost(const Case& c, double power_gassed_w, double inlet_
   k.air_mol_s = inlet_gas_mol_s - k.oxygen_purchased_mol_s;
   k.supply_pressure_pa = sparger_pressure_pa(c) + u.supply_pressure_drop_pa;
   const double p1 = units::standard_atmosphere_pa;
-  const double q1 = k.air_mol_s * 8.314462618 * u.ambient_temperature_k / p1;  // at the compressor inlet
+  const double q1 = k.air_mol_s * kR * u.ambient_temperature_k / p1;  // at the compressor inlet
   k.compressor_isothermal_w = physics::isothermal_compression_power(p1, q1, k.supply_pressure_pa);
   k.compressor_adiabatic_w = physics::adiabatic_compression_power(p1, q1, k.supply_pressure_pa);
   k.compressor_w = k.compressor_adiabatic_w / u.compressor_efficiency;

@@ -15,12 +15,10 @@
 #include "solver/oxygen/oxygen_problem.hpp"
 #include "physics/solubility.hpp"
 #include "solver/flow/transport.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 namespace {
-
-constexpr double kG = 9.80665;
-constexpr double kR = 8.314462618;
 
 struct GasState {
   std::vector<double> holdup, pressure, superficial;

@@ -22,8 +22,6 @@
 namespace oxystrat {
 namespace {
 
-constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
-
 struct MixingRow {
   Case c;
   ZoneNetwork net;
@@ -128,7 +126,7 @@ MixingCalibration calibrate_exchange(const LoadedCase& base, const std::vector<O
     max_sens = std::max(max_sens, std::abs(r.sensitivity));
   }
   res.rms_log = std::sqrt(ss / static_cast<double>(n));
-  res.lo = res.hi = kNaN;
+  res.lo = res.hi = std::numeric_limits<double>::quiet_NaN();
   const int pct = static_cast<int>(std::lround(100.0 * opt.confidence));
   if (n >= 2 && jj > 0.0) {
     res.t_quantile = student_t_quantile(0.5 + 0.5 * opt.confidence, static_cast<double>(n - 1));
@@ -161,6 +159,5 @@ MixingCalibration calibrate_exchange(const LoadedCase& base, const std::vector<O
   }
   return res;
 }
-
 
 }  // namespace oxystrat

@@ -19,14 +19,8 @@
 #include "solver/fit/student_t.hpp"
 #include "solver/oxygen/oxygen_field.hpp"
 #include "physics/solubility.hpp"
+#include "physics/constants.hpp"
 namespace oxystrat {
-namespace {
-
-constexpr double kG = 9.80665;         // standard gravity [m/s2], as in the oxygen field
-constexpr double kR = 8.314462618;     // gas constant [J/(mol K)] (CODATA 2018)
-
-}  // namespace
-
 VesselKlaInputs vessel_kla_inputs(const Case& c, const ZoneNetwork& net, const Hydrodynamics& h) {
   // As OxygenSetup (solver/oxygen_field.cpp): total gassed power per working volume, and the
   // wet inlet gas at the pressure of mid-height in the ungassed liquid over the vessel's section.

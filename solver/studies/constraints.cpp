@@ -5,6 +5,7 @@
 #include <algorithm>
 
 #include "solver/studies/limit_constraints.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 
@@ -43,8 +44,8 @@ std::vector<ConstraintCheck> check_constraints(const Case& c, const CaseRun& run
   }
   if (k.max_pco2_pa && run.field) {
     out.push_back({"pco2", run.field->pco2_max_pa <= *k.max_pco2_pa,
-                   fmt::format("pCO2 max {:.0f} mmHg (limit {:.0f} mmHg)", run.field->pco2_max_pa / 133.322387415,
-                               *k.max_pco2_pa / 133.322387415)});
+                   fmt::format("pCO2 max {:.0f} mmHg (limit {:.0f} mmHg)", run.field->pco2_max_pa / kMmHgPa,
+                               *k.max_pco2_pa / kMmHgPa)});
   }
   if (!k.allow_flooding) out.push_back({"flooding", !flooded, flooded ? "an impeller is flooded" : "no impeller flooded"});
   append_limit_checks(c, run, out);  // heat and shear

@@ -7,11 +7,10 @@
 #include <cmath>
 
 #include "physics/solubility.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 namespace {
-
-constexpr double kG = 9.80665;
 
 // A lever: the case key it writes, the unit it is written in, and the values it may take.
 struct LeverSpec {

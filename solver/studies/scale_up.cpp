@@ -11,12 +11,10 @@
 #include "solver/flow/hydrodynamics.hpp"
 #include "solver/flow/mixing_time.hpp"
 #include "solver/oxygen/case_run.hpp"
+#include "physics/constants.hpp"
 
 namespace oxystrat {
 namespace {
-
-constexpr double kG = 9.80665;
-constexpr double kR = 8.314462618;
 
 double mid_height_superficial(const Case& c) {
   const double t = c.vessel.temperature_k;

@@ -10,6 +10,7 @@
 #include <filesystem>
 #include <fstream>
 #include <iterator>
+#include <map>
 #include <string>
 #include <vector>
 
@@ -31,6 +32,18 @@ inline std::string shell_quote(const std::string& s) {
 inline std::string read_file(const fs::path& p) {
   std::ifstream in(p, std::ios::binary);
   return std::string((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+}
+
+//! The small test case that most command-line tests run.
+inline const std::string kSmallCase = (kDataDir / "small-case.toml").string();
+
+//! Every regular file under `dir` (relative path -> bytes).
+inline std::map<std::string, std::string> snapshot(const fs::path& dir) {
+  std::map<std::string, std::string> files;
+  for (const auto& e : fs::recursive_directory_iterator(dir)) {
+    if (e.is_regular_file()) files[fs::relative(e.path(), dir).string()] = read_file(e.path());
+  }
+  return files;
 }
 
 struct RunResult {

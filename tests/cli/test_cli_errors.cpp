@@ -12,7 +12,6 @@ namespace {
 
 using testing::HasSubstr;
 
-const std::string kSmallCase = (kDataDir / "small-case.toml").string();
 const std::string kBadCase = (kDataDir / "bad-unit.toml").string();
 
 //! An old result folder in work() with one marker file.

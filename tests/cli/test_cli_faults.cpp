@@ -26,8 +26,6 @@ namespace {
 using testing::HasSubstr;
 using Clock = std::chrono::steady_clock;
 
-const std::string kSmall = (kDataDir / "small-case.toml").string();
-
 // A refusal reads a few hundred bytes of TOML; building what these inputs ask for would take
 // tens of gigabytes and minutes or more. 30 s separates the two with a wide margin even in a
 // sanitizer build on a loaded machine: a guard against "tried to build it", not a speed target.
@@ -38,7 +36,7 @@ class CliFaults : public CliTest {
   //! Runs `oxystrat run` on the small case with `sets`; expects a quick exit 1 with `message` on
   //! stderr and nothing written.
   void expect_refused(const std::vector<std::string>& sets, const std::vector<std::string>& message) {
-    std::vector<std::string> args = {"run", kSmall, "--out", "res"};
+    std::vector<std::string> args = {"run", kSmallCase, "--out", "res"};
     for (const auto& s : sets) {
       args.push_back("--set");
       args.push_back(s);
@@ -94,17 +92,17 @@ TEST_F(CliFaults, SpecialFilesAreRefusedAsCaseFiles) {
 
 // Bad input that used to pass `check` or fail only later, refused when the case is read.
 TEST_F(CliFaults, InputChecksHappenBeforeAnyWork) {
-  std::ofstream(work() / "event.toml") << read_file(kSmall) << "\n[[event]]\ntime = \"1 h\"\nset = \"operation.sped=200 rpm\"\n";
+  std::ofstream(work() / "event.toml") << read_file(kSmallCase) << "\n[[event]]\ntime = \"1 h\"\nset = \"operation.sped=200 rpm\"\n";
   auto r = oxystrat({"check", "event.toml"});
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("event.toml:"));
   EXPECT_THAT(r.err, HasSubstr("event.0.set = \"operation.sped=200 rpm\""));
-  r = oxystrat({"check", kSmall, "--set", "title=\"x\" garbage"});
+  r = oxystrat({"check", kSmallCase, "--set", "title=\"x\" garbage"});
   EXPECT_EQ(r.exit_code, 1);
-  r = oxystrat({"check", kSmall, "--set", "vessel.temperature=80 degC", "--set", "vessel.head_pressure=0.45 bar(a)"});
+  r = oxystrat({"check", kSmallCase, "--set", "vessel.temperature=80 degC", "--set", "vessel.head_pressure=0.45 bar(a)"});
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("the broth boils"));
-  r = oxystrat({"check", kSmall, "--set", "operation.oxygen_fraction=1"});
+  r = oxystrat({"check", kSmallCase, "--set", "operation.oxygen_fraction=1"});
   EXPECT_EQ(r.exit_code, 0) << r.err;
   EXPECT_THAT(r.err, HasSubstr("warning: --set 'operation.oxygen_fraction=1': oxygen-enriched gas"));
   EXPECT_TRUE(work_listing() == (std::vector<std::string>{"event.toml"}));
@@ -112,7 +110,7 @@ TEST_F(CliFaults, InputChecksHappenBeforeAnyWork) {
 
 TEST_F(CliFaults, OutputUnderARegularFileGivesAMessage) {
   { std::ofstream(work() / "blocker") << "not a folder\n"; }
-  const auto r = oxystrat({"run", kSmall, "--out", "blocker/res"});
+  const auto r = oxystrat({"run", kSmallCase, "--out", "blocker/res"});
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("oxystrat: error: cannot create blocker"));
   EXPECT_THAT(r.err, HasSubstr("Not a directory"));
@@ -124,7 +122,7 @@ TEST_F(CliFaults, OutputWhereNobodyMayCreateFoldersGivesAMessage) {
   // sysfs refuses mkdir even to root (and is read-only in containers): unwritable for anyone.
   if (!fs::is_directory("/sys")) GTEST_SKIP() << "no /sys on this machine";
   const std::string target = "/sys/oxystrat-cli-faults-" + std::to_string(::getpid());
-  const auto r = oxystrat({"run", kSmall, "--out", target});
+  const auto r = oxystrat({"run", kSmallCase, "--out", target});
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("oxystrat: error: cannot create " + target));
   EXPECT_FALSE(fs::exists(target));
@@ -135,7 +133,7 @@ TEST_F(CliFaults, OutputInAReadOnlyFolderGivesAMessage) {
   if (::geteuid() == 0) GTEST_SKIP() << "root ignores folder permissions (the /sys test covers this case)";
   fs::create_directory(work() / "ro");
   fs::permissions(work() / "ro", fs::perms::owner_read | fs::perms::owner_exec);
-  const auto r = oxystrat({"run", kSmall, "--out", "ro/res"});
+  const auto r = oxystrat({"run", kSmallCase, "--out", "ro/res"});
   fs::permissions(work() / "ro", fs::perms::owner_all);
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("oxystrat: error: cannot create ro/res"));
@@ -143,15 +141,6 @@ TEST_F(CliFaults, OutputInAReadOnlyFolderGivesAMessage) {
 }
 
 // ---- a run killed with SIGKILL while it writes its output ----
-
-//! Every regular file under `dir` (relative path -> bytes).
-std::map<std::string, std::string> snapshot(const fs::path& dir) {
-  std::map<std::string, std::string> files;
-  for (const auto& e : fs::recursive_directory_iterator(dir)) {
-    if (e.is_regular_file()) files[fs::relative(e.path(), dir).string()] = read_file(e.path());
-  }
-  return files;
-}
 
 //! Starts oxystrat with `args` in `cwd` (output to /dev/null) and returns its pid. The signals the
 //! tests send have their default action in it, whatever the test runner set.
@@ -193,7 +182,7 @@ const std::vector<std::string> kSlowOutput = {"--set", "grid.radial=40", "--set"
 //! Runs the slow-output case into `dir` (with --force) and kills it with `sig` as soon as its
 //! staging folder holds result.h5, i.e. once output has begun.
 void kill_during_output(const fs::path& work, const std::string& dir, int sig = SIGKILL) {
-  std::vector<std::string> args = {"run", kSmall, "--out", dir, "--force"};
+  std::vector<std::string> args = {"run", kSmallCase, "--out", dir, "--force"};
   args.insert(args.end(), kSlowOutput.begin(), kSlowOutput.end());
   const pid_t pid = spawn(work, args);
   ASSERT_GT(pid, 0);
@@ -216,7 +205,7 @@ void kill_during_output(const fs::path& work, const std::string& dir, int sig = 
 }
 
 TEST_F(CliFaults, KilledDuringOutputLeavesThePreviousResultIntact) {
-  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res"}).exit_code, 0);
+  ASSERT_EQ(oxystrat({"run", kSmallCase, "--out", "res"}).exit_code, 0);
   const auto before = snapshot(work() / "res");
   ASSERT_TRUE(before.count("result.h5") == 1);
 
@@ -239,7 +228,7 @@ TEST_F(CliFaults, KilledDuringOutputLeavesNoFolderThatLooksFinished) {
 class CliInterrupts : public CliFaults, public testing::WithParamInterface<int> {};
 
 TEST_P(CliInterrupts, InterruptDuringOutputRemovesThePartialFolderAndKeepsThePreviousResult) {
-  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res"}).exit_code, 0);
+  ASSERT_EQ(oxystrat({"run", kSmallCase, "--out", "res"}).exit_code, 0);
   const auto before = snapshot(work() / "res");
   kill_during_output(work(), "res", GetParam());
   EXPECT_EQ(snapshot(work() / "res"), before) << "the previous result changed";
@@ -259,7 +248,7 @@ INSTANTIATE_TEST_SUITE_P(Signals, CliInterrupts, testing::Values(SIGINT, SIGTERM
 TEST_F(CliFaults, NextRunRemovesThePartialFolderOfAKilledRun) {
   kill_during_output(work(), "res");
   ASSERT_FALSE(partial_folders(work(), "res").empty()) << "SIGKILL left no partial folder to tidy";
-  const auto r = oxystrat({"run", kSmall, "--out", "res"});
+  const auto r = oxystrat({"run", kSmallCase, "--out", "res"});
   ASSERT_EQ(r.exit_code, 0) << r.err;
   EXPECT_THAT(r.err, HasSubstr("note: removed res.partial-"));
   EXPECT_EQ(work_listing(), std::vector<std::string>{"res"});
@@ -320,12 +309,12 @@ pid_t dead_pid() {
 
 TEST_F(CliFaults, NextRunPutsBackTheOldResultAKilledCommitHadMovedAside) {
   // A kill between a commit's two renames leaves the previous result as DIR.old-PID and no DIR.
-  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res"}).exit_code, 0);
+  ASSERT_EQ(oxystrat({"run", kSmallCase, "--out", "res"}).exit_code, 0);
   const auto before = snapshot(work() / "res");
   const std::string aside = "res.old-" + std::to_string(dead_pid());
   fs::rename(work() / "res", work() / aside);
   // Without --force the put-back result is then an existing folder, kept as it was.
-  const auto r = oxystrat({"run", kSmall, "--out", "res"});
+  const auto r = oxystrat({"run", kSmallCase, "--out", "res"});
   EXPECT_EQ(r.exit_code, 1);
   EXPECT_THAT(r.err, HasSubstr("note: put back res from " + aside));
   EXPECT_THAT(r.err, HasSubstr("output folder res exists"));
@@ -335,9 +324,9 @@ TEST_F(CliFaults, NextRunPutsBackTheOldResultAKilledCommitHadMovedAside) {
 
 TEST_F(CliFaults, NextRunRemovesAnOldResultLeftBesideTheNewOne) {
   // A kill after a commit's second rename leaves the old result beside the new one: garbage.
-  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res"}).exit_code, 0);
+  ASSERT_EQ(oxystrat({"run", kSmallCase, "--out", "res"}).exit_code, 0);
   fs::create_directory(work() / ("res.old-" + std::to_string(dead_pid())));
-  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res", "--force"}).exit_code, 0);
+  ASSERT_EQ(oxystrat({"run", kSmallCase, "--out", "res", "--force"}).exit_code, 0);
   EXPECT_EQ(work_listing(), std::vector<std::string>{"res"});
 }
 
@@ -345,7 +334,7 @@ TEST_F(CliFaults, LeftoversOfALiveProcessAreLeftAlone) {
   // This test's own process is alive: its staging folder may be in use.
   const std::string mine = "res.partial-" + std::to_string(::getpid()) + "-0";
   fs::create_directory(work() / mine);
-  ASSERT_EQ(oxystrat({"run", kSmall, "--out", "res"}).exit_code, 0);
+  ASSERT_EQ(oxystrat({"run", kSmallCase, "--out", "res"}).exit_code, 0);
   EXPECT_EQ(work_listing(), (std::vector<std::string>{"res", mine}));
 }
 

@@ -22,17 +22,6 @@ namespace {
 
 using testing::HasSubstr;
 
-const std::string kSmall = (kDataDir / "small-case.toml").string();
-
-//! Every regular file under `dir` (relative path -> bytes).
-std::map<std::string, std::string> snapshot(const fs::path& dir) {
-  std::map<std::string, std::string> files;
-  for (const auto& e : fs::recursive_directory_iterator(dir)) {
-    if (e.is_regular_file()) files[fs::relative(e.path(), dir).string()] = read_file(e.path());
-  }
-  return files;
-}
-
 struct LimitedRun {
   int exit_code = -1;  //!< -1: ended by a signal
   int signal = 0;
@@ -97,11 +86,11 @@ class CliFullDisk : public CliTest {
 // 8 KiB: the CSV and text files fit, result.h5 does not; its close then fails (before the fix,
 // HDF5's clean-up at exit then crashed on the half-closed file: signal 11).
 TEST_F(CliFullDisk, RunFailsCleanlyWhenResultH5CannotBeWritten) {
-  expect_clean_failure(8 << 10, {"run", kSmall, "--out", "res"}, "result.h5: File too large");
+  expect_clean_failure(8 << 10, {"run", kSmallCase, "--out", "res"}, "result.h5: File too large");
 }
 
 TEST_F(CliFullDisk, CompareFailsCleanlyWhenResultH5CannotBeWritten) {
-  expect_clean_failure(8 << 10, {"compare", kSmall, kSmall, "--out", "res"}, "result.h5: File too large");
+  expect_clean_failure(8 << 10, {"compare", kSmallCase, kSmallCase, "--out", "res"}, "result.h5: File too large");
 }
 
 TEST_F(CliFullDisk, ValidateFailsCleanlyWhenResultH5CannotBeWritten) {
@@ -112,7 +101,7 @@ TEST_F(CliFullDisk, ValidateFailsCleanlyWhenResultH5CannotBeWritten) {
 // 1 KiB: the sweep journal (a line per finished point) passes it after a point or two. Before the
 // fix the journal's exception escaped an OpenMP region: std::terminate, signal 6.
 TEST_F(CliFullDisk, SweepFailsCleanlyWhenItsJournalCannotBeWritten) {
-  const std::vector<std::string> args = {"sweep", kSmall, "--vary", "operation.speed=200:400:6:rpm", "--no-biomass",
+  const std::vector<std::string> args = {"sweep", kSmallCase, "--vary", "operation.speed=200:400:6:rpm", "--no-biomass",
                                          "--out", "res"};
   const auto first = run_limited(0, args);
   ASSERT_EQ(first.exit_code, 0) << first.err;
@@ -140,7 +129,7 @@ TEST_F(CliFullDisk, RunOnAFullTmpfsFailsCleanly) {
     fs::path at;
     ~Unmount() { ::umount2(at.c_str(), MNT_DETACH); }
   } unmount{disk};
-  const auto first = run_limited(0, {"run", kSmall, "--out", "res"}, disk);
+  const auto first = run_limited(0, {"run", kSmallCase, "--out", "res"}, disk);
   ASSERT_EQ(first.exit_code, 0) << first.err;
   const auto before = snapshot(disk / "res");
   // Fill the disk, then free 8 KiB: less than the new result needs.
@@ -152,7 +141,7 @@ TEST_F(CliFullDisk, RunOnAFullTmpfsFailsCleanly) {
   const auto filled = fs::file_size(disk / "fill");
   ASSERT_GT(filled, 8u << 10);
   fs::resize_file(disk / "fill", filled - (8 << 10));
-  const auto r = run_limited(0, {"run", kSmall, "--out", "res", "--force"}, disk);
+  const auto r = run_limited(0, {"run", kSmallCase, "--out", "res", "--force"}, disk);
   EXPECT_EQ(r.signal, 0) << "killed by signal " << r.signal << "; stderr: " << r.err;
   EXPECT_EQ(r.exit_code, 1) << r.err;
   EXPECT_THAT(r.err, HasSubstr("No space left on device"));

@@ -8,14 +8,14 @@
 #include <string>
 
 #include "case_text.hpp"
+#include "tests/round_off.hpp"
 
 namespace oxystrat::test {
 namespace {
 
 using testing::HasSubstr;
 
-// A handful of multiplications: round-off tolerance.
-constexpr double kTol = 1e-12;
+// A handful of multiplications: round-off tolerance (kRoundOff).
 // The base case: head pressure 0.5 bar(g), broth at 30 degC.
 constexpr double kHeadPa = 0.5e5 + 101325.0;
 constexpr double kBrothK = 303.15;
@@ -28,7 +28,7 @@ Case with_gas_flow(const std::string& flow) {
 void expect_normal_flow(const std::string& flow, double expected_m3_s) {
   SCOPED_TRACE(flow);
   const double got = with_gas_flow(flow).operation.gas_flow_normal_m3_s;
-  EXPECT_NEAR(got, expected_m3_s, kTol * expected_m3_s);
+  EXPECT_NEAR(got, expected_m3_s, kRoundOff * expected_m3_s);
 }
 
 TEST(CaseGasFlow, VvmIsNormalVolumePerLiquidVolumePerMinute) {
@@ -58,7 +58,7 @@ TEST(CaseGasFlow, ActualFlowFollowsTheHeadPressure) {
                     .replace("gas_flow = \"0.5 vvm\"", "gas_flow = \"20 L/min\""))
         .data.operation.gas_flow_normal_m3_s;
   };
-  EXPECT_NEAR(at("2 bar(a)"), 2.0 * at("1 bar(a)"), kTol * at("2 bar(a)"));
+  EXPECT_NEAR(at("2 bar(a)"), 2.0 * at("1 bar(a)"), kRoundOff * at("2 bar(a)"));
 }
 
 TEST(CaseGasFlow, AbsentMeansNoGas) {
@@ -100,7 +100,7 @@ TEST(CaseGasFlow, BareNumberIsNotAccepted) {
 
 TEST(CaseGasFlow, OverrideChangesTheBasis) {
   const auto c = load(CaseText(), {"operation.gas_flow=2 Nm3/h"}).data;
-  EXPECT_NEAR(c.operation.gas_flow_normal_m3_s, 2.0 / 3600.0, kTol * 2.0 / 3600.0);
+  EXPECT_NEAR(c.operation.gas_flow_normal_m3_s, 2.0 / 3600.0, kRoundOff * 2.0 / 3600.0);
 }
 
 }  // namespace

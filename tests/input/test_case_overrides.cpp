@@ -6,13 +6,14 @@
 #include <numbers>
 
 #include "case_text.hpp"
+#include "tests/round_off.hpp"
 
 namespace oxystrat::test {
 namespace {
 
 using testing::HasSubstr;
 
-constexpr double kTol = 1e-12;  // one multiplication per value: round-off
+// One multiplication per value: round-off tolerance (kRoundOff).
 
 TEST(CaseOverride, ParseSplitsAtTheFirstEquals) {
   const auto o = parse_override(" operation.speed = 110 rpm ");
@@ -24,7 +25,7 @@ TEST(CaseOverride, ParseSplitsAtTheFirstEquals) {
 
 TEST(CaseOverride, SpeedWithUnit) {
   const auto loaded = load(CaseText(), {"operation.speed=110 rpm"});
-  EXPECT_NEAR(loaded.data.operation.speed_rps, 110.0 / 60.0, kTol);
+  EXPECT_NEAR(loaded.data.operation.speed_rps, 110.0 / 60.0, kRoundOff);
   ASSERT_EQ(loaded.overrides.size(), 1u);
   EXPECT_EQ(loaded.overrides[0], "operation.speed=110 rpm");
   EXPECT_THAT(loaded.effective_text, HasSubstr("110 rpm"));
@@ -33,7 +34,7 @@ TEST(CaseOverride, SpeedWithUnit) {
 
 TEST(CaseOverride, QuotedValueAsTheShellPassesIt) {
   const auto loaded = load(CaseText(), {"operation.speed=\"110 rpm\""});
-  EXPECT_NEAR(loaded.data.operation.speed_rps, 110.0 / 60.0, kTol);
+  EXPECT_NEAR(loaded.data.operation.speed_rps, 110.0 / 60.0, kRoundOff);
 }
 
 // Text after a quoted value used to be kept: title became '"x" garbage' and the case passed.
@@ -58,7 +59,7 @@ TEST(CaseOverride, ImpellerTypeByZeroBasedIndex) {
   EXPECT_EQ(c.impellers[1].type, ImpellerType::hydrofoil_up);
   // The type's defaults follow the new type (input/case_vessel.cpp: 3 blades, band 0.12 D).
   EXPECT_EQ(c.impellers[1].blades, 3);
-  EXPECT_NEAR(c.impellers[1].blade_height_m, 0.12 * 0.30, kTol);
+  EXPECT_NEAR(c.impellers[1].blade_height_m, 0.12 * 0.30, kRoundOff);
 }
 
 TEST(CaseOverride, GridCountAsTomlInteger) {
@@ -69,7 +70,7 @@ TEST(CaseOverride, GridCountAsTomlInteger) {
 
 TEST(CaseOverride, LaterOverridesWin) {
   const auto c = load(CaseText(), {"operation.speed=110 rpm", "operation.speed=2 rps"}).data;
-  EXPECT_NEAR(c.operation.speed_rps, 2.0, kTol);
+  EXPECT_NEAR(c.operation.speed_rps, 2.0, kRoundOff);
 }
 
 TEST(CaseOverride, CreatesAKeyTheFileDoesNotHave) {

@@ -9,39 +9,39 @@
 
 #include "case_text.hpp"
 #include "physics/vessel_shape.hpp"
+#include "tests/round_off.hpp"
 
 namespace oxystrat::test {
 namespace {
 
 using testing::HasSubstr;
 
-// Values are parsed by one multiplication each: round-off tolerance (see unit_check.hpp).
-constexpr double kTol = 1e-12;
+// Values are parsed by one multiplication each: round-off tolerance (kRoundOff).
 
 TEST(CaseReader, BaseCaseInSi) {
   const auto loaded = load(CaseText());
   const Case& c = loaded.data;
   EXPECT_EQ(c.title, "test vessel");
-  EXPECT_NEAR(c.vessel.diameter_m, 1.0, kTol);
-  EXPECT_NEAR(c.vessel.liquid_height_m, 1.5, kTol);
+  EXPECT_NEAR(c.vessel.diameter_m, 1.0, kRoundOff);
+  EXPECT_NEAR(c.vessel.liquid_height_m, 1.5, kRoundOff);
   EXPECT_EQ(c.vessel.bottom, BottomShape::ellipsoidal);
   EXPECT_EQ(c.vessel.baffles, 4);
-  EXPECT_NEAR(c.vessel.baffle_width_m, 0.1, kTol);
-  EXPECT_NEAR(c.vessel.head_pressure_pa, 151325.0, kTol * 151325.0);
-  EXPECT_NEAR(c.vessel.temperature_k, 303.15, kTol * 303.15);
+  EXPECT_NEAR(c.vessel.baffle_width_m, 0.1, kRoundOff);
+  EXPECT_NEAR(c.vessel.head_pressure_pa, 151325.0, kRoundOff * 151325.0);
+  EXPECT_NEAR(c.vessel.temperature_k, 303.15, kRoundOff * 303.15);
   ASSERT_EQ(c.impellers.size(), 2u);
   EXPECT_EQ(c.impellers[0].type, ImpellerType::rushton);
   EXPECT_EQ(c.impellers[1].type, ImpellerType::pitched_blade_down);
-  EXPECT_NEAR(c.impellers[0].diameter_m, 0.35, kTol);
-  EXPECT_NEAR(c.impellers[1].elevation_m, 1.0, kTol);
+  EXPECT_NEAR(c.impellers[0].diameter_m, 0.35, kRoundOff);
+  EXPECT_NEAR(c.impellers[1].elevation_m, 1.0, kRoundOff);
   EXPECT_TRUE(c.has_sparger);
   EXPECT_EQ(c.sparger.type, SpargerType::ring);
-  EXPECT_NEAR(c.sparger.diameter_m, 0.28, kTol);
-  EXPECT_NEAR(c.operation.speed_rps, 2.5, kTol);
-  EXPECT_NEAR(c.broth.density_kg_m3, 1030.0, kTol * 1030.0);
-  EXPECT_NEAR(c.broth.viscosity_pa_s, 2e-3, kTol * 2e-3);
-  EXPECT_NEAR(c.culture.biomass_kg_m3, 20.0, kTol * 20.0);
-  EXPECT_NEAR(c.culture.q_o2_max_mol_kg_s, 4.0 / 3600.0, kTol * 4.0 / 3600.0);
+  EXPECT_NEAR(c.sparger.diameter_m, 0.28, kRoundOff);
+  EXPECT_NEAR(c.operation.speed_rps, 2.5, kRoundOff);
+  EXPECT_NEAR(c.broth.density_kg_m3, 1030.0, kRoundOff * 1030.0);
+  EXPECT_NEAR(c.broth.viscosity_pa_s, 2e-3, kRoundOff * 2e-3);
+  EXPECT_NEAR(c.culture.biomass_kg_m3, 20.0, kRoundOff * 20.0);
+  EXPECT_NEAR(c.culture.q_o2_max_mol_kg_s, 4.0 / 3600.0, kRoundOff * 4.0 / 3600.0);
   EXPECT_EQ(c.grid.radial, 6);
   EXPECT_EQ(c.grid.axial, 12);
   EXPECT_TRUE(loaded.notes.empty());
@@ -52,7 +52,7 @@ TEST(CaseReader, BaseCaseInSi) {
 TEST(CaseReader, WorkingVolumeIsTheVolumeBelowTheLiquidHeight) {
   const auto c = load(CaseText()).data;
   const VesselShape shape(1.0, BottomShape::ellipsoidal);
-  EXPECT_NEAR(c.vessel.working_volume_m3, shape.volume_below(1.5), kTol);
+  EXPECT_NEAR(c.vessel.working_volume_m3, shape.volume_below(1.5), kRoundOff);
 }
 
 TEST(CaseReader, WorkingVolumeGivesTheLiquidHeight) {
@@ -63,7 +63,7 @@ TEST(CaseReader, WorkingVolumeGivesTheLiquidHeight) {
   const auto volume_text = fmt::format("working_volume = \"{:.17g} L\"", v * 1e3);
   const auto c = load(CaseText().replace("liquid_height = \"1.5 m\"", volume_text)).data;
   // Above the head the height is linear in the volume: round-off only.
-  EXPECT_NEAR(c.vessel.liquid_height_m, h, kTol);
+  EXPECT_NEAR(c.vessel.liquid_height_m, h, kRoundOff);
 }
 
 TEST(CaseReader, ImpellerDefaultsByType) {
@@ -71,9 +71,9 @@ TEST(CaseReader, ImpellerDefaultsByType) {
   // Rushton 6 blades, band D/5; 45 degree pitched blade 4 blades, band D/5 sin 45 degrees.
   const auto c = load(CaseText()).data;
   EXPECT_EQ(c.impellers[0].blades, 6);
-  EXPECT_NEAR(c.impellers[0].blade_height_m, 0.2 * 0.35, kTol);
+  EXPECT_NEAR(c.impellers[0].blade_height_m, 0.2 * 0.35, kRoundOff);
   EXPECT_EQ(c.impellers[1].blades, 4);
-  EXPECT_NEAR(c.impellers[1].blade_height_m, 0.2 * 0.30 * std::numbers::sqrt2 / 2.0, kTol);
+  EXPECT_NEAR(c.impellers[1].blade_height_m, 0.2 * 0.30 * std::numbers::sqrt2 / 2.0, kRoundOff);
 }
 
 TEST(CaseReader, DefaultsWhenKeysAreAbsent) {
@@ -85,9 +85,9 @@ TEST(CaseReader, DefaultsWhenKeysAreAbsent) {
                           .remove_line("radial = 6")
                           .remove_line("axial = 12"))
                      .data;
-  EXPECT_NEAR(c.vessel.head_pressure_pa, 101325.0, kTol * 101325.0);
-  EXPECT_NEAR(c.vessel.temperature_k, 310.15, kTol * 310.15);
-  EXPECT_NEAR(c.vessel.baffle_width_m, 0.1 * c.vessel.diameter_m, kTol);  // T/10, common practice
+  EXPECT_NEAR(c.vessel.head_pressure_pa, 101325.0, kRoundOff * 101325.0);
+  EXPECT_NEAR(c.vessel.temperature_k, 310.15, kRoundOff * 310.15);
+  EXPECT_NEAR(c.vessel.baffle_width_m, 0.1 * c.vessel.diameter_m, kRoundOff);  // T/10, common practice
   EXPECT_EQ(c.grid.radial, 12);
   EXPECT_EQ(c.grid.axial, 40);
   EXPECT_EQ(c.output.sectors, 24);

@@ -5,6 +5,7 @@
 // defines as a macro (glibc: si_value -> _sifields._rt.si_sigval), so the header fails to
 // compile after <signal.h>. A bug in units.hpp, worked around here by the include order.
 #include "input/units.hpp"
+#include "tests/round_off.hpp"
 
 #include <gtest/gtest.h>
 
@@ -13,9 +14,7 @@
 
 namespace oxystrat::test {
 
-//! Round-off tolerance: a conversion is one multiplication (and at most one addition), so the
-//! result may differ from the exact value by a few ulps; 1e-12 relative leaves ample margin.
-inline constexpr double kRoundOff = 1e-12;
+// Round-off tolerance (kRoundOff): a conversion is one multiplication and at most one addition.
 
 inline void expect_si(units::Dimension dim, const std::string& text, double expected, double molar_mass = 0.0) {
   SCOPED_TRACE("parsing '" + text + "'");

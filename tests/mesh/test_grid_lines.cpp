@@ -1,5 +1,6 @@
 // Grid lines along one axis: through every required position, with cells shared out by length.
 #include "mesh/grid_lines.hpp"
+#include "tests/round_off.hpp"
 
 #include <gtest/gtest.h>
 
@@ -10,8 +11,7 @@
 namespace oxystrat::test {
 namespace {
 
-// Lines are sums and quotients of the inputs: round-off only.
-constexpr double kRoundOff = 1e-12;
+// Lines are sums and quotients of the inputs: round-off only (kRoundOff).
 
 bool contains_line(const std::vector<double>& lines, double x) {
   return std::any_of(lines.begin(), lines.end(), [&](double l) { return std::abs(l - x) <= kRoundOff; });

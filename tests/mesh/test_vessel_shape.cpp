@@ -10,14 +10,13 @@
 #include <vector>
 
 #include "mesh_cases.hpp"
+#include "tests/round_off.hpp"
 
 namespace oxystrat::test {
 namespace {
 
-constexpr double kPi = std::numbers::pi;
-// Closed-form expressions evaluated in double precision: round-off only. Sums over partitions
-// add a few hundred such terms, still far inside 1e-12 relative.
-constexpr double kRoundOff = 1e-12;
+// Closed-form expressions evaluated in double precision: round-off only (kRoundOff). Sums over
+// partitions add a few hundred such terms, still far inside it.
 
 TEST(VesselShape, HeadDepths) {
   EXPECT_EQ(VesselShape(2.0, BottomShape::flat).head_depth(), 0.0);
@@ -31,8 +30,8 @@ TEST(VesselShape, HeadVolumes) {
   for (const double t : {0.3, 1.0, 3.2}) {
     const VesselShape ell(t, BottomShape::ellipsoidal);
     const VesselShape hemi(t, BottomShape::hemispherical);
-    EXPECT_NEAR(ell.volume_below(ell.head_depth()), kPi * t * t * t / 24.0, kRoundOff * t * t * t);
-    EXPECT_NEAR(hemi.volume_below(hemi.head_depth()), kPi * t * t * t / 12.0, kRoundOff * t * t * t);
+    EXPECT_NEAR(ell.volume_below(ell.head_depth()), std::numbers::pi * t * t * t / 24.0, kRoundOff * t * t * t);
+    EXPECT_NEAR(hemi.volume_below(hemi.head_depth()), std::numbers::pi * t * t * t / 12.0, kRoundOff * t * t * t);
   }
 }
 
@@ -46,9 +45,9 @@ TEST(VesselShape, VolumeInsideTheHeadIsACap) {
   const double h = ell.head_depth();
   for (const double f : {0.05, 0.3, 0.5, 0.77, 0.99}) {
     const double zh = f * r;
-    EXPECT_NEAR(hemi.volume_below(zh), kPi * zh * zh * (3.0 * r - zh) / 3.0, kRoundOff * r * r * r);
+    EXPECT_NEAR(hemi.volume_below(zh), std::numbers::pi * zh * zh * (3.0 * r - zh) / 3.0, kRoundOff * r * r * r);
     const double ze = f * h;
-    EXPECT_NEAR(ell.volume_below(ze), (r / h) * (r / h) * kPi * ze * ze * (3.0 * h - ze) / 3.0, kRoundOff * r * r * r);
+    EXPECT_NEAR(ell.volume_below(ze), (r / h) * (r / h) * std::numbers::pi * ze * ze * (3.0 * h - ze) / 3.0, kRoundOff * r * r * r);
   }
 }
 
@@ -88,7 +87,7 @@ TEST(VesselShape, HeightForVolumeRoundTrip) {
 TEST(VesselShape, AnnulusOfAnUncutCellIsAnExactRing) {
   const VesselShape s(2.0, BottomShape::ellipsoidal);
   const double v = s.annulus_volume(0.3, 0.6, 1.0, 1.4);
-  EXPECT_NEAR(v, kPi * (0.36 - 0.09) * 0.4, kRoundOff);
+  EXPECT_NEAR(v, std::numbers::pi * (0.36 - 0.09) * 0.4, kRoundOff);
 }
 
 TEST(VesselShape, AnnulusBelowTheBottomIsDry) {

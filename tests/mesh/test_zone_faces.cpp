@@ -12,13 +12,12 @@
 #include <vector>
 
 #include "grids.hpp"
+#include "tests/round_off.hpp"
 
 namespace oxystrat::test {
 namespace {
 
-constexpr double kPi = std::numbers::pi;
-// Areas are closed-form products of grid coordinates: round-off only (areas are O(1) m2).
-constexpr double kRoundOff = 1e-12;
+// Areas are closed-form products of grid coordinates: round-off only (kRoundOff; areas are O(1) m2).
 
 class ZoneFaces : public testing::TestWithParam<BottomAndGrid> {
  protected:
@@ -69,7 +68,7 @@ TEST_P(ZoneFaces, AxialFacesCoverEachWettedCrossSection) {
       if (f.orientation == FaceOrientation::axial && std::abs(f.za - z) <= kRoundOff) sum += f.area;
     }
     const double w = net_.shape.wetted_radius(z);
-    EXPECT_NEAR(sum, kPi * w * w, kRoundOff * kPi) << "at z = " << z;
+    EXPECT_NEAR(sum, std::numbers::pi * w * w, kRoundOff * std::numbers::pi) << "at z = " << z;
   }
   if (net_.rows() == 1) {  // a single row has no axial faces at all
     for (const auto& f : net_.faces) EXPECT_EQ(f.orientation, FaceOrientation::radial);
@@ -84,7 +83,7 @@ TEST_P(ZoneFaces, RadialFacesCoverEachWettedCylinder) {
     for (const auto& f : net_.faces) {
       if (f.orientation == FaceOrientation::radial && std::abs(f.ra - r) <= kRoundOff) sum += f.area;
     }
-    const double exact = 2.0 * kPi * r * (3.2 - net_.shape.bottom_height(r));
+    const double exact = 2.0 * std::numbers::pi * r * (3.2 - net_.shape.bottom_height(r));
     EXPECT_NEAR(sum, exact, kRoundOff * exact) << "at r = " << r;
   }
   if (net_.columns() == 1) {  // a single column has no radial faces at all
@@ -105,11 +104,11 @@ TEST(ZoneFacesUncut, HaveTheFullArea) {
       ++checked;
       if (f.orientation == FaceOrientation::axial) {
         // A disc z = const between radii r0 and r1: pi (r1^2 - r0^2).
-        const double exact = kPi * (net.r1[a] * net.r1[a] - net.r0[a] * net.r0[a]);
+        const double exact = std::numbers::pi * (net.r1[a] * net.r1[a] - net.r0[a] * net.r0[a]);
         EXPECT_NEAR(f.area, exact, kRoundOff * exact);
       } else {
         // A cylinder r = r1 of the inner zone, over the cell height: 2 pi r1 (z1 - z0).
-        const double exact = 2.0 * kPi * net.r1[a] * (net.z1[a] - net.z0[a]);
+        const double exact = 2.0 * std::numbers::pi * net.r1[a] * (net.z1[a] - net.z0[a]);
         EXPECT_NEAR(f.area, exact, kRoundOff * exact);
       }
     }

@@ -11,7 +11,7 @@
 #include "mesh/zone_network.hpp"
 #include "solver/studies/reference_cases.hpp"
 
-namespace oxystrat::testing {
+namespace oxystrat::fixtures {
 
 //! A single impeller at H = T in a flat-bottomed 1 m vessel, no gas: the mixing-time reference.
 inline Case single_impeller(const std::string& type, double d_over_t, int radial, int axial, double speed_rpm = 120.0) {
@@ -38,4 +38,4 @@ inline Case tall_demo(int radial, int axial) {
       .data;
 }
 
-}  // namespace oxystrat::testing
+}  // namespace oxystrat::fixtures

@@ -16,7 +16,7 @@
 namespace oxystrat {
 namespace {
 
-using testing::Chain;
+using fixtures::Chain;
 
 // One Rushton at H = T = 1 m in air-water (the validation's holdup vessel).
 Case single_rushton(double speed_rpm, double vvm) { return reference_gassed_single_rushton(speed_rpm, vvm); }
@@ -24,7 +24,7 @@ Case single_rushton(double speed_rpm, double vvm) { return reference_gassed_sing
 TEST(GasRouting, EverythingSpargedLeavesThroughTheSurface) {
   // Inert gas: sparged = off-gas exactly (the transport's column sums vanish but at the surface),
   // to round-off of the sparse solve.
-  for (const auto& c : {testing::gassed_vessel(6, 16), single_rushton(300, 1.0)}) {
+  for (const auto& c : {fixtures::gassed_vessel(6, 16), single_rushton(300, 1.0)}) {
     const Chain ch(c);
     EXPECT_NEAR(surface_flow(ch.routing, ch.routing.unit_inventory), 1.0, 1e-10);
     for (double g : ch.routing.unit_inventory) EXPECT_GT(g, 0.0);  // dispersion reaches every zone
@@ -37,7 +37,7 @@ TEST(GasRouting, MultigridRoutingLeavesThroughTheSurfaceToItsTolerance) {
   // sum, at most sqrt(N) times its 2-norm: 1e-10 x sqrt(~100 zones) = 1e-9. From zero, from a
   // start it corrects (the answer 30 % high in every other zone) and from one already within the
   // tolerance (the answer): the tolerance is on the residual of the start from zero in each case.
-  const Case c = testing::gassed_vessel(6, 16);
+  const Case c = fixtures::gassed_vessel(6, 16);
   const auto net = build_zone_geometry(c);
   const auto hydro = compute_hydrodynamics(c, net);
   SolverOptions o;
@@ -78,7 +78,7 @@ TEST(GasRouting, MultigridRoutingHoldsNoNegativeGasBesideTheCaverns) {
   // of inert gas on a halved 1e5-zone grid), which turned the zones' gas composition inside out.
   // -G^-1 of an M-matrix is non-negative: so must every inventory be, and the off-gas still
   // equals the sparged gas to the solve's tolerance.
-  const Case c = read_case_file(testing::source_dir() + "/cases/viscous-broth-40m3.toml",
+  const Case c = read_case_file(fixtures::source_dir() + "/cases/viscous-broth-40m3.toml",
                                 {parse_override("grid.radial=25"), parse_override("grid.axial=250")})
                      .data;
   const auto net = build_zone_geometry(c);

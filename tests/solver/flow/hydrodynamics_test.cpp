@@ -15,7 +15,7 @@ namespace {
 
 TEST(ImpellerPower, TurbulentPowerIsNpRhoN3D5) {
   // P = Np rho N^3 D^5 (definition of the power number); Rushton Np = 5.0 (docs/method.md, section 3, [sec]).
-  Case c = testing::single_impeller("rushton", 0.5, 4, 8, 60.0);  // N = 1 rps, D = 0.5 m
+  Case c = fixtures::single_impeller("rushton", 0.5, 4, 8, 60.0);  // N = 1 rps, D = 0.5 m
   const auto net = build_zone_geometry(c);
   const auto h = compute_hydrodynamics(c, net);
   EXPECT_GT(h.impellers[0].reynolds, 1e4);  // turbulent: rho N D^2 / mu = 2.5e5
@@ -58,7 +58,7 @@ TEST(Flooding, NienowEtAl1985WorkedPoints) {
 }
 
 TEST(Flooding, LowSpeedFloodsTheLowestRushton) {
-  Case c = testing::gassed_vessel();
+  Case c = fixtures::gassed_vessel();
   c.operation.speed_rps = 0.5;  // 30 rpm at 0.8 vvm: far below the flooding speed
   const auto net = build_zone_geometry(c);
   const auto h = compute_hydrodynamics(c, net);
@@ -80,7 +80,7 @@ void expect_balanced(const Case& c) {
 
 TEST(LoopFlow, EveryBundledCaseBalancesExactly) {
   int cases = 0;
-  for (const auto& e : std::filesystem::directory_iterator(testing::source_dir() + "/cases")) {
+  for (const auto& e : std::filesystem::directory_iterator(fixtures::source_dir() + "/cases")) {
     if (e.path().extension() != ".toml") continue;
     expect_balanced(read_case_file(e.path().string()).data);
     ++cases;
@@ -108,7 +108,7 @@ TEST(LoopFlow, RandomImpellerStacksBalanceExactly) {
 }
 
 TEST(Dissipation, SumsToTheGassedPower) {
-  for (const auto& e : std::filesystem::directory_iterator(testing::source_dir() + "/cases")) {
+  for (const auto& e : std::filesystem::directory_iterator(fixtures::source_dir() + "/cases")) {
     if (e.path().extension() != ".toml") continue;
     const Case c = read_case_file(e.path().string()).data;
     for (int coarse : {0, 1}) {
@@ -124,7 +124,7 @@ TEST(Dissipation, SumsToTheGassedPower) {
 }
 
 TEST(Dissipation, DischargeZonesDissipateMostPerVolume) {
-  const Case c = testing::single_impeller("rushton", 1.0 / 3.0, 12, 24);
+  const Case c = fixtures::single_impeller("rushton", 1.0 / 3.0, 12, 24);
   const auto net = build_zone_geometry(c);
   const auto h = compute_hydrodynamics(c, net);
   const double mean = h.power_gassed_w / (c.broth.density_kg_m3 * net.total_volume());

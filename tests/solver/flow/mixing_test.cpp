@@ -69,7 +69,7 @@ TEST(TransportIntegrator, MultigridStepsAgreeWithTheLuSteps) {
   // The large-network path (GMRES with multigrid per step size, three sizes kept) on a network of
   // ~1200 zones, against the LU path: the same adaptive steps, each solve to 1e-10 relative, so
   // the fields agree far inside the step's own error control (1e-3); 1e-7 of the final level.
-  const Case c = testing::gassed_vessel(20, 60);
+  const Case c = fixtures::gassed_vessel(20, 60);
   const auto net = build_zone_geometry(c);
   const auto h = compute_hydrodynamics(c, net);
   const Eigen::Map<const Eigen::VectorXd> volume(net.volume.data(), net.size());
@@ -113,7 +113,7 @@ TEST_P(SingleImpellerMixing, WithinTwentyFivePercentOfTheCorrelation) {
   // The exchange constant was calibrated once on the three Rushton points (docs/method.md, section 6);
   // the pitched-blade point is validation. +-25 %: the correlation's own scatter is about +-20 %.
   const auto p = GetParam();
-  const Case c = testing::single_impeller(p.type, p.d_over_t, 27, 54);
+  const Case c = fixtures::single_impeller(p.type, p.d_over_t, 27, 54);
   const double model = theta95(c);
   const double ref = correlation_theta95(p.np, p.d_over_t, c.operation.speed_rps);
   EXPECT_NEAR(model / ref, 1.0, 0.25) << p.type << " D/T = " << p.d_over_t << ": " << model << " s vs " << ref << " s";
@@ -126,16 +126,16 @@ INSTANTIATE_TEST_SUITE_P(GrenvilleNienow, SingleImpellerMixing,
 
 TEST(Mixing, ThetaScalesAsOneOverSpeed) {
   // Turbulent: flows scale with N and D_t with eps^(1/3) ~ N, so theta N is constant.
-  const double t1 = theta95(testing::single_impeller("rushton", 1.0 / 3.0, 12, 24, 120.0));
-  const double t2 = theta95(testing::single_impeller("rushton", 1.0 / 3.0, 12, 24, 240.0));
+  const double t1 = theta95(fixtures::single_impeller("rushton", 1.0 / 3.0, 12, 24, 120.0));
+  const double t2 = theta95(fixtures::single_impeller("rushton", 1.0 / 3.0, 12, 24, 240.0));
   EXPECT_NEAR(t1 / t2, 2.0, 0.02);  // integrator tolerance (1e-3) on the band crossing
 }
 
 TEST(Mixing, StackedRushtonsMixSlowerThanAxialUpperImpellersAtEqualPower) {
   // Vrabel et al. (2000), Chem. Eng. Sci. 55:5881: in tall vessels, up-pumping axial upper impellers
   // mix markedly faster than a stack of radial turbines at equal power (qualitative finding).
-  const Case radial = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml").data;
-  Case axial = read_case_file(testing::source_dir() + "/cases/tall-rushton-hydrofoils.toml").data;
+  const Case radial = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml").data;
+  Case axial = read_case_file(fixtures::source_dir() + "/cases/tall-rushton-hydrofoils.toml").data;
   const auto power = [](const Case& c) {
     const auto net = build_zone_geometry(c);
     return compute_hydrodynamics(c, net).power_gassed_w;
@@ -154,9 +154,9 @@ TEST(Mixing, StackedRushtonsMixSlowerThanAxialUpperImpellersAtEqualPower) {
 TEST(Mixing, GridConvergenceOfTheta95) {
   // Three grids with refinement ratio 1.5: the change from medium to fine stays below 10 %, and
   // the observed order (Richardson) is positive, i.e. the sequence converges.
-  const double coarse = theta95(testing::single_impeller("rushton", 1.0 / 3.0, 12, 24));
-  const double medium = theta95(testing::single_impeller("rushton", 1.0 / 3.0, 18, 36));
-  const double fine = theta95(testing::single_impeller("rushton", 1.0 / 3.0, 27, 54));
+  const double coarse = theta95(fixtures::single_impeller("rushton", 1.0 / 3.0, 12, 24));
+  const double medium = theta95(fixtures::single_impeller("rushton", 1.0 / 3.0, 18, 36));
+  const double fine = theta95(fixtures::single_impeller("rushton", 1.0 / 3.0, 27, 54));
   EXPECT_LT(std::abs(fine - medium) / fine, 0.10);
   const double order = std::log(std::abs(medium - coarse) / std::abs(fine - medium)) / std::log(1.5);
   RecordProperty("observed_order", std::to_string(order));
@@ -164,7 +164,7 @@ TEST(Mixing, GridConvergenceOfTheta95) {
 }
 
 TEST(Mixing, ProbeThetaIsNotLongerThanWholeVessel) {
-  const Case c = testing::single_impeller("rushton", 1.0 / 3.0, 12, 24);
+  const Case c = fixtures::single_impeller("rushton", 1.0 / 3.0, 12, 24);
   const auto net = build_zone_geometry(c);
   const auto h = compute_hydrodynamics(c, net);
   const auto m = tracer_mixing_time(net, h, {});
@@ -174,7 +174,7 @@ TEST(Mixing, ProbeThetaIsNotLongerThanWholeVessel) {
 }
 
 TEST(Mixing, LargeGridsTakeTheirThetaFromTheGridHalvedUntilItFits) {
-  const Case c = testing::single_impeller("rushton", 1.0 / 3.0, 24, 48);  // 1152 grid cells
+  const Case c = fixtures::single_impeller("rushton", 1.0 / 3.0, 24, 48);  // 1152 grid cells
   const auto net = build_zone_geometry(c);
   const auto h = compute_hydrodynamics(c, net);
   // Within the limit: the case's own network.
@@ -185,7 +185,7 @@ TEST(Mixing, LargeGridsTakeTheirThetaFromTheGridHalvedUntilItFits) {
   // 1152 -> 288 -> 72 cells for a limit of 100: halved twice, the 6 x 12 grid's own theta95.
   const auto capped = case_mixing_time(c, net, h, 100);
   EXPECT_EQ(capped.halvings, 2);
-  const Case small = testing::single_impeller("rushton", 1.0 / 3.0, 6, 12);
+  const Case small = fixtures::single_impeller("rushton", 1.0 / 3.0, 6, 12);
   const auto small_net = build_zone_geometry(small);
   EXPECT_EQ(capped.zones, small_net.size());
   EXPECT_EQ(capped.theta_s, tracer_mixing_time(small_net, compute_hydrodynamics(small, small_net), {}).theta_s);

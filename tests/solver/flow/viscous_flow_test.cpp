@@ -17,7 +17,7 @@ namespace {
 CaseRun tall_demo(const std::vector<std::string>& sets) {
   std::vector<Override> o;
   for (const auto& s : sets) o.push_back(parse_override(s));
-  return run_case(read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml", o).data, {false, false});
+  return run_case(read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml", o).data, {false, false});
 }
 
 TEST(ViscousFlow, KlaAndDoFallAndMixingSlowsAsTheBrothThickens) {
@@ -39,7 +39,7 @@ TEST(ViscousFlow, BrothOutsideTheCavernsStandsStill) {
   const std::vector<std::string> sets{"broth.rheology=herschel-bulkley", "broth.yield_stress=100 Pa",
                                       "broth.consistency=5 Pa s^n", "broth.flow_index=0.3"};
   const auto run = tall_demo(sets);
-  const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml").data;
+  const Case c = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml").data;
   const auto& h = run.hydro;
   EXPECT_GT(h.stagnant_volume_fraction, 0.05);
   const auto in_a_cavern = [&](int k) {
@@ -71,7 +71,7 @@ TEST(ViscousFlow, CavernMixingTimeHoldsUnderGridRefinement) {
   // to 5e4 zones; here the cavern boundary, a step in the exchange, moves with the grid).
   double theta[2] = {0.0, 0.0};
   for (int i = 0; i < 2; ++i) {
-    const Case c = read_case_file(testing::source_dir() + "/cases/viscous-broth-40m3.toml",
+    const Case c = read_case_file(fixtures::source_dir() + "/cases/viscous-broth-40m3.toml",
                                   {parse_override(fmt::format("grid.radial={}", 10 * (i + 1))),
                                    parse_override(fmt::format("grid.axial={}", 40 * (i + 1)))})
                        .data;

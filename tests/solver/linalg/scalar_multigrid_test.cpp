@@ -16,13 +16,13 @@
 namespace oxystrat {
 namespace {
 
-using testing::Chain;
+using fixtures::Chain;
 
 // L - diag(T) of the reference vessel's ungassed flow at this grid: a liquid block of the
 // balances, with a transfer diagonal small enough (1e-2 1/s x volume at most 2e-2) that transport
 // dominates. (Ungassed, so that the matrices do not follow the gas model.)
 SparseMatrix liquid_block(int radial, int axial) {
-  Case c = testing::gassed_vessel(radial, axial);
+  Case c = fixtures::gassed_vessel(radial, axial);
   c.operation.gas_flow_normal_m3_s = 0.0;
   const Chain ch(c);
   SparseMatrix a = transport_matrix(ch.net, ch.hydro.face_flow, ch.hydro.face_exchange);
@@ -123,7 +123,7 @@ TEST(ScalarMultigrid, RefusesABlockThatIsNotOfMMatrixSign) {
 TEST(ScalarMultigrid, AsPreconditionerGivesTheFieldOfTheExactScalarLu) {
   // The tall demo (476 zones) with the multigrid forced on and coarsened to a few dozen rows,
   // so that every level is exercised; against the exact-LU preconditioner of the default.
-  const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml").data;
+  const Case c = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml").data;
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   const auto exact = solve_oxygen_field(ctx);
@@ -145,7 +145,7 @@ TEST(ScalarMultigrid, AsPreconditionerGivesTheFieldOfTheExactScalarLu) {
 TEST(ScalarMultigrid, OneAndTwoThreadsGiveBitIdenticalFields) {
   // The two species' cycles run on two threads; each is sequential, so the field must not
   // depend on the thread count in any bit.
-  const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml").data;
+  const Case c = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml").data;
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   const int saved = omp_get_max_threads();

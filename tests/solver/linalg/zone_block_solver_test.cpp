@@ -18,7 +18,7 @@
 namespace oxystrat {
 namespace {
 
-using testing::Chain;
+using fixtures::Chain;
 
 double max_abs(const std::vector<double>& v) {
   double m = 0.0;
@@ -102,7 +102,7 @@ class CrossCoupled : public SteadyProblem {
 
 TEST(ScalarLu, SolvesATransportMatrixWithTransferDiagonalInBothModes) {
   // L - diag(T): the liquid block of the balances (column diagonally dominant).
-  const Chain ch(testing::gassed_vessel(7, 18));
+  const Chain ch(fixtures::gassed_vessel(7, 18));
   SparseMatrix a = transport_matrix(ch.net, ch.hydro.face_flow, ch.hydro.face_exchange);
   for (int k = 0; k < a.rows(); ++k) a.coeffRef(k, k) -= 1e-3 * ch.net.volume[k] * (1.0 + std::sin(k));
   a.makeCompressed();
@@ -137,7 +137,7 @@ TEST(ScalarLu, SolvesATransportMatrixWithTransferDiagonalInBothModes) {
 TEST(ScalarLu, PairedRefactorisationAndSolveAreBitIdenticalToSingleOnes) {
   // Two blocks on one pattern (as the O2 and CO2 blocks are): refactor_both and solve_both
   // interleave the two eliminations, which must not change a single bit of either.
-  const Chain ch(testing::gassed_vessel(7, 18));
+  const Chain ch(fixtures::gassed_vessel(7, 18));
   SparseMatrix a = transport_matrix(ch.net, ch.hydro.face_flow, ch.hydro.face_exchange);
   for (int k = 0; k < a.rows(); ++k) a.coeffRef(k, k) -= 1e-3 * ch.net.volume[k] * (1.0 + std::sin(k));
   a.makeCompressed();
@@ -176,7 +176,7 @@ TEST(ScalarLu, PairedRefactorisationAndSolveAreBitIdenticalToSingleOnes) {
 
 TEST(ZoneBlockSolver, StructuredNewtonGivesTheFieldOfTheGeneralLu) {
   // A tall case with strong gas depletion and a starved region, and a small gassed vessel.
-  for (const Case& c : {testing::gassed_vessel(6, 16), read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml").data}) {
+  for (const Case& c : {fixtures::gassed_vessel(6, 16), read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml").data}) {
     const Chain ch(c);
     const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
     NewtonOptions lu;
@@ -220,7 +220,7 @@ Eigen::VectorXd both_phases_rhs(int size) {
 }
 
 TEST(ZoneBlockSolver, LinearSolveMeetsItsResidualOnTheAssembledJacobian) {
-  const Balances bal(testing::gassed_vessel(5, 12));
+  const Balances bal(fixtures::gassed_vessel(5, 12));
   const auto p = bal.problem();
   const Eigen::VectorXd x = moved_off(bal.f.state);
   std::vector<Eigen::Triplet<double>> t;
@@ -249,7 +249,7 @@ TEST(ZoneBlockSolver, LinearSolveMeetsItsResidualOnTheAssembledJacobian) {
 }
 
 TEST(ZoneBlockSolver, JacobianByPartsIsTheListedJacobian) {
-  const Balances bal(testing::gassed_vessel(5, 12));
+  const Balances bal(fixtures::gassed_vessel(5, 12));
   const auto p = bal.problem();
   const Eigen::VectorXd x = moved_off(bal.f.state);
   std::vector<Eigen::Triplet<double>> t;
@@ -278,7 +278,7 @@ TEST(ZoneBlockSolver, JacobianByPartsIsTheListedJacobian) {
 }
 
 TEST(ZoneBlockSolver, PartsWithoutAStoredDiagonalAreRefused) {
-  const Balances bal(testing::gassed_vessel(4, 10));
+  const Balances bal(fixtures::gassed_vessel(4, 10));
   const auto p = bal.problem();
   ZoneTransports transports;
   ZoneBlockSolver s;
@@ -295,7 +295,7 @@ TEST(ZoneBlockSolver, PartsWithoutAStoredDiagonalAreRefused) {
 }
 
 TEST(ZoneBlockSolver, JacobianByZonesIsTheWholeJacobianInPieces) {
-  const Balances bal(testing::gassed_vessel(5, 12));
+  const Balances bal(fixtures::gassed_vessel(5, 12));
   const auto p = bal.problem();
   const int n = bal.ch.net.size();
   std::vector<Eigen::Triplet<double>> whole;
@@ -313,7 +313,7 @@ TEST(ZoneBlockSolver, JacobianByZonesIsTheWholeJacobianInPieces) {
 }
 
 TEST(ZoneBlockSolver, JacobianTakenInPiecesSolvesAsTakenWholeAndAChangedPatternIsRefused) {
-  const Balances bal(testing::gassed_vessel(5, 12));
+  const Balances bal(fixtures::gassed_vessel(5, 12));
   const auto p = bal.problem();
   const int n = bal.ch.net.size();
   const ZoneLayout layout = p.zone_layout();
@@ -360,7 +360,7 @@ TEST(ZoneBlockSolver, JacobianTakenInPiecesSolvesAsTakenWholeAndAChangedPatternI
 }
 
 TEST(ZoneBlockSolver, FirstIntakeFromPiecesEqualsTheWholeListAndRemembersItsSlots) {
-  const Balances bal(testing::gassed_vessel(5, 12));
+  const Balances bal(fixtures::gassed_vessel(5, 12));
   const auto p = bal.problem();
   const int n = bal.ch.net.size();
   const ZoneLayout layout = p.zone_layout();
@@ -411,7 +411,7 @@ TEST(ZoneBlockSolver, FirstIntakeFromPiecesEqualsTheWholeListAndRemembersItsSlot
 
 TEST(ZoneBlockSolver, ThreadedKrylovSweepsGiveTheSameBitsForAnyThreadCount) {
   // 3000 zones: 6000 liquid unknowns, two chunks of the orthogonalisation's sweeps.
-  const Balances bal(testing::gassed_vessel(30, 100));
+  const Balances bal(fixtures::gassed_vessel(30, 100));
   const auto p = bal.problem();
   std::vector<Eigen::Triplet<double>> t;
   p.jacobian(bal.f.state, t);
@@ -437,7 +437,7 @@ TEST(ZoneBlockSolver, ThreadedKrylovSweepsGiveTheSameBitsForAnyThreadCount) {
 }
 
 TEST(ZoneBlockSolver, RefusesSpeciesCoupledAcrossZonesAndNewtonFallsBackToTheLu) {
-  const Balances bal(testing::gassed_vessel(4, 10));
+  const Balances bal(fixtures::gassed_vessel(4, 10));
   const auto p = bal.problem();
   const CrossCoupled wrong(p);
   std::vector<Eigen::Triplet<double>> t, t_wrong;
@@ -463,7 +463,7 @@ TEST(ZoneBlockSolver, RefusesSpeciesCoupledAcrossZonesAndNewtonFallsBackToTheLu)
 TEST(SteadyNewton, ImbalanceCoversTheVesselsO2Balances) {
   // Verification: the sums of the residual rows are the vessel's balances, computed here from
   // their terms (fed, off-gas, transferred, taken up) at a state off the solution.
-  const Balances bal(testing::gassed_vessel(6, 16));
+  const Balances bal(fixtures::gassed_vessel(6, 16));
   const auto p = bal.problem();
   const Eigen::VectorXd x = moved_off(bal.f.state);
   Eigen::VectorXd r(p.size());
@@ -492,7 +492,7 @@ TEST(SteadyNewton, ImbalanceCoversTheVesselsO2Balances) {
 TEST(SteadyNewton, StopsOnlyWhenTheBalancesCloseToo) {
   // A loose max-norm test alone stops with the vessel's balances open (every zone's residual
   // within it, their sum not); with the balance test Newton goes on until they close.
-  const Balances bal(testing::gassed_vessel(6, 16));
+  const Balances bal(fixtures::gassed_vessel(6, 16));
   const auto p = bal.problem();
   NewtonOptions loose;
   loose.tolerance = 1e-4;
@@ -514,7 +514,7 @@ TEST(SteadyNewton, StopsOnlyWhenTheBalancesCloseToo) {
 }
 
 TEST(ZoneBlockSolver, NoGeneralLuFallbackAboveItsSize) {
-  const Balances bal(testing::gassed_vessel(4, 10));
+  const Balances bal(fixtures::gassed_vessel(4, 10));
   const auto p = bal.problem();
   const CrossCoupled wrong(p);
   Eigen::VectorXd x = bal.f.state;
@@ -528,7 +528,7 @@ TEST(ZoneBlockSolver, NoGeneralLuFallbackAboveItsSize) {
 }
 
 TEST(ZoneBlockSolver, ImplicitEulerFormSolvesLikeTheGeneralLu) {
-  const Balances bal(testing::gassed_vessel(5, 12));
+  const Balances bal(fixtures::gassed_vessel(5, 12));
   const auto p = bal.problem();
   Eigen::VectorXd old = bal.f.state;
   for (int i = 0; i < old.size(); i += 4) old[i] *= 0.3;  // a DO drop to recover from

@@ -16,12 +16,12 @@
 namespace oxystrat {
 namespace {
 
-using testing::Chain;
+using fixtures::Chain;
 
 // The tall demo at 40 x 200 (about 7700 zones) with its converged field; the halved grid
 // (20 x 100) solved as the nested start solves it.
 struct Converged {
-  Case c = testing::tall_demo(40, 200);
+  Case c = fixtures::tall_demo(40, 200);
   Chain ch{c};
   OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   OxygenField field = solve_oxygen_field(ctx);
@@ -98,7 +98,7 @@ TEST(CoarseCorrection, RemovesMostOfASmoothError) {
 TEST(CoarseCorrection, SteadySolveGivesTheSameFieldWithFewerFineIterations) {
   // The tall demo at 60 x 300 (about 17 500 zones): nested once (30 x 150) and corrected on that
   // grid between the outer passes, or not.
-  const Case c = testing::tall_demo(60, 300);
+  const Case c = fixtures::tall_demo(60, 300);
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   NewtonOptions without;

@@ -37,7 +37,7 @@ TEST(CultureGrowth, DerivedOxygenYieldGivesTheCasesUptakeAtSaturatingSubstrate) 
 TEST(CultureGrowth, SteadySubstrateOfOneZoneIsTheMonodInverse) {
   // One zone: feed = V X q_S(S) with q_S = (mu_max f_O / Y + m_S) S/(K_S + S), so
   // S = K_S r / (1 - r) with r = feed / (V X (mu_max f_O / Y + m_S)); exact algebra.
-  const auto loaded = read_case_file(testing::source_dir() + "/cases/pilot-300L.toml",
+  const auto loaded = read_case_file(fixtures::source_dir() + "/cases/pilot-300L.toml",
                                      {parse_override("grid.radial=1"), parse_override("grid.axial=1")});
   const auto run = run_case(loaded.data, {false, false});
   const GrowthKinetics g(yeast_like());
@@ -51,7 +51,7 @@ TEST(CultureGrowth, SteadySubstrateOfOneZoneIsTheMonodInverse) {
 }
 
 TEST(CultureGrowth, SteadySubstrateFieldTakesUpWhatIsFedAndPeaksAtTheFeed) {
-  const auto loaded = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml",
+  const auto loaded = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml",
                                      {parse_override("grid.radial=5"), parse_override("grid.axial=16")});
   const auto run = run_case(loaded.data, {false, false});
   const GrowthKinetics g(yeast_like());

@@ -19,7 +19,7 @@ constexpr double kR = 8.314462618;  // J/(mol K), CODATA 2018
 constexpr double kG = 9.80665;
 
 TEST(HeatBalance, ClosesTermByTerm) {
-  const Case c = testing::gassed_vessel(4, 10);
+  const Case c = fixtures::gassed_vessel(4, 10);
   const auto run = run_case(c, {false, false});
   ASSERT_TRUE(run.field);
   const auto& q = run.limits.heat;
@@ -48,7 +48,7 @@ TEST(HeatBalance, ClosesTermByTerm) {
 // The gassed vessel with a jacket whose coolant is only a few kelvin below the broth: cooling, not
 // oxygen, sets the largest biomass.
 Case cooling_limited() {
-  Case c = testing::gassed_vessel(4, 10);
+  Case c = fixtures::gassed_vessel(4, 10);
   c.cooling.given = true;
   c.cooling.jacket_area_m2 = 4.0;
   c.cooling.jacket_u_w_m2_k = 350.0;
@@ -85,7 +85,7 @@ TEST(Cautions, ChurningGasIsAPlumeOrTheVesselsGasFlow) {
   // at 1 vvm: ~96 %, the whole vessel's gas flow; the caution says so, with the dispersion's gas
   // fraction beside the holdup per liquid volume (which passes 100 % there: 95 %, i.e. 49 %).
   const auto churning = [](const std::string& file, const std::vector<Override>& o) {
-    const Case c = read_case_file(testing::source_dir() + "/cases/" + file, o).data;
+    const Case c = read_case_file(fixtures::source_dir() + "/cases/" + file, o).data;
     const auto run = run_case(c, {false, false});
     for (const auto& w : run.cautions) {
       if (w.find("model range: gas holdup") != std::string::npos) return w;
@@ -100,7 +100,7 @@ TEST(Cautions, ChurningGasIsAPlumeOrTheVesselsGasFlow) {
 }
 
 TEST(Shear, KolmogorovLengthAndStressPerZone) {
-  const Case c = testing::gassed_vessel(4, 10);
+  const Case c = fixtures::gassed_vessel(4, 10);
   const auto run = run_case(c, {false, false});
   const auto& s = run.limits.shear;
   ASSERT_EQ(s.kolmogorov_m.size(), run.hydro.epsilon.size());
@@ -134,7 +134,7 @@ TEST(Shear, KolmogorovLengthAndStressPerZone) {
 TEST(Shear, ShearThinningBrothUsesTheApparentViscosityOfEachZone) {
   // A power-law broth (K = 0.5 Pa s^n, n = 0.5, invented): each zone's eddies follow its own
   // apparent viscosity, which the hydrodynamics derives from its dissipation; round-off only.
-  Case c = testing::gassed_vessel(4, 10);
+  Case c = fixtures::gassed_vessel(4, 10);
   c.broth.rheology.kind = RheologyKind::power_law;
   c.broth.rheology.consistency = 0.5;
   c.broth.rheology.flow_index = 0.5;
@@ -152,7 +152,7 @@ TEST(Shear, ShearThinningBrothUsesTheApparentViscosityOfEachZone) {
 }
 
 TEST(OperatingCost, CompressorPowerAgainstTheIsothermalFormula) {
-  Case c = testing::gassed_vessel(4, 10);
+  Case c = fixtures::gassed_vessel(4, 10);
   const auto run = run_case(c, {false, false});
   const auto& k = run.limits.cost;
   // Air from 1 atm at 20 degC to the sparger's hydrostatic pressure plus the default 0.3 bar of
@@ -169,7 +169,7 @@ TEST(OperatingCost, CompressorPowerAgainstTheIsothermalFormula) {
 }
 
 TEST(OperatingCost, EnrichedGasBuysTheOxygenAboveAir) {
-  Case c = testing::gassed_vessel(4, 10);
+  Case c = fixtures::gassed_vessel(4, 10);
   c.operation.oxygen_fraction = 0.40;
   c.prices.given = true;
   c.prices.currency = "EUR";

@@ -14,7 +14,7 @@
 namespace oxystrat {
 namespace {
 
-using testing::Chain;
+using fixtures::Chain;
 
 // Newton options with the nested start from `zones` zones on.
 NewtonOptions nesting_from(int zones) {
@@ -25,8 +25,8 @@ NewtonOptions nesting_from(int zones) {
 
 TEST(NestedStart, BilinearStencilsReproduceALinearField) {
   // Ellipsoidal bottom head: cut cells there take the containing coarse zone instead.
-  const ZoneNetwork coarse = build_zone_geometry(testing::gassed_vessel(12, 40));
-  const ZoneNetwork fine = build_zone_geometry(testing::gassed_vessel(24, 80));
+  const ZoneNetwork coarse = build_zone_geometry(fixtures::gassed_vessel(12, 40));
+  const ZoneNetwork fine = build_zone_geometry(fixtures::gassed_vessel(24, 80));
   const auto linear = [](double r, double z) { return 2.0 + 3.0 * r - 0.5 * z; };
   std::vector<double> values(coarse.size());
   for (int k = 0; k < coarse.size(); ++k) values[k] = linear(coarse.r[k], coarse.z[k]);
@@ -59,7 +59,7 @@ TEST(NestedStart, SeededSolveGivesTheFieldOfTheDirectSolve) {
   // The tall demo at about 4500 zones with the threshold lowered to 2000: one coarse level
   // (15 x 75, about 1100 zones, solved to the loose seed tolerance), then the fine solve from
   // its interpolation to the full Newton tolerance.
-  const Case c = testing::tall_demo(30, 150);
+  const Case c = fixtures::tall_demo(30, 150);
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   ASSERT_GT(ch.net.size(), 4000);
@@ -99,7 +99,7 @@ TEST(NestedStart, LevelsRoutedBesideTheSolvesBelowGiveTheDirectFieldEveryTime) {
   // thread while the levels below it are solved, the first coarse level's from the fine routing
   // restricted. The field is the direct solve's (tolerance as in SeededSolveGivesTheFieldOfTheDirectSolve)
   // and the same bits on a second run, whichever thread finishes first.
-  const Case c = testing::tall_demo(30, 150);
+  const Case c = fixtures::tall_demo(30, 150);
   SolverOptions multigrid;
   multigrid.multigrid_from_zones = 1;
   multigrid.multigrid_coarsest_size = 20;
@@ -127,7 +127,7 @@ TEST(NestedStart, LevelsRoutedBesideTheSolvesBelowGiveTheDirectFieldEveryTime) {
 }
 
 TEST(NestedStart, OneAndTwoThreadsGiveBitIdenticalFields) {
-  const Case c = testing::tall_demo(20, 100);
+  const Case c = fixtures::tall_demo(20, 100);
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   const int saved = omp_get_max_threads();

@@ -14,7 +14,7 @@
 namespace oxystrat {
 namespace {
 
-using testing::Chain;
+using fixtures::Chain;
 
 OxygenField solve(const Case& c) {
   const Chain ch(c);
@@ -24,7 +24,7 @@ OxygenField solve(const Case& c) {
 TEST(OxygenField, SingleZoneReproducesTheTextbookBalance) {
   // One zone: kLa (C* - C) = OUR exactly, with C* at the zone's gas. Monod and zero-order (K -> 0).
   for (double k_o2 : {0.003, 0.0}) {
-    Case c = testing::gassed_vessel(1, 1);
+    Case c = fixtures::gassed_vessel(1, 1);
     c.culture.k_o2_mol_m3 = k_o2;
     c.culture.biomass_kg_m3 = 5.0;  // keeps C > 0 so the zero-order rate is defined
     const auto f = solve(c);
@@ -41,7 +41,7 @@ TEST(OxygenField, SingleZoneReproducesTheTextbookBalance) {
 TEST(OxygenField, OxygenBalanceIsExact) {
   // Gas in - gas out = sum OTR V = sum OUR V at steady state, to 1e-9 relative (Newton converged to 1e-12).
   for (const auto& grid : {std::pair{1, 1}, std::pair{6, 16}, std::pair{12, 40}}) {
-    const auto f = solve(testing::gassed_vessel(grid.first, grid.second));
+    const auto f = solve(fixtures::gassed_vessel(grid.first, grid.second));
     EXPECT_LT(std::abs(f.o2_balance_error), 1e-9);
     EXPECT_NEAR(f.otr_total_mol_s / f.our_total_mol_s, 1.0, 1e-9);
     EXPECT_NEAR((f.o2_in_mol_s - f.o2_out_mol_s) / f.otr_total_mol_s, 1.0, 1e-9);
@@ -49,7 +49,7 @@ TEST(OxygenField, OxygenBalanceIsExact) {
 }
 
 TEST(OxygenField, AnalyticJacobianMatchesFiniteDifferences) {
-  const Case c = testing::gassed_vessel(3, 6);
+  const Case c = fixtures::gassed_vessel(3, 6);
   const Chain ch(c);
   const auto f = solve_oxygen_field({c, ch.net, ch.hydro, ch.routing});
   const int n = ch.net.size();
@@ -116,7 +116,7 @@ TEST(OxygenField, PureOxygenWhoseGasDissolvesCompletelyInPlacesConverges) {
   // bubbles dissolve completely; at a fixed kLa such a zone had no steady state (its gas stays
   // pure O2 as it vanishes) and Newton stalled at a scaled residual of 2.6e-9. The O2 balance
   // closes to the solver's 1e-9 and every gas amount is positive.
-  Case c = read_case_file(testing::source_dir() + "/cases/viscous-broth-40m3.toml").data;
+  Case c = read_case_file(fixtures::source_dir() + "/cases/viscous-broth-40m3.toml").data;
   c.operation.oxygen_fraction = 1.0;
   c.operation.co2_fraction = 0.0;
   const Chain ch(c);
@@ -129,7 +129,7 @@ TEST(OxygenField, PureOxygenWhoseGasDissolvesCompletelyInPlacesConverges) {
 TEST(OxygenProblem, AStepKeepsEveryGasAmountPositive) {
   // Gas O2 and CO2 may fall at most tenfold per Newton step; a step inside that range, and any step
   // of the liquid (continued linearly below zero), is left as it is. Exact: the bound is a max().
-  const Case c = testing::gassed_vessel(3, 6);
+  const Case c = fixtures::gassed_vessel(3, 6);
   const Chain ch(c);
   const auto f = solve_oxygen_field({c, ch.net, ch.hydro, ch.routing});
   const SparseMatrix l = transport_matrix(ch.net, ch.hydro.face_flow, ch.hydro.face_exchange);
@@ -157,7 +157,7 @@ TEST(OxygenField, ZonesTheGasDoesNotReachTransferNothing) {
   // The viscous demo: the drift-flux transport leaves traces of 1e-12 .. 1e-30 of the volume as
   // gas in the stagnant broth beside its caverns. Such a zone is gas-free (kLa 0), every other zone
   // transfers, and the O2 balance still closes (1e-9 of the O2 fed, the solver's own test).
-  const Case c = read_case_file(testing::source_dir() + "/cases/viscous-broth-40m3.toml").data;
+  const Case c = read_case_file(fixtures::source_dir() + "/cases/viscous-broth-40m3.toml").data;
   const Chain ch(c);
   const auto f = solve_oxygen_field({c, ch.net, ch.hydro, ch.routing});
   int gas_free = 0;
@@ -178,7 +178,7 @@ TEST(OxygenField, AZoneTheSpargedGasDoesNotReachTransfersNothingWhateverGasItHol
   // leave less than gas_free_holdup there, whatever O2 and CO2 the state puts in it (without
   // inert gas to hold its composition, that O2 and CO2 would dissolve away at a fixed kLa; Newton
   // chased them towards 0/0 tenfold per step on the viscous demo's 1e5-zone grid).
-  const Case c = testing::gassed_vessel(6, 16);
+  const Case c = fixtures::gassed_vessel(6, 16);
   const Chain ch(c);
   GasRouting routing = ch.routing;
   const int zone = ch.net.size() / 2;
@@ -198,7 +198,7 @@ TEST(OxygenField, ViscousDemoSolvesOnAFineGrid) {
   // The fault the two rules above mend: on 2.9e4 zones a Newton step took a trace-gas zone's gas
   // O2 below zero, the preconditioner broke down and the solve failed. Now it converges, with the
   // O2 balance closed to the solver's 1e-9 and no zone's gas negative.
-  const Case c = read_case_file(testing::source_dir() + "/cases/viscous-broth-40m3.toml",
+  const Case c = read_case_file(fixtures::source_dir() + "/cases/viscous-broth-40m3.toml",
                                 {parse_override("grid.radial=50"), parse_override("grid.axial=600")})
                      .data;
   const Chain ch(c);
@@ -212,7 +212,7 @@ TEST(OxygenField, GridConvergenceOfMinimumDoAndStarvedVolume) {
   // Refining by 1.5 three times: the upwind scheme is first order and the grid lines move with the
   // refinement, so successive changes are not monotone level by level (measured 3, 4, 4 and 2 x
   // 1e-4 mol/m3 from 6 x 16 to 32 x 81); over the sequence the change shrinks, and it is small.
-  const auto at = [](int r, int a) { return solve(testing::gassed_vessel(r, a)); };
+  const auto at = [](int r, int a) { return solve(fixtures::gassed_vessel(r, a)); };
   const auto l1 = at(9, 24), l2 = at(14, 36), l3 = at(21, 54), l4 = at(32, 81);
   EXPECT_LT(std::abs(l4.do_mean - l3.do_mean), std::abs(l2.do_mean - l1.do_mean));
   EXPECT_LT(std::abs(l4.do_mean - l3.do_mean) / l4.do_mean, 0.05);
@@ -224,7 +224,7 @@ TEST(OxygenField, MonotonePhysics) {
   // both. Not more gas for DO_min: the minimum sits in the bottom head below the lower impeller,
   // fed by that impeller's lower loop, and more gas loads the impeller, cutting its power and
   // pumping (Cui et al. 1996; the pumping as the power, [mem]) — a real effect of the model.
-  Case base = testing::gassed_vessel();
+  Case base = fixtures::gassed_vessel();
   base.culture.biomass_kg_m3 = 8.0;
   const double d0 = solve(base).do_mean;
   const double dmin0 = solve(base).do_min;
@@ -242,7 +242,7 @@ TEST(OxygenField, MonotonePhysics) {
 }
 
 TEST(OxygenField, CstarFallsFromBottomToTopOfATallVessel) {
-  const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml").data;
+  const Case c = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml").data;
   const Chain ch(c);
   const auto f = solve_oxygen_field({c, ch.net, ch.hydro, ch.routing});
   // Along the gassed wall column, C* decreases with height: pressure falls and the gas loses O2.
@@ -264,7 +264,7 @@ TEST(OxygenField, CstarFallsFromBottomToTopOfATallVessel) {
 }
 
 TEST(OxygenField, SupportableBiomassPutsTheWorstZoneAtCriticalDo) {
-  const Case c = testing::gassed_vessel();
+  const Case c = fixtures::gassed_vessel();
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   const auto f = solve_oxygen_field(ctx);
@@ -278,7 +278,7 @@ TEST(OxygenField, SupportableBiomassOfTheLooseSearchIsBracketedByFullSolves) {
   // its answer (its bracket is 1e-4 wide) must fall on either side of critical DO. The tall demo
   // at about 8000 zones (multigrid, nested start), where a loose solve's DO error is largest of
   // the bundled sizes.
-  const Case c = testing::tall_demo(40, 200);
+  const Case c = fixtures::tall_demo(40, 200);
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   const auto f = solve_oxygen_field(ctx);
@@ -295,7 +295,7 @@ TEST(OxygenField, MarginSolveGivesTheFullSolvesValuesForEveryConstraint) {
   // saturation here; 4e-7 at a million zones, the last pass's move), and the starved volume may differ only by zones
   // whose DO lies within that of critical. The tall demo at about 8000 zones (multigrid, nested
   // start).
-  const Case c = testing::tall_demo(40, 200);
+  const Case c = fixtures::tall_demo(40, 200);
   const Chain ch(c);
   const OxygenContext ctx{c, ch.net, ch.hydro, ch.routing};
   const auto full = solve_oxygen_field(ctx);
@@ -315,7 +315,7 @@ TEST(OxygenField, MarginSolveGivesTheFullSolvesValuesForEveryConstraint) {
 }
 
 TEST(CaseRun, NoGasSkipsTheOxygenSolveWithANote) {
-  Case c = testing::gassed_vessel();
+  Case c = fixtures::gassed_vessel();
   c.operation.gas_flow_normal_m3_s = 0.0;
   const auto run = run_case(c);
   EXPECT_FALSE(run.field.has_value());
@@ -327,7 +327,7 @@ TEST(CaseRun, ZoneModelFindsTheStarvedRegionTheSingleZoneMisses) {
   // The bundled three-Rushton demo: the one-average-kLa answer stays above critical DO; the zone
   // model finds a starved share of the volume (the top, above the last impeller, where the
   // pressure and the gas's O2 are lowest and the dissipation is weak).
-  const Case c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml").data;
+  const Case c = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml").data;
   const auto run = run_case(c, {false});
   EXPECT_GT(run.single_zone->do_min, c.culture.critical_do_mol_m3);
   EXPECT_GT(run.field->volume_fraction_below_critical, 0.0);

@@ -15,7 +15,7 @@ namespace {
 LoadedCase gassed(const std::vector<Override>& extra) {
   std::vector<Override> o{parse_override("grid.radial=1"), parse_override("grid.axial=1")};
   o.insert(o.end(), extra.begin(), extra.end());
-  return read_case_file(testing::source_dir() + "/cases/pilot-300L.toml", o);
+  return read_case_file(fixtures::source_dir() + "/cases/pilot-300L.toml", o);
 }
 
 TEST(Transient, SingleZoneReaerationFollowsTheExponentialToFirstOrder) {
@@ -43,7 +43,7 @@ TEST(Transient, SingleZoneReaerationFollowsTheExponentialToFirstOrder) {
 }
 
 TEST(Transient, RelaxesToTheSteadyFieldAndConservesOxygen) {
-  const auto loaded = read_case_file(testing::source_dir() + "/cases/pilot-300L.toml",
+  const auto loaded = read_case_file(fixtures::source_dir() + "/cases/pilot-300L.toml",
                                      {parse_override("grid.radial=4"), parse_override("grid.axial=10")});
   const auto steady = run_case(loaded.data, {false, false});
   TransientOptions o;
@@ -196,7 +196,7 @@ TEST(Transient, BatchGrowthIsExponentialWithTheSubstrateFollowingTheYield) {
 TEST(Transient, AFedBatchClosesItsBalancesAndShowsAGradientAtTheFeed) {
   // Substrate-limited fed-batch in the 300 L pilot on a real grid; the feed enters at the surface.
   const auto loaded = read_case_file(
-      testing::source_dir() + "/cases/pilot-300L.toml",
+      fixtures::source_dir() + "/cases/pilot-300L.toml",
       {parse_override("grid.radial=4"), parse_override("grid.axial=12"), parse_override("culture.biomass=10 g/L"),
        parse_override("culture.growth_rate_max=0.4 1/h"), parse_override("culture.k_substrate=0.05 g/L"),
        parse_override("culture.yield_substrate=0.5 g/g"), parse_override("culture.maintenance_substrate=0.02 g/g/h"),

@@ -19,7 +19,7 @@ namespace {
 std::vector<LoadedCase> two_speeds() {
   std::vector<LoadedCase> cases;
   for (const char* speed : {"operation.speed=300 rpm", "operation.speed=450 rpm"}) {
-    cases.push_back(read_case_file(testing::source_dir() + "/cases/pilot-300L.toml",
+    cases.push_back(read_case_file(fixtures::source_dir() + "/cases/pilot-300L.toml",
                                    {parse_override("grid.radial=4"), parse_override("grid.axial=12"), parse_override(speed)}));
   }
   return cases;

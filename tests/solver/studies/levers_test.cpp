@@ -13,7 +13,7 @@ namespace oxystrat {
 namespace {
 
 LoadedCase demo(const std::string& name, const std::vector<Override>& o = {}) {
-  return read_case_file(testing::source_dir() + "/cases/" + name, o);
+  return read_case_file(fixtures::source_dir() + "/cases/" + name, o);
 }
 
 TEST(Levers, EachLeverMeetsTheConstraintsAtItsValueAndNotMuchBelow) {

@@ -14,7 +14,7 @@ namespace oxystrat {
 namespace {
 
 LoadedCase coarse(const std::string& name) {
-  return read_case_file(testing::source_dir() + "/cases/" + name,
+  return read_case_file(fixtures::source_dir() + "/cases/" + name,
                         {parse_override("grid.radial=5"), parse_override("grid.axial=16")});
 }
 

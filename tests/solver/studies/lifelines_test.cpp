@@ -15,7 +15,7 @@ namespace oxystrat {
 namespace {
 
 struct Small {
-  Case c = testing::single_impeller("rushton", 1.0 / 3.0, 3, 5);
+  Case c = fixtures::single_impeller("rushton", 1.0 / 3.0, 3, 5);
   ZoneNetwork net = build_zone_geometry(c);
   Hydrodynamics h = compute_hydrodynamics(c, net);
   //! A "field" rising with height: below `z` is outside.

@@ -78,7 +78,7 @@ TEST(SweepChoice, AnObjectiveNoPointHasIsAnError) {
   } catch (const CaseError& e) {
     EXPECT_NE(std::string(e.what()).find("[prices]"), std::string::npos) << e.what();
   }
-  const Case c = testing::gassed_vessel(2, 4);
+  const Case c = fixtures::gassed_vessel(2, 4);
   EXPECT_THROW(check_objective_applies(c, "operating_cost"), CaseError);
   EXPECT_THROW(check_objective_applies(c, "max_biomass_heat:max"), CaseError);
   EXPECT_NO_THROW(check_objective_applies(c, "total_power"));
@@ -88,11 +88,11 @@ TEST(SweepChoice, CheapestPointIsNotTheLeastAgitatorPowerPoint) {
   // The 300 L pilot with prices, over speed and gas flow. Gassed power falls as the gas flow rises,
   // so the least agitator power sits at the most gas; but every m3 of air must be compressed to the
   // sparger, so the cheapest point uses less gas. Electricity 0.15 EUR/kWh (invented).
-  auto base = read_case_file(testing::source_dir() + "/cases/pilot-300L.toml");
+  auto base = read_case_file(fixtures::source_dir() + "/cases/pilot-300L.toml");
   const std::vector<Override> sets{parse_override("grid.radial=4"), parse_override("grid.axial=12"),
                                    parse_override("prices.currency=EUR"),
                                    parse_override("prices.electricity=0.15 EUR/kWh")};
-  base = read_case_file(testing::source_dir() + "/cases/pilot-300L.toml", sets);
+  base = read_case_file(fixtures::source_dir() + "/cases/pilot-300L.toml", sets);
   const auto plan = full_factorial({{"operation.speed", 300, 500, 3, "rpm", ""}, {"operation.gas_flow", 0.5, 2.0, 4, "vvm", ""}});
   std::vector<PointResult> results(plan.points.size());
   run_sweep(base, sets, plan, {false, false, 0, 1, 0}, std::vector<bool>(plan.points.size(), false),

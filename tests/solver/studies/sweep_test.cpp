@@ -12,7 +12,7 @@ namespace oxystrat {
 namespace {
 
 LoadedCase base_case() {
-  return read_case_file(testing::source_dir() + "/cases/pilot-300L.toml", {parse_override("grid.radial=4"),
+  return read_case_file(fixtures::source_dir() + "/cases/pilot-300L.toml", {parse_override("grid.radial=4"),
                                                                              parse_override("grid.axial=12")});
 }
 
@@ -177,7 +177,7 @@ TEST(Sweep, OneAndTwoThreadsGiveBitIdenticalResults) {
 }
 
 TEST(Constraints, EachLimitDecidesOnItsOwn) {
-  Case c = testing::gassed_vessel(4, 10);
+  Case c = fixtures::gassed_vessel(4, 10);
   c.culture.biomass_kg_m3 = 2.0;  // plenty of oxygen
   const auto run = run_case(c, {false});
   const double tip = run.hydro.impellers[0].tip_speed_m_s;
@@ -197,7 +197,7 @@ TEST(Constraints, EachLimitDecidesOnItsOwn) {
 }
 
 TEST(Constraints, FloodingIsInfeasibleUnlessAllowed) {
-  Case c = testing::gassed_vessel(4, 10);
+  Case c = fixtures::gassed_vessel(4, 10);
   c.operation.speed_rps = 0.5;
   c.culture.biomass_kg_m3 = 0.5;
   const auto run = run_case(c, {false});

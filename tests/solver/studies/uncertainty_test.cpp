@@ -12,7 +12,7 @@
 namespace oxystrat {
 namespace {
 
-Case small() { return testing::gassed_vessel(4, 10); }
+Case small() { return fixtures::gassed_vessel(4, 10); }
 
 TEST(Uncertainty, ZeroWidthsGiveTheDeterministicAnswer) {
   const Case c = small();

@@ -16,7 +16,7 @@ namespace {
 using ::testing::HasSubstr;
 
 TEST(Verdict, TheDemoStarvesAtItsTop) {
-  const auto loaded = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml");
+  const auto loaded = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml");
   const Case& c = loaded.data;
   const auto run = run_case(c);
   const auto v = make_verdict(c, run);
@@ -44,7 +44,7 @@ TEST(Verdict, TheDemoStarvesAtItsTop) {
 }
 
 TEST(Verdict, ALighterCultureMeets) {
-  const auto c = read_case_file(testing::source_dir() + "/cases/tall-3rushton.toml", {parse_override("culture.biomass=10 g/L")}).data;
+  const auto c = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml", {parse_override("culture.biomass=10 g/L")}).data;
   const auto v = make_verdict(c, run_case(c));
   EXPECT_TRUE(v.meets);
   EXPECT_EQ(v.starved.volume_fraction, 0.0);
