@@ -21,17 +21,27 @@ void check_geometry(const TomlSource& src, const Case& c, std::vector<std::strin
                                            "less than T - 2 x baffle width = {:.4g} m",
                                            imp.diameter_m, free_width));
     }
+    const double band_lo = imp.elevation_m - 0.5 * imp.blade_height_m;
+    const double band_hi = imp.elevation_m + 0.5 * imp.blade_height_m;
+    const bool uncovered = band_lo >= h;
+    if (uncovered && c.vessel.shell_top_m <= 0.0) {
+      src.fail(p + "elevation", fmt::format("the impeller blades reach {:.4g} m, above the liquid surface at {:.4g} m; "
+                                            "an impeller above the liquid (a vessel filled below it) is left out of "
+                                            "the model only when vessel.straight_side gives the shell it must fit in",
+                                            band_hi, h));
+    }
+    if (band_hi >= h && !uncovered) {
+      src.fail(p + "elevation", fmt::format("the impeller blades reach {:.4g} m, above the liquid surface at {:.4g} m, "
+                                            "which cuts them ({:.4g}-{:.4g} m): a partly submerged impeller is not "
+                                            "modelled (its power and pumping are not a submerged one's); raise the "
+                                            "liquid above {:.4g} m, or lower it below {:.4g} m to leave the impeller out",
+                                            band_hi, h, band_lo, band_hi, band_hi, band_lo));
+    }
     const double dt = imp.diameter_m / t;
-    if (dt < 0.15 || dt > 0.7) {
+    if ((dt < 0.15 || dt > 0.7) && !uncovered) {
       notes.push_back(fmt::format("{}: D/T = {:.3g} is outside 0.15-0.7, where the power and flow numbers were "
                                   "measured",
                                   src.where(p + "diameter"), dt));
-    }
-    const double band_lo = imp.elevation_m - 0.5 * imp.blade_height_m;
-    const double band_hi = imp.elevation_m + 0.5 * imp.blade_height_m;
-    if (band_hi >= h) {
-      src.fail(p + "elevation", fmt::format("the impeller blades reach {:.4g} m, above the liquid surface at {:.4g} m",
-                                            band_hi, h));
     }
     const double floor = shape.bottom_height(0.5 * imp.diameter_m);
     if (band_lo <= floor) {
@@ -52,7 +62,7 @@ void check_geometry(const TomlSource& src, const Case& c, std::vector<std::strin
                                               i - 1, band_lo, band_hi, below.elevation_m + 0.5 * below.blade_height_m));
       }
       const double spacing = imp.elevation_m - below.elevation_m;
-      if (spacing < below.diameter_m && c.model.multiple_impeller_factor == 1.0) {
+      if (spacing < below.diameter_m && c.model.multiple_impeller_factor == 1.0 && !uncovered) {
         notes.push_back(fmt::format("{}: spacing {:.3g} m is less than the lower impeller's diameter; powers add "
                                     "less than fully (set model.multiple_impeller_factor)",
                                     src.where(p + "elevation"), spacing));
@@ -82,6 +92,29 @@ void check_geometry(const TomlSource& src, const Case& c, std::vector<std::strin
     notes.push_back("unbaffled vessel: the power and flow numbers assume a baffled vessel; give power_number "
                     "and flow_number from your own data");
   }
+}
+
+void leave_out_uncovered_impellers(const TomlSource& src, Case& c, std::vector<std::string>& notes) {
+  const double h = c.vessel.liquid_height_m;
+  const auto uncovered = [h](const Impeller& imp) { return imp.elevation_m - 0.5 * imp.blade_height_m >= h; };
+  // Listed bottom to top without overlap (check_geometry), so the uncovered ones are the top ones.
+  size_t covered = c.impellers.size();
+  while (covered > 0 && uncovered(c.impellers[covered - 1])) --covered;
+  if (covered == c.impellers.size()) return;
+  if (covered == 0) {
+    const auto& lowest = c.impellers.front();
+    src.fail("vessel.liquid_height", fmt::format("every impeller is above the liquid surface at {:.4g} m: nothing "
+                                                 "stirs the broth; the lowest needs more than {:.4g} m of liquid",
+                                                 h, lowest.elevation_m + 0.5 * lowest.blade_height_m));
+  }
+  for (size_t i = covered; i < c.impellers.size(); ++i) {
+    notes.push_back(fmt::format("{}: impeller {} at {:.4g} m is above the liquid surface at {:.4g} m and is left out "
+                                "(no power, flow or mixing from it). An impeller turning in the headspace can whip "
+                                "foam and load the shaft unevenly: check with the agitator's maker that it may run "
+                                "uncovered",
+                                src.where(fmt::format("impeller.{}.elevation", i)), i, c.impellers[i].elevation_m, h));
+  }
+  c.impellers.resize(covered);
 }
 
 void note_ignored_keys(const TomlSource& src, const Case& c, std::vector<std::string>& notes) {

@@ -58,6 +58,7 @@ LoadedCase read_case_text(const std::string& text, const std::string& file_name,
   read_design_limits(src, c);  // heat, shear, cost (input/limits_reader.cpp)
   src.check_no_unknown_keys();
   check_geometry(src, c, out.notes);
+  leave_out_uncovered_impellers(src, c, out.notes);
   note_ignored_keys(src, c, out.notes);
   check_control_limits(src, c);
   check_gas_and_boiling(src, c, out.notes);

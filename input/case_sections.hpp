@@ -63,6 +63,10 @@ std::vector<std::string> merge_includes(toml::table& root, const std::string& fi
 //! Geometry that the single keys cannot check alone (input/case_checks.cpp): errors, and notes
 //! for what is allowed but outside the correlations' range.
 void check_geometry(const TomlSource& src, const Case& c, std::vector<std::string>& notes);
+//! Impellers wholly above the liquid surface (a vessel filled below them; allowed when the case
+//! gives vessel.straight_side) are removed from the case with a note: they stir nothing. Called
+//! after check_geometry (input/case_checks.cpp).
+void leave_out_uncovered_impellers(const TomlSource& src, Case& c, std::vector<std::string>& notes);
 //! Keys that have no effect are ignored with a note: those of another flow curve (left over when
 //! --set switches broth.rheology) and model keys no model uses (input/case_checks.cpp).
 void note_ignored_keys(const TomlSource& src, const Case& c, std::vector<std::string>& notes);

@@ -69,7 +69,10 @@ MixingResult tracer_mixing_time(const ZoneNetwork& net, const Hydrodynamics& h, 
       judged_volume += net.volume[k];
     }
   }
-  if (judged.empty() || (!h.stagnant.empty() && h.stagnant[res.inject_zone])) {
+  // All zones judged: the whole volume exactly (the loop's sum differs from Eigen's in the last
+  // bits, and a fraction of 1 - 1e-16 would read as stagnant broth left out).
+  if (judged.size() == static_cast<size_t>(net.size()) || judged.empty() ||
+      (!h.stagnant.empty() && h.stagnant[res.inject_zone])) {
     judged.resize(net.size());
     for (int k = 0; k < net.size(); ++k) judged[k] = k;
     judged_volume = total;

@@ -43,6 +43,18 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
                                 m, h.impellers[m].aeration_number, h.impellers[m].flooding_aeration));
     }
   }
+  if (!c.impellers.empty()) {
+    // Below about half a diameter of cover an impeller draws gas from the surface (common practice).
+    const auto& top = c.impellers.back();
+    const double cover = v.liquid_height_m - top.elevation_m;
+    if (cover < 0.5 * top.diameter_m) {
+      out.push_back(fmt::format("model range: impeller {} has {:.2g} m of liquid above it ({:.2g} of its diameter): so "
+                                "near the surface it can draw gas in from the headspace and form a vortex, drawing "
+                                "less power and dispersing gas differently from the submerged impeller the model "
+                                "assumes. Half a diameter of cover or more is usual (common practice).",
+                                c.impellers.size() - 1, cover, cover / top.diameter_m));
+    }
+  }
   for (size_t m = 0; m < h.impellers.size(); ++m) {
     const auto& s = h.impellers[m];
     const double x = s.reynolds * std::cbrt(s.power_number);

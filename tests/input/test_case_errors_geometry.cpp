@@ -47,6 +47,42 @@ TEST(CaseGeometry, ImpellerBladesAboveTheLiquidSurface) {
   EXPECT_THAT(msg, HasSubstr("the impeller blades reach 1.511 m, above the liquid surface at 1.5 m"));
 }
 
+TEST(CaseGeometry, ImpellerBladesCutByTheSurfaceSayWhatLevelsWork) {
+  // The pitched blade's band at 1.0 m is 0.979-1.021 m: a level of 1.0 m cuts it.
+  const auto msg = error_of(CaseText().replace("liquid_height = \"1.5 m\"", "liquid_height = \"1.0 m\""));
+  EXPECT_THAT(msg, HasSubstr("which cuts them (0.9788-1.021 m): a partly submerged impeller is not modelled"));
+  EXPECT_THAT(msg, HasSubstr("raise the liquid above 1.021 m, or lower it below 0.9788 m to leave the impeller out"));
+}
+
+TEST(CaseGeometry, ImpellerAboveTheLiquidNeedsTheShell) {
+  // Filled to 0.9 m, below the upper impeller's blades (from 0.979 m): without the shell's length a
+  // mistyped elevation and a low fill look the same, so the reader refuses.
+  const CaseText low = CaseText().replace("liquid_height = \"1.5 m\"", "liquid_height = \"0.9 m\"");
+  const auto msg = error_of(low);
+  EXPECT_THAT(msg, HasSubstr(low.where("elevation = \"1.0 m\"") + ": impeller.1.elevation = \"1.0 m\""));
+  EXPECT_THAT(msg, HasSubstr("left out of the model only when vessel.straight_side gives the shell"));
+}
+
+TEST(CaseGeometry, ImpellerAboveTheLiquidIsLeftOutWithANote) {
+  // The shell (head 0.25 m + 1.5 m straight side) ends at 1.75 m: the upper impeller fits in it,
+  // above the 0.9 m of liquid; the case keeps the lower impeller only.
+  const CaseText low =
+      CaseText().replace("liquid_height = \"1.5 m\"", "liquid_height = \"0.9 m\"\nstraight_side = \"1.5 m\"");
+  const auto loaded = load(low);
+  ASSERT_EQ(loaded.data.impellers.size(), 1u);
+  EXPECT_EQ(loaded.data.impellers[0].elevation_m, 0.4);
+  EXPECT_THAT(loaded.notes,
+              testing::Contains(HasSubstr(low.where("elevation = \"1.0 m\"") + ": impeller.1.elevation = \"1.0 m\": impeller 1 at 1 m is "
+                                                                 "above the liquid surface at 0.9 m and is left out")));
+  // Above the shell's top it is an error still.
+  EXPECT_THAT(error_of(CaseText(low).replace("elevation = \"1.0 m\"", "elevation = \"1.8 m\"")),
+              HasSubstr("at most 1.75 m"));
+  // With every impeller above the liquid nothing stirs it.
+  const CaseText empty =
+      CaseText(low).replace("elevation = \"0.4 m\"", "elevation = \"0.95 m\"").replace("elevation = \"1.0 m\"", "elevation = \"1.4 m\"");
+  EXPECT_THAT(error_of(empty), HasSubstr("every impeller is above the liquid surface at 0.9 m: nothing stirs the broth"));
+}
+
 TEST(CaseGeometry, ImpellerIntoTheBottomHead) {
   // The head surface at the tip radius 0.175 m is 0.25 (1 - sqrt(1 - 0.35^2)) = 0.0158 m high; a
   // 0.07 m band centred at 0.04 m reaches down to 0.005 m.

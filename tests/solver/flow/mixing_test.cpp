@@ -173,6 +173,19 @@ TEST(Mixing, ProbeThetaIsNotLongerThanWholeVessel) {
   EXPECT_GT(m.theta_probe_s, 0.0);
 }
 
+TEST(Mixing, ATurbulentVesselIsJudgedWhole) {
+  // No broth stands still in a Newtonian vessel, so the criterion covers the whole volume, exactly
+  // 1 (the tall demo filled to 5.5 m once gave 1 - 1e-16 from two orders of summation, and `run`
+  // said "the broth inside the caverns; the 0.0 % outside them is stagnant").
+  const Case c = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml",
+                                {parse_override("vessel.liquid_height=5.5 m"), parse_override("vessel.straight_side=7.5 m")})
+                     .data;
+  const auto net = build_zone_geometry(c);
+  const auto h = compute_hydrodynamics(c, net);
+  ASSERT_EQ(h.stagnant_volume_fraction, 0.0);
+  EXPECT_EQ(tracer_mixing_time(net, h, {}).judged_volume_fraction, 1.0);
+}
+
 TEST(Mixing, LargeGridsTakeTheirThetaFromTheGridHalvedUntilItFits) {
   const Case c = fixtures::single_impeller("rushton", 1.0 / 3.0, 24, 48);  // 1152 grid cells
   const auto net = build_zone_geometry(c);

@@ -99,6 +99,40 @@ TEST(Cautions, ChurningGasIsAPlumeOrTheVesselsGasFlow) {
   EXPECT_NE(vessel.find("of the gassed dispersion"), std::string::npos) << vessel;
 }
 
+TEST(Cautions, ATopImpellerNearTheSurfaceIsCautioned) {
+  // The tall demo's top Rushton (D = 1.1 m) at 5.9 m: 2.1 m of cover at the demo's 8 m (1.9 D),
+  // 0.3 m (0.27 D) at 6.2 m, below the half diameter the caution uses (common practice).
+  const auto near_surface = [](const std::string& level) {
+    const Case c = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml",
+                                  {parse_override("vessel.liquid_height=" + level), parse_override("grid.axial=24")})
+                       .data;
+    const auto run = run_case(c, {false, false});
+    for (const auto& w : run.cautions) {
+      if (w.find("of liquid above it") != std::string::npos) return w;
+    }
+    return std::string();
+  };
+  EXPECT_EQ(near_surface("8 m"), "");
+  const std::string w = near_surface("6.2 m");
+  EXPECT_NE(w.find("impeller 2 has 0.3 m of liquid above it (0.27 of its diameter)"), std::string::npos) << w;
+}
+
+TEST(Cautions, AnImpellerAboveTheLiquidIsLeftOut) {
+  // The tall demo filled to 5.5 m (its shell given): the top impeller's blades start at 5.79 m.
+  const auto loaded = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml",
+                                     {parse_override("vessel.liquid_height=5.5 m"),
+                                      parse_override("vessel.straight_side=8 m"), parse_override("grid.axial=24")});
+  ASSERT_EQ(loaded.data.impellers.size(), 2u);
+  const auto run = run_case(loaded.data, {false, false});
+  ASSERT_EQ(run.hydro.impellers.size(), 2u);
+  EXPECT_TRUE(run.field);
+  // The power is the two submerged impellers' alone: the same as at full fill less the top one's
+  // share (equal Rushtons at equal speed: a third, to the gassed factors' differences).
+  const auto full = run_case(read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml",
+                                            {parse_override("grid.axial=24")}).data, {false, false});
+  EXPECT_NEAR(run.hydro.power_ungassed_w / full.hydro.power_ungassed_w, 2.0 / 3.0, 1e-9);
+}
+
 TEST(Shear, KolmogorovLengthAndStressPerZone) {
   const Case c = fixtures::gassed_vessel(4, 10);
   const auto run = run_case(c, {false, false});
