@@ -95,7 +95,7 @@ void add_compare_command(CLI::App& app) {
     write_compare_csv(folder.file("compare.csv").string(), names, values, violated);
     std::string body = compare_report_body(compared);
     for (size_t i = 0; i < loaded.size(); ++i) {
-      body += run_report_body(loaded[i].data, runs[i].run, runs[i].theta95_s);
+      body += run_report_body(loaded[i].data, runs[i].run, runs[i].theta95_s, nullptr, true, loaded[i].notes);
     }
     write_text_file(folder.file("report.html").string(), report_page("oxystrat: comparison", body));
     folder.commit();

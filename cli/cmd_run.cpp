@@ -124,7 +124,7 @@ void add_run_command(CLI::App& app) {
     for (auto& a : oxygen_cell_arrays(run)) arrays.push_back(std::move(a));
     for (auto& a : limits_cell_arrays(run)) arrays.push_back(std::move(a));
     write_profile_csv(folder.file("profile.csv").string(), run);
-    std::string body = run_report_body(c, run, theta, &verdict, false);  // the page title names the case
+    std::string body = run_report_body(c, run, theta, &verdict, false, loaded.notes);  // the page title names the case
     if (unc) {
       write_uncertainty_csv(folder.file("uncertainty.csv").string(), *unc);
       body += uncertainty_html(*unc, c.culture.critical_do_mol_m3);

@@ -134,13 +134,15 @@ void write_text_file(const std::string& path, const std::string& text) {
 }
 
 std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s, const Verdict* verdict,
-                            bool heading) {
+                            bool heading, const std::vector<std::string>& case_notes) {
   std::string s = (heading ? "<h2>" + escape(c.title) + "</h2>\n" : std::string()) +
                   verdict_html(c, verdict ? *verdict : make_verdict(c, run)) +
                   "<div class=\"row\"><div>\n<h3>Summary</h3>\n";
   s += values_table(summary_values(c, run, theta95_s));
   s += "</div><div>\n<h3>Cautions</h3>\n" + list(run.cautions, "None apply.");
-  s += "<h3>Notes</h3>\n" + list(run.notes, "None.");
+  std::vector<std::string> notes = case_notes;
+  notes.insert(notes.end(), run.notes.begin(), run.notes.end());
+  s += "<h3>Notes</h3>\n" + list(notes, "None.");
   // Without a DO field (no gas) there is nothing to draw for oxygen.
   if (!run.field) return s + "</div></div>\n" + limits_report_html(c, run, outlines(c));
   if (!run.single_zone) throw std::logic_error("the run report needs the single-zone field (run_case with single_zone)");

@@ -16,9 +16,12 @@ namespace oxystrat {
 //! One case's figures and tables: summary, DO profile with critical DO, zone map, C* and kLa
 //! profiles, cautions.
 //! `verdict` (optional) is shown first; without it the report makes its own. `heading`: start with
-//! the case title as an h2 (off when the page title already names the case).
+//! the case title as an h2 (off when the page title already names the case). `case_notes`: what
+//! the case reader noted (LoadedCase::notes), listed first among the notes, since the report is
+//! read without the terminal's warnings.
 std::string run_report_body(const Case& c, const CaseRun& run, std::optional<double> theta95_s,
-                            const Verdict* verdict = nullptr, bool heading = true);
+                            const Verdict* verdict = nullptr, bool heading = true,
+                            const std::vector<std::string>& case_notes = {});
 
 //! A complete page: title, the body, then (for zone-model reports) the method and references.
 std::string report_page(const std::string& title, const std::string& body, bool zone_model_method = true);
