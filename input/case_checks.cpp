@@ -24,6 +24,11 @@ void check_geometry(const TomlSource& src, const Case& c, std::vector<std::strin
     const double band_lo = imp.elevation_m - 0.5 * imp.blade_height_m;
     const double band_hi = imp.elevation_m + 0.5 * imp.blade_height_m;
     const bool uncovered = band_lo >= h;
+    if (c.vessel.shell_top_m > 0.0 && imp.elevation_m > c.vessel.shell_top_m) {
+      src.fail(p + "elevation", fmt::format("the impeller at {:.4g} m is above the top of the vessel's shell at {:.4g} m "
+                                            "(bottom head {:.4g} m + vessel.straight_side)",
+                                            imp.elevation_m, c.vessel.shell_top_m, shape.head_depth()));
+    }
     if (uncovered && c.vessel.shell_top_m <= 0.0) {
       src.fail(p + "elevation", fmt::format("the impeller blades reach {:.4g} m, above the liquid surface at {:.4g} m; "
                                             "an impeller above the liquid (a vessel filled below it) is left out of "

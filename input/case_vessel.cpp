@@ -73,10 +73,9 @@ void read_impellers(TomlSource& src, Case& c) {
     impeller_type_from_name(*type, imp.type);
     const auto& def = impeller_data(imp.type);
     imp.diameter_m = src.require_quantity(p + "diameter", Dimension::length, {0.0, t, true}, "1.1 m");
-    // Up to the shell's top when the case gives it (an impeller above the liquid is left out then,
-    // check_geometry); otherwise up to the tallest liquid read_vessel accepts (H/T = 6), and
-    // check_geometry refuses anything above the liquid with a message that says why.
-    const double top = c.vessel.shell_top_m > 0.0 ? c.vessel.shell_top_m : 6.0 * t;
+    // Up to the tallest liquid read_vessel accepts (H/T = 6) or the shell's top: check_geometry
+    // says what is wrong with an impeller above the liquid or the shell.
+    const double top = std::max(6.0 * t, c.vessel.shell_top_m);
     imp.elevation_m = src.require_quantity(p + "elevation", Dimension::length, {0.0, top, true}, "1.2 m");
     imp.blades = src.integer(p + "blades", 2, 12).value_or(def.blades);
     imp.blade_height_m = src.quantity(p + "blade_height", Dimension::length, {0.0, imp.diameter_m, true})

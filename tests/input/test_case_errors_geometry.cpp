@@ -76,7 +76,8 @@ TEST(CaseGeometry, ImpellerAboveTheLiquidIsLeftOutWithANote) {
                                                                  "above the liquid surface at 0.9 m and is left out")));
   // Above the shell's top it is an error still.
   EXPECT_THAT(error_of(CaseText(low).replace("elevation = \"1.0 m\"", "elevation = \"1.8 m\"")),
-              HasSubstr("at most 1.75 m"));
+              HasSubstr("the impeller at 1.8 m is above the top of the vessel's shell at 1.75 m (bottom head 0.25 m + "
+                        "vessel.straight_side)"));
   // With every impeller above the liquid nothing stirs it.
   const CaseText empty =
       CaseText(low).replace("elevation = \"0.4 m\"", "elevation = \"0.95 m\"").replace("elevation = \"1.0 m\"", "elevation = \"1.4 m\"");
