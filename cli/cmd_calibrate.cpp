@@ -30,20 +30,6 @@ struct CalibrateCommandOptions {
   bool no_zone_check = false;
 };
 
-// "R,Z": two lengths with units (as `oxystrat mixing` takes them).
-std::pair<double, double> parse_point(const std::string& option, const std::string& text) {
-  const auto comma = text.find(',');
-  if (comma == std::string::npos) {
-    throw CaseError(fmt::format("{} '{}': expected R,Z with units, e.g. {} \"0.2 m,0.3 m\"", option, text, option));
-  }
-  try {
-    return {units::parse(units::Dimension::length, text.substr(0, comma)),
-            units::parse(units::Dimension::length, text.substr(comma + 1))};
-  } catch (const UnitError& e) {
-    throw CaseError(fmt::format("{} '{}': {}", option, text, e.what()));
-  }
-}
-
 std::string utc_now() {
   const std::time_t t = std::chrono::system_clock::to_time_t(std::chrono::system_clock::now());
   std::tm tm{};
@@ -104,8 +90,8 @@ void add_calibrate_command(CLI::App& app) {
       MixingCalibrationOptions mo;
       mo.mixing.homogeneity = o->homogeneity;
       mo.at_probe = !o->whole_vessel;
-      if (!o->inject.empty()) std::tie(mo.mixing.inject_r_m, mo.mixing.inject_z_m) = parse_point("--inject", o->inject);
-      if (!o->probe.empty()) std::tie(mo.mixing.probe_r_m, mo.mixing.probe_z_m) = parse_point("--probe", o->probe);
+      if (!o->inject.empty()) std::tie(mo.mixing.inject_r_m, mo.mixing.inject_z_m) = parse_vessel_point("--inject", o->inject);
+      if (!o->probe.empty()) std::tie(mo.mixing.probe_r_m, mo.mixing.probe_z_m) = parse_vessel_point("--probe", o->probe);
       mix = calibrate_exchange(loaded, overrides, data, mo);
     }
     const KlaCalibration* k = kla ? &*kla : nullptr;

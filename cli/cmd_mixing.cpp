@@ -24,19 +24,6 @@ struct MixingCommandOptions {
   double homogeneity = 0.95;
 };
 
-// "R, Z": two lengths with units, radius from the axis and height above the lowest point.
-std::pair<double, double> parse_position(const std::string& option, const std::string& text) {
-  const auto comma = text.find(',');
-  if (comma == std::string::npos) {
-    throw CaseError(fmt::format("{} '{}': expected R,Z with units, e.g. {} \"0.4 m,7.5 m\"", option, text, option));
-  }
-  try {
-    return {units::parse(units::Dimension::length, text.substr(0, comma)),
-            units::parse(units::Dimension::length, text.substr(comma + 1))};
-  } catch (const UnitError& e) {
-    throw CaseError(fmt::format("{} '{}': {}", option, text, e.what()));
-  }
-}
 
 }  // namespace
 
@@ -56,8 +43,8 @@ void add_mixing_command(CLI::App& app) {
     const auto hydro = compute_hydrodynamics(c, net);
     MixingOptions mo;
     mo.homogeneity = o->homogeneity;
-    if (!o->inject.empty()) std::tie(mo.inject_r_m, mo.inject_z_m) = parse_position("--inject", o->inject);
-    if (!o->probe.empty()) std::tie(mo.probe_r_m, mo.probe_z_m) = parse_position("--probe", o->probe);
+    if (!o->inject.empty()) std::tie(mo.inject_r_m, mo.inject_z_m) = parse_vessel_point("--inject", o->inject);
+    if (!o->probe.empty()) std::tie(mo.probe_r_m, mo.probe_z_m) = parse_vessel_point("--probe", o->probe);
     const auto mix = tracer_mixing_time(net, hydro, mo);
     const int pct = static_cast<int>(std::lround(100 * mo.homogeneity));
     fmt::print("{}\n{}\n{}", c.title, mixing_headline(c, mix, mo.homogeneity), power_table(c, hydro));

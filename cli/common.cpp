@@ -2,6 +2,8 @@
 
 #include <fmt/format.h>
 
+#include "input/errors.hpp"
+#include "input/units.hpp"
 #include "postproc/io/run_folder.hpp"
 
 namespace oxystrat::cli {
@@ -28,6 +30,26 @@ LoadedCase load_case(const CaseOptions& o) {
   for (const auto& f : loaded.included_files) protect_from_replacement(f);
   for (const auto& note : loaded.notes) fmt::print(stderr, "warning: {}\n", note);
   return loaded;
+}
+
+std::pair<double, double> parse_vessel_point(const std::string& option, const std::string& text) {
+  const auto comma = text.find(',');
+  if (comma == std::string::npos) {
+    throw CaseError(fmt::format("{} '{}': expected R,Z with units, e.g. {} \"0.4 m,7.5 m\"", option, text, option));
+  }
+  double r = 0.0, z = 0.0;
+  try {
+    r = units::parse(units::Dimension::length, text.substr(0, comma));
+    z = units::parse(units::Dimension::length, text.substr(comma + 1));
+  } catch (const UnitError& e) {
+    throw CaseError(fmt::format("{} '{}': {}", option, text, e.what()));
+  }
+  if (r < 0.0 || z < 0.0) {
+    throw CaseError(fmt::format("{} '{}': R is the distance from the vessel's axis and Z the height above its lowest "
+                                "point; neither can be negative",
+                                option, text));
+  }
+  return {r, z};
 }
 
 }  // namespace oxystrat::cli

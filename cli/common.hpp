@@ -4,6 +4,7 @@
 #include <CLI/CLI.hpp>
 
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "input/case_reader.hpp"
@@ -27,6 +28,10 @@ void add_output_options(CLI::App& cmd, OutputOptions& o);
 
 //! Reads the case with its overrides; prints the reader's notes to stderr as warnings.
 LoadedCase load_case(const CaseOptions& o);
+
+//! A point in the vessel given to `option` as "R,Z": two lengths with units, the distance from the
+//! axis and the height above the lowest point, in m (neither negative).
+std::pair<double, double> parse_vessel_point(const std::string& option, const std::string& text);
 
 void add_run_command(CLI::App& app);
 void add_check_command(CLI::App& app);

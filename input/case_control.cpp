@@ -2,7 +2,25 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
+
+#include "physics/vessel_shape.hpp"
+
 namespace oxystrat::detail {
+namespace {
+
+// A point given by radius and height must lie in the broth, not in the steel of the bottom head,
+// where no zone would hold it.
+void require_above_the_head(const TomlSource& src, const Case& c, const std::string& height_key, double r, double z) {
+  const double floor = VesselShape(c.vessel.diameter_m, c.vessel.bottom).bottom_height(r);
+  if (z < floor) {
+    src.fail(height_key, fmt::format("the point at r = {:.4g} m, z = {:.4g} m lies in the vessel bottom: the head "
+                                     "surface is {:.4g} m high at that radius; raise it or move it inwards",
+                                     r, z, floor));
+  }
+}
+
+}  // namespace
 
 void read_feed(TomlSource& src, Case& c) {
   src.allow_table("feed");
@@ -12,6 +30,7 @@ void read_feed(TomlSource& src, Case& c) {
   const double h = c.vessel.liquid_height_m, r = 0.5 * c.vessel.diameter_m;
   f.r_m = src.quantity_or("feed.radius", Dimension::length, {0.0, r}, 0.0);
   f.z_m = src.quantity_or("feed.height", Dimension::length, {0.0, h}, h);
+  require_above_the_head(src, c, "feed.height", f.r_m, f.z_m);
   f.concentration_kg_m3 = src.require_quantity("feed.concentration", Dimension::biomass, {0.0, 2000.0, true}, "500 g/L");
   const size_t n = src.list_size("feed.times");
   if (n == 0) src.missing("feed.times", "the profile times, e.g. times = [\"0 h\", \"8 h\"]");
@@ -50,7 +69,11 @@ void read_control(TomlSource& src, Case& c) {
   if (k.enabled && !src.has("control.setpoint")) src.missing("control.setpoint", "the DO set-point, e.g. setpoint = \"30 %\"");
   const double h = c.vessel.liquid_height_m, r = 0.5 * c.vessel.diameter_m;
   k.probe_r_m = src.quantity_or("control.probe_radius", Dimension::length, {0.0, r}, 0.9 * r);
-  k.probe_z_m = src.quantity_or("control.probe_height", Dimension::length, {0.0, h}, 0.25 * h);
+  // By default a quarter of the way up, and in any case clear of a dished bottom at the probe's radius.
+  const double floor = VesselShape(c.vessel.diameter_m, c.vessel.bottom).bottom_height(k.probe_r_m);
+  k.probe_z_m = src.quantity_or("control.probe_height", Dimension::length, {0.0, h},
+                                std::min(h, std::max(0.25 * h, floor + 0.1 * h)));
+  require_above_the_head(src, c, "control.probe_height", k.probe_r_m, k.probe_z_m);
   k.gain = src.number("control.gain", {0.0, 1000.0}).value_or(k.gain);
   k.integral_time_s = src.quantity_or("control.integral_time", Dimension::time, {1.0, 1e6}, k.integral_time_s);
   k.derivative_time_s = src.quantity_or("control.derivative_time", Dimension::time, {0.0, 3600.0}, 0.0);

@@ -1,5 +1,7 @@
 #include "solver/flow/mixing_time.hpp"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <cmath>
 #include <limits>
@@ -27,20 +29,31 @@ double last_exceedance(const std::vector<double>& time_s, const std::vector<doub
   return 0.0;
 }
 
+namespace {
+
+[[noreturn]] void outside_the_liquid(const char* which, double r, double z, const ZoneNetwork& net) {
+  throw CaseError(fmt::format("the {} point (r = {:.4g} m, z = {:.4g} m) lies outside the liquid: r runs from the axis "
+                              "to the wall at {:.4g} m (less in the bottom head) and z from the lowest point to the "
+                              "surface at {:.4g} m",
+                              which, r, z, net.shape.radius(), net.liquid_height));
+}
+
+}  // namespace
+
 MixingResult tracer_mixing_time(const ZoneNetwork& net, const Hydrodynamics& h, const MixingOptions& opts) {
   MixingResult res;
   const double big_r = net.shape.radius();
   const double inject_z = opts.inject_z_m >= 0.0 ? opts.inject_z_m : net.liquid_height * (1.0 - 1e-9);
-  res.inject_zone = net.zone_containing(std::min(opts.inject_r_m, big_r), inject_z);
+  res.inject_zone = net.zone_containing(opts.inject_r_m, inject_z);
   const double probe_r = opts.probe_r_m >= 0.0 ? opts.probe_r_m : 0.75 * big_r;
   double probe_z = opts.probe_z_m;
   if (probe_z < 0.0) probe_z = 0.25 * net.liquid_height;
   res.probe_zone = net.zone_containing(probe_r, probe_z);
-  if (res.inject_zone < 0) throw CaseError("the injection point lies outside the liquid");
+  if (res.inject_zone < 0) outside_the_liquid("injection", opts.inject_r_m, inject_z, net);
   // The default point, the surface by the shaft, can lie in stagnant broth above the top cavern,
   // where a tracer would never leave: then the nearest zone the flow reaches stands in for it.
   if (opts.inject_z_m < 0.0 && !h.stagnant.empty() && h.stagnant[res.inject_zone]) {
-    const double inject_r = std::min(opts.inject_r_m, big_r);
+    const double inject_r = opts.inject_r_m;
     double nearest = std::numeric_limits<double>::infinity();
     for (int k = 0; k < net.size(); ++k) {
       const double d = std::hypot(net.r[k] - inject_r, net.z[k] - inject_z);
@@ -50,7 +63,7 @@ MixingResult tracer_mixing_time(const ZoneNetwork& net, const Hydrodynamics& h, 
       }
     }
   }
-  if (res.probe_zone < 0) throw CaseError("the probe point lies outside the liquid");
+  if (res.probe_zone < 0) outside_the_liquid("probe", probe_r, probe_z, net);
 
   const Eigen::Map<const Eigen::VectorXd> volume(net.volume.data(), net.size());
   const double total = volume.sum();

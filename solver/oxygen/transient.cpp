@@ -6,6 +6,7 @@
 #include <cmath>
 #include <memory>
 
+#include "input/errors.hpp"
 #include "solver/oxygen/culture_growth.hpp"
 #include "solver/oxygen/do_control.hpp"
 #include "solver/flow/gas_routing.hpp"
@@ -25,10 +26,22 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
   const auto& k = c0.control;
   auto plant = std::make_unique<Plant>(c0);
   const int n = plant->net.size();
-  res.probe_zone = std::max(0, plant->net.zone_containing(k.probe_r_m, k.probe_z_m));
+  // The case reader keeps both points in the broth; a zone the grid cannot find is not replaced by
+  // another one silently.
+  res.probe_zone = plant->net.zone_containing(k.probe_r_m, k.probe_z_m);
+  if (res.probe_zone < 0) {
+    throw CaseError(fmt::format("the DO probe at r = {:.4g} m, z = {:.4g} m lies in no zone of the grid", k.probe_r_m,
+                                k.probe_z_m));
+  }
   res.grows = c0.culture.grows();
   res.working_volume_m3 = plant->net.total_volume();
-  if (c0.feed.enabled) res.feed_zone = std::max(0, plant->net.zone_containing(c0.feed.r_m, c0.feed.z_m));
+  if (c0.feed.enabled) {
+    res.feed_zone = plant->net.zone_containing(c0.feed.r_m, c0.feed.z_m);
+    if (res.feed_zone < 0) {
+      throw CaseError(fmt::format("the feed point at r = {:.4g} m, z = {:.4g} m lies in no zone of the grid", c0.feed.r_m,
+                                  c0.feed.z_m));
+    }
+  }
   const double air_sat = c0.do_percent.reference_mol_m3;
   const double biomass_ref = std::max(c0.culture.biomass_kg_m3, 1e-9);
 

@@ -3,6 +3,8 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
+#include <cmath>
+
 #include "case_text.hpp"
 #include "physics/solubility.hpp"
 
@@ -51,6 +53,26 @@ TEST(CaseControl, SpeedMinAboveSpeedMaxIsRefused) {
   // Only speed_max below the operating speed: speed_min defaults to it.
   const CaseText d(kBaseCase + "\n[control]\nsetpoint = \"30 %\"\nspeed_max = \"120 rpm\"\n");
   EXPECT_THAT(error_of(d), HasSubstr("by default operation.speed"));
+}
+
+// A DO probe or feed point inside the steel of the bottom head used to be accepted, and the
+// transient then read (or fed) zone 0 at the axis instead. The base vessel: T = 1 m, 2:1
+// ellipsoidal bottom, whose surface at r = 0.45 m is 0.25 (1 - sqrt(1 - 0.9^2)) = 0.141 m high.
+TEST(CaseControl, AProbeOrFeedPointInTheBottomHeadIsRefused) {
+  const CaseText probe(kBaseCase + "\n[control]\nsetpoint = \"30 %\"\nprobe_radius = \"0.45 m\"\nprobe_height = \"0.1 m\"\n");
+  const auto msg = error_of(probe);
+  EXPECT_THAT(msg, HasSubstr(probe.where("probe_height") + ": control.probe_height = \"0.1 m\""));
+  EXPECT_THAT(msg, HasSubstr("the point at r = 0.45 m, z = 0.1 m lies in the vessel bottom: the head surface is 0.141 m "
+                             "high at that radius"));
+  const CaseText feed(kBaseCase + "\n[feed]\nradius = \"0.45 m\"\nheight = \"0.1 m\"\nconcentration = \"500 g/L\"\n"
+                                  "times = [\"0 h\"]\nrates = [\"1 L/h\"]\n");
+  EXPECT_THAT(error_of(feed), HasSubstr(feed.where("height = \"0.1 m\"") + ": feed.height = \"0.1 m\": the point at r = 0.45 m"));
+  // The default probe height, a quarter of the liquid, is lifted clear of the head where it
+  // reaches that high: H = 0.5 m, 0.9 R = 0.45 m, head 0.141 m + 0.05 m above 0.125 m.
+  const auto shallow = load(CaseText(kBaseCase + "\n[control]\nsetpoint = \"30 %\"\n")
+                                .replace("liquid_height = \"1.5 m\"", "liquid_height = \"0.5 m\"")
+                                .replace("elevation = \"1.0 m\"", "elevation = \"0.46 m\""));
+  EXPECT_NEAR(shallow.data.control.probe_z_m, 0.25 * (1.0 - std::sqrt(1.0 - 0.81)) + 0.05, 1e-12);
 }
 
 // Pure O2 used to be refused with a message about co2_fraction (its default, air's CO2, made the
