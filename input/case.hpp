@@ -194,6 +194,9 @@ struct Case {
   std::string title;
   Vessel vessel;
   std::vector<Impeller> impellers;  //!< Bottom to top
+  //! Impellers wholly above the ungassed liquid, left out of the model (input/case_checks.cpp);
+  //! kept so that a caution can say when the gassed broth reaches them.
+  std::vector<Impeller> impellers_above_liquid;
   Sparger sparger;
   bool has_sparger = false;
   Operation operation;

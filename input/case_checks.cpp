@@ -119,6 +119,7 @@ void leave_out_uncovered_impellers(const TomlSource& src, Case& c, std::vector<s
                                 "uncovered",
                                 src.where(fmt::format("impeller.{}.elevation", i)), i, c.impellers[i].elevation_m, h));
   }
+  c.impellers_above_liquid.assign(c.impellers.begin() + static_cast<long>(covered), c.impellers.end());
   c.impellers.resize(covered);
 }
 

@@ -109,6 +109,17 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
                                 100.0 * field->holdup_max, 100.0 * field->volume_fraction_churning,
                                 100.0 * bubbly_flow_holdup));
     }
+    for (size_t i = 0; i < c.impellers_above_liquid.size(); ++i) {
+      const auto& imp = c.impellers_above_liquid[i];
+      const double blades_from = imp.elevation_m - 0.5 * imp.blade_height_m;
+      if (field->gassed_level_m > blades_from) {
+        out.push_back(fmt::format("model range: the gassed broth rises to {:.3g} m, into the blades ({:.3g} m up) of "
+                                  "impeller {}, which the model leaves out as above the ungassed liquid at {:.3g} m: in "
+                                  "operation it turns in the gassed broth, draws some power and beats it into foam. "
+                                  "Cover it (fill higher), or keep the gassed broth below it (less liquid or gas).",
+                                  field->gassed_level_m, blades_from, c.impellers.size() + i, c.vessel.liquid_height_m));
+      }
+    }
     if (c.vessel.shell_top_m > 0.0 && field->gassed_level_m >= c.vessel.shell_top_m) {
       out.push_back(fmt::format("LEVEL: the gassed broth rises to {:.3g} m, at or above the top of the straight side at "
                                 "{:.3g} m ({:.3g} m3 of gas held): foam and broth may reach the head, the exhaust and "

@@ -131,6 +131,23 @@ TEST(Cautions, AnImpellerAboveTheLiquidIsLeftOut) {
   const auto full = run_case(read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml",
                                             {parse_override("grid.axial=24")}).data, {false, false});
   EXPECT_NEAR(run.hydro.power_ungassed_w / full.hydro.power_ungassed_w, 2.0 / 3.0, 1e-9);
+  // At 0.5 vvm the gassed broth rises from 5.5 m past 5.79 m, into the left-out impeller's blades:
+  // a caution says so; filled to 4.5 m it stays below them.
+  const auto reaches = [](const CaseRun& r) {
+    return std::any_of(r.cautions.begin(), r.cautions.end(),
+                       [](const std::string& w) { return w.find("into the blades") != std::string::npos; });
+  };
+  ASSERT_TRUE(run.field);
+  EXPECT_GT(run.field->gassed_level_m, 5.79);
+  EXPECT_TRUE(reaches(run));
+  const auto lower = run_case(read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml",
+                                             {parse_override("vessel.liquid_height=4.5 m"),
+                                              parse_override("vessel.straight_side=8 m"), parse_override("grid.axial=24")})
+                                  .data,
+                              {false, false});
+  ASSERT_TRUE(lower.field);
+  EXPECT_LT(lower.field->gassed_level_m, 5.79);
+  EXPECT_FALSE(reaches(lower));
 }
 
 TEST(Shear, KolmogorovLengthAndStressPerZone) {
