@@ -58,6 +58,8 @@ struct Impeller {
   std::optional<double> gassed_power_factor;  //!< User's Pg/P0 [-], replaces the correlation
   std::optional<double> circulation_factor;   //!< User's Qc/Qp entrainment ratio [-]
   std::optional<double> dissipation_ratio;    //!< User's eps_max / eps_mean of its discharge [-]
+  double blades_from_m() const { return elevation_m - 0.5 * blade_height_m; }  //!< bottom of the swept band [m]
+  double blades_to_m() const { return elevation_m + 0.5 * blade_height_m; }    //!< top of the swept band [m]
 };
 
 struct Sparger {

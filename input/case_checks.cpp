@@ -21,8 +21,8 @@ void check_geometry(const TomlSource& src, const Case& c, std::vector<std::strin
                                            "less than T - 2 x baffle width = {:.4g} m",
                                            imp.diameter_m, free_width));
     }
-    const double band_lo = imp.elevation_m - 0.5 * imp.blade_height_m;
-    const double band_hi = imp.elevation_m + 0.5 * imp.blade_height_m;
+    const double band_lo = imp.blades_from_m();
+    const double band_hi = imp.blades_to_m();
     const bool uncovered = band_lo >= h;
     if (c.vessel.shell_top_m > 0.0 && imp.elevation_m > c.vessel.shell_top_m) {
       src.fail(p + "elevation", fmt::format("the impeller at {:.4g} m is above the top of the vessel's shell at {:.4g} m "
@@ -61,10 +61,10 @@ void check_geometry(const TomlSource& src, const Case& c, std::vector<std::strin
                                               "previous impeller at {:.4g} m",
                                               imp.elevation_m, below.elevation_m));
       }
-      if (band_lo < below.elevation_m + 0.5 * below.blade_height_m) {
+      if (band_lo < below.blades_to_m()) {
         src.fail(p + "elevation", fmt::format("overlaps impeller {}: its blades span {:.4g}-{:.4g} m and the one "
                                               "below reaches {:.4g} m",
-                                              i - 1, band_lo, band_hi, below.elevation_m + 0.5 * below.blade_height_m));
+                                              i - 1, band_lo, band_hi, below.blades_to_m()));
       }
       const double spacing = imp.elevation_m - below.elevation_m;
       if (spacing < below.diameter_m && c.model.multiple_impeller_factor == 1.0 && !uncovered) {
@@ -101,16 +101,17 @@ void check_geometry(const TomlSource& src, const Case& c, std::vector<std::strin
 
 void leave_out_uncovered_impellers(const TomlSource& src, Case& c, std::vector<std::string>& notes) {
   const double h = c.vessel.liquid_height_m;
-  const auto uncovered = [h](const Impeller& imp) { return imp.elevation_m - 0.5 * imp.blade_height_m >= h; };
+  const auto uncovered = [h](const Impeller& imp) { return imp.blades_from_m() >= h; };
   // Listed bottom to top without overlap (check_geometry), so the uncovered ones are the top ones.
   size_t covered = c.impellers.size();
   while (covered > 0 && uncovered(c.impellers[covered - 1])) --covered;
   if (covered == c.impellers.size()) return;
   if (covered == 0) {
     const auto& lowest = c.impellers.front();
-    src.fail("vessel.liquid_height", fmt::format("every impeller is above the liquid surface at {:.4g} m: nothing "
-                                                 "stirs the broth; the lowest needs more than {:.4g} m of liquid",
-                                                 h, lowest.elevation_m + 0.5 * lowest.blade_height_m));
+    src.fail(src.has("vessel.liquid_height") ? "vessel.liquid_height" : "vessel.working_volume",
+             fmt::format("every impeller is above the liquid surface at {:.4g} m: nothing stirs the broth; the "
+                         "lowest needs more than {:.4g} m of liquid",
+                         h, lowest.blades_to_m()));
   }
   for (size_t i = covered; i < c.impellers.size(); ++i) {
     notes.push_back(fmt::format("{}: impeller {} at {:.4g} m is above the liquid surface at {:.4g} m and is left out "

@@ -111,7 +111,7 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
     }
     for (size_t i = 0; i < c.impellers_above_liquid.size(); ++i) {
       const auto& imp = c.impellers_above_liquid[i];
-      const double blades_from = imp.elevation_m - 0.5 * imp.blade_height_m;
+      const double blades_from = imp.blades_from_m();
       if (field->gassed_level_m > blades_from) {
         out.push_back(fmt::format("model range: the gassed broth rises to {:.3g} m, into the blades ({:.3g} m up) of "
                                   "impeller {}, which the model leaves out as above the ungassed liquid at {:.3g} m: in "

@@ -28,20 +28,15 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
   const int n = plant->net.size();
   // The case reader keeps both points in the broth; a zone the grid cannot find is not replaced by
   // another one silently.
-  res.probe_zone = plant->net.zone_containing(k.probe_r_m, k.probe_z_m);
-  if (res.probe_zone < 0) {
-    throw CaseError(fmt::format("the DO probe at r = {:.4g} m, z = {:.4g} m lies in no zone of the grid", k.probe_r_m,
-                                k.probe_z_m));
-  }
+  const auto zone_of = [&plant](const char* what, double r, double z) {
+    const int k = plant->net.zone_containing(r, z);
+    if (k < 0) throw CaseError(fmt::format("the {} at r = {:.4g} m, z = {:.4g} m lies in no zone of the grid", what, r, z));
+    return k;
+  };
+  res.probe_zone = zone_of("DO probe", k.probe_r_m, k.probe_z_m);
   res.grows = c0.culture.grows();
   res.working_volume_m3 = plant->net.total_volume();
-  if (c0.feed.enabled) {
-    res.feed_zone = plant->net.zone_containing(c0.feed.r_m, c0.feed.z_m);
-    if (res.feed_zone < 0) {
-      throw CaseError(fmt::format("the feed point at r = {:.4g} m, z = {:.4g} m lies in no zone of the grid", c0.feed.r_m,
-                                  c0.feed.z_m));
-    }
-  }
+  if (c0.feed.enabled) res.feed_zone = zone_of("feed point", c0.feed.r_m, c0.feed.z_m);
   const double air_sat = c0.do_percent.reference_mol_m3;
   const double biomass_ref = std::max(c0.culture.biomass_kg_m3, 1e-9);
 
