@@ -128,16 +128,22 @@ void add_sweep_command(CLI::App& app) {
                  summary_display(results[chosen].values, "do_min"));
     }
     fmt::print("\n");
+    const auto cautions = chosen >= 0 ? point_cautions(base, base_overrides, p, static_cast<size_t>(chosen), so)
+                                      : std::vector<std::string>{};
+    if (!cautions.empty()) {
+      fmt::print("Cautions at the chosen point (defer to local codes, the vessel's certification and licensed practice)\n");
+      for (const auto& w : cautions) fmt::print("  - {}\n", w);
+    }
     fmt::print("{}", sweep_honesty_text(p, results, chosen));
     write_sweep_csv(folder->file("sweep.csv").string(), p, results, pareto, chosen);
     {
       H5Writer h5(folder->file("result.h5").string());
       write_case_h5(h5, base);
-      write_sweep_h5(h5, p, results, pareto, chosen, o->objective);
+      write_sweep_h5(h5, p, results, pareto, chosen, o->objective, cautions);
       h5.close();
     }
     write_text_file(folder->file("report.html").string(),
-                    report_page("oxystrat sweep: " + base.data.title, sweep_report_body(p, results, pareto, chosen, o->objective)));
+                    report_page("oxystrat sweep: " + base.data.title, sweep_report_body(p, results, pareto, chosen, o->objective, cautions)));
     folder->commit();
     session.finish();
     fmt::print("Wrote {}/sweep.csv, result.h5, report.html\n", folder->target().string());

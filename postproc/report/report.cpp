@@ -39,7 +39,10 @@ std::string values_table(const std::vector<SummaryValue>& values) {
 // A named summary value with its own unit, adapted to its size: "0.0123 mmol/L", "350 W/m3".
 std::string value_text(const std::vector<SummaryValue>& values, const std::string& name) {
   for (const auto& v : values) {
-    if (v.name == name) return report::format_quantity(v.value, v.unit);
+    if (v.name != name) continue;
+    // The tables' unit (mmol/L for DO); power keeps the prefix that suits its size.
+    if (v.display_unit.empty() || v.unit == "W") return report::format_quantity(v.value, v.unit);
+    return report::format_number(v.display()) + " " + v.display_unit;
   }
   return "\xE2\x80\x93";
 }
@@ -257,7 +260,8 @@ std::string compare_report_body(const std::vector<ComparedCase>& cases) {
 }
 
 std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResult>& results,
-                              const std::vector<bool>& pareto, int chosen, const std::string& objective) {
+                              const std::vector<bool>& pareto, int chosen, const std::string& objective,
+                              const std::vector<std::string>& chosen_cautions) {
   size_t feasible_count = 0;
   for (const auto& r : results) feasible_count += r.ok && r.feasible ? 1 : 0;
   std::string headline, detail = fmt::format("{} of {} points meet the constraints.", feasible_count, results.size());
@@ -271,11 +275,20 @@ std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResu
     headline = "Run at " + at + ": the least " + what + " that meets the constraints.";
     const auto& v = results[chosen].values;
     detail += fmt::format(" There: DO min {}, gassed power {}.", value_text(v, "do_min"), value_text(v, "power_gassed"));
+    if (!chosen_cautions.empty()) {
+      detail += fmt::format(" Read the {} caution{} below before running there.", chosen_cautions.size(),
+                            chosen_cautions.size() == 1 ? "" : "s");
+    }
   } else {
     headline = "No point of the sweep meets the constraints.";
     detail += " Widen the ranges, or see `oxystrat levers` for what else to move.";
   }
-  std::string s = verdict_box_html(chosen >= 0, headline, detail) + "<h2>Operating window</h2>\n";
+  std::string s = verdict_box_html(chosen >= 0, headline, detail);
+  if (!chosen_cautions.empty()) {
+    s += "<h3>Cautions at the chosen point</h3>\n<p>Defer to local codes, the vessel's certification and licensed "
+         "practice.</p>\n" + list(chosen_cautions, "");
+  }
+  s += "<h2>Operating window</h2>\n";
   s += sweep_honesty_html(plan, results, chosen) + "<div class=\"row\">\n";
   const std::vector<std::string> groups{"failed / infeasible", "feasible", "chosen"};
   const std::vector<std::string> colors{"#cccccc", "#2ca02c", "#d62728"};

@@ -36,9 +36,11 @@ struct ComparedCase {
 };
 std::string compare_report_body(const std::vector<ComparedCase>& cases);
 
-//! The operating window of a sweep: feasible region, chosen point, Pareto front, the table.
+//! The operating window of a sweep: feasible region, chosen point and its cautions, Pareto front,
+//! the table.
 std::string sweep_report_body(const SweepPlan& plan, const std::vector<PointResult>& results,
-                              const std::vector<bool>& pareto, int chosen, const std::string& objective);
+                              const std::vector<bool>& pareto, int chosen, const std::string& objective,
+                              const std::vector<std::string>& chosen_cautions);
 
 void write_text_file(const std::string& path, const std::string& text);
 

@@ -36,7 +36,46 @@ const Column kColumns[] = {
     {"pCO2", "mmHg", [](const ScaleMetrics& m) { return m.effects.pco2_max_pa / kMmHgPa; }},
 };
 
-std::string verdict(const ScaleMetrics& m) { return m.effects.feasible ? "meets" : "fails"; }
+std::string verdict(const ScaleMetrics& m) {
+  const size_t n = m.effects.cautions.size();
+  return std::string(m.effects.feasible ? "meets" : "fails") +
+         (n == 0 ? "" : fmt::format(" ({} caution{})", n, n == 1 ? "" : "s"));
+}
+
+// The cautions of the production points, each said once: those every point shares first, then
+// each point's own. A criterion not reached has no point of its own (it is shown at the nearer
+// end of the speeds tried), so it has no cautions here.
+struct CautionGroup {
+  std::string where;
+  std::vector<std::string> cautions;
+};
+
+std::vector<CautionGroup> production_cautions(const ScaleUpStudy& s) {
+  std::vector<const ScaleUpRow*> rows;
+  for (const auto& r : s.rows) {
+    if (r.reached) rows.push_back(&r);
+  }
+  const auto has = [](const ScaleUpRow* r, const std::string& w) {
+    const auto& c = r->production.effects.cautions;
+    return std::find(c.begin(), c.end(), w) != c.end();
+  };
+  std::vector<CautionGroup> groups{{"every production point", {}}};
+  if (rows.size() > 1) {
+    for (const auto& w : rows.front()->production.effects.cautions) {
+      if (std::all_of(rows.begin(), rows.end(), [&](const ScaleUpRow* r) { return has(r, w); })) groups[0].cautions.push_back(w);
+    }
+  }
+  const auto shared = groups[0].cautions;  // a copy: groups grows below
+  for (const auto* r : rows) {
+    CautionGroup g{r->criterion, {}};
+    for (const auto& w : r->production.effects.cautions) {
+      if (std::find(shared.begin(), shared.end(), w) == shared.end()) g.cautions.push_back(w);
+    }
+    groups.push_back(std::move(g));
+  }
+  std::erase_if(groups, [](const CautionGroup& g) { return g.cautions.empty(); });
+  return groups;
+}
 
 std::string broken(const ScaleMetrics& m) {
   std::string s;
@@ -105,6 +144,12 @@ std::string scale_up_text(const Case& pilot, const Case& production, const Scale
     if (!r.note.empty()) t += "      " + r.note + "\n";
     if (r.reached && !r.production.effects.feasible) t += "      breaks: " + broken(r.production) + "\n";
   }
+  const auto groups = production_cautions(s);
+  if (!groups.empty()) t += "Cautions at the production points (defer to local codes, the vessel's certification and licensed practice)\n";
+  for (const auto& g : groups) {
+    t += "  " + g.where + ":\n";
+    for (const auto& w : g.cautions) t += "    - " + w + "\n";
+  }
   return t;
 }
 
@@ -112,14 +157,15 @@ void write_scale_up_csv(const std::string& path, const ScaleUpStudy& s) {
   std::ofstream out(path, std::ios::binary);
   out << "criterion";
   for (const auto& c : kColumns) out << "," << c.head << " [" << c.unit << "]";
-  out << ",reached,meets constraints,breaks\n";
+  out << ",reached,meets constraints,breaks,cautions [1]\n";
   // A criterion that was not reached has no operating point: its cells stay empty.
   const auto row = [&](const std::string& name, const ScaleMetrics& m, bool reached) {
     out << name;
     for (const auto& c : kColumns) out << (reached ? fmt::format(",{:.8g}", c.get(m)) : ",");
     std::string b = reached ? broken(m) : "";
     for (auto& ch : b) ch = ch == ',' ? ';' : ch;
-    out << "," << (reached ? "yes" : "no") << "," << (reached ? (m.effects.feasible ? "yes" : "no") : "") << "," << b << "\n";
+    out << "," << (reached ? "yes" : "no") << "," << (reached ? (m.effects.feasible ? "yes" : "no") : "") << "," << b << ","
+        << (reached ? std::to_string(m.effects.cautions.size()) : "") << "\n";
   };
   row("pilot", s.pilot, true);
   for (const auto& r : s.rows) row(r.criterion, r.production, r.reached);
@@ -152,6 +198,16 @@ void write_scale_up_h5(H5Writer& h5, const ScaleUpStudy& s) {
   h5.attribute("/scale_up/criterion", "meaning", "row 0 is the pilot, row 1 the production case as written");
   h5.write("/scale_up/reached", reached, "1");
   h5.write("/scale_up/meets_constraints", meets, "1");
+  std::vector<std::string> cautions;
+  std::vector<int> caution_rows;
+  for (size_t i = 1; i < rows.size(); ++i) {  // the production points: row 0 is the pilot
+    if (!reached[i]) continue;
+    for (const auto& w : rows[i]->effects.cautions) cautions.push_back(w), caution_rows.push_back(static_cast<int>(i));
+  }
+  h5.write("/scale_up/cautions", cautions);
+  h5.attribute("/scale_up/cautions", "meaning", "the cautions `run` gives at each production point (the pilot's are not included); /scale_up/caution_row says whose");
+  h5.write("/scale_up/caution_row", caution_rows, "1");
+  h5.attribute("/scale_up/caution_row", "meaning", "the row of /scale_up/criterion each entry of /scale_up/cautions belongs to");
   field("speed", "1/s", [](const ScaleMetrics& m) { return m.speed_rps; });
   field("gas_flow_normal", "m3/s", [](const ScaleMetrics& m) { return m.gas_normal_m3_s; });
   field("power_per_volume", "W/m3", [](const ScaleMetrics& m) { return m.power_per_volume_w_m3; });
@@ -203,6 +259,13 @@ std::string scale_up_report_body(const Case& pilot, const Case& production, cons
   b += svg::bar_chart("DO min at scale, by criterion", "DO min [mmol/L]", cats, {"DO min"}, {dmin}, 640, 320);
   b += svg::bar_chart("Gassed P/V at scale, by criterion", "P/V [" + pv_unit.unit + "]", cats, {"P/V"}, {pv}, 640, 320);
   b += "</div>\n";
+  const auto groups = production_cautions(s);
+  if (!groups.empty()) b += "<h3>Cautions at the production points</h3>\n<p>Defer to local codes, the vessel's certification and licensed practice.</p>\n";
+  for (const auto& g : groups) {
+    b += "<h4>" + escape(g.where) + "</h4>\n<ul>\n";
+    for (const auto& w : g.cautions) b += "<li>" + escape(w) + "</li>\n";
+    b += "</ul>\n";
+  }
   return b;
 }
 

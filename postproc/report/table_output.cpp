@@ -165,7 +165,8 @@ void write_sweep_csv(const std::string& path, const SweepPlan& plan, const std::
 }
 
 void write_sweep_h5(H5Writer& h5, const SweepPlan& plan, const std::vector<PointResult>& results,
-                    const std::vector<bool>& pareto, int chosen, const std::string& objective) {
+                    const std::vector<bool>& pareto, int chosen, const std::string& objective,
+                    const std::vector<std::string>& chosen_cautions) {
   const size_t n = results.size();
   for (size_t d = 0; d < plan.axes.size(); ++d) {
     std::vector<double> col(n);
@@ -197,6 +198,8 @@ void write_sweep_h5(H5Writer& h5, const SweepPlan& plan, const std::vector<Point
   h5.attribute("/sweep/chosen_on_edge", "meaning",
                "1 when the chosen point has the smallest or largest swept value of a varied key: extend the range");
   h5.write("/sweep/chosen_edge_axes", edges);
+  h5.write("/sweep/chosen_cautions", chosen_cautions);
+  h5.attribute("/sweep/chosen_cautions", "meaning", "the cautions `run` gives at the chosen point; empty: none or no point chosen");
   const auto values = ok_values(results);
   for (const auto* row : row_names(values)) {
     std::vector<double> col(n, std::numeric_limits<double>::quiet_NaN());

@@ -29,6 +29,7 @@ void write_compare_h5(H5Writer& h5, const std::vector<std::string>& names,
 void write_sweep_csv(const std::string& path, const SweepPlan& plan, const std::vector<PointResult>& results,
                      const std::vector<bool>& pareto, int chosen);
 void write_sweep_h5(H5Writer& h5, const SweepPlan& plan, const std::vector<PointResult>& results,
-                    const std::vector<bool>& pareto, int chosen, const std::string& objective);
+                    const std::vector<bool>& pareto, int chosen, const std::string& objective,
+                    const std::vector<std::string>& chosen_cautions);
 
 }  // namespace oxystrat

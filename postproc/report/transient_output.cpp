@@ -152,11 +152,7 @@ std::vector<std::string> transient_cautions(const Case& c, const TransientResult
                               "(materials, lubricants, exhaust); follow local codes and the plant's O2 safety rules",
                               100 * o2_max));
   }
-  if (pco2_max > pco2_inhibition_pa) {
-    out.push_back(fmt::format("dissolved CO2 reached {:.0f} mmHg, above the {:.0f} mmHg where cell cultures are "
-                              "inhibited (Gray et al. 1996)",
-                              pco2_max / kMmHgPa, pco2_inhibition_pa / kMmHgPa));
-  }
+  if (auto w = pco2_caution(c.culture.kind, pco2_max); !w.empty()) out.push_back(std::move(w));
   if (probe_ok_below > 0.0) {
     out.push_back(fmt::format("the probe read at or above critical DO while up to {:.1f} % of the volume was below it: "
                               "the control loop sees its own zone only",

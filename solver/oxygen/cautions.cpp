@@ -5,11 +5,49 @@
 #include <algorithm>
 #include <cmath>
 
+#include "physics/mass_transfer.hpp"
 #include "physics/solubility.hpp"
 #include "solver/flow/viscous_flow.hpp"
 #include "physics/constants.hpp"
 
 namespace oxystrat {
+
+std::string pco2_caution(CultureKind kind, double pco2_pa) {
+  if (!(pco2_pa > pco2_inhibition_pa)) return "";
+  if (kind == CultureKind::cell) {
+    return fmt::format("pCO2 reaches {:.0f} mmHg, above the ~150 mmHg known to inhibit cell cultures (Gray et al. 1996).",
+                       pco2_pa / kMmHgPa);
+  }
+  return fmt::format("pCO2 reaches {:.0f} mmHg: dissolved CO2 slows the growth and product formation of many bacteria "
+                     "and fungi from about 0.1-0.3 bar (75-225 mmHg), with wide differences between organisms [from "
+                     "memory]; check your strain's tolerance.",
+                     pco2_pa / kMmHgPa);
+}
+
+namespace {
+
+// The O2 solubility fit and the kLa temperature factor hold near room temperature; a thermophile
+// or a cold culture takes both beyond their data.
+std::string temperature_caution(double temperature_k) {
+  const double celsius = temperature_k - 273.15;
+  const std::string factor = fmt::format(
+      "the kLa temperature factor 1.024^(T - 20 degC) of the van 't Riet correlation, common practice in aeration "
+      "testing near 10-30 degC [from memory], here x{:.2g}",
+      kla_temperature_factor(temperature_k));
+  if (celsius > 40.0) {
+    return fmt::format("model range: at {:.0f} degC the O2 solubility of Benson & Krause (1984), fitted to data up to "
+                       "about 40 degC [from memory] (1.9 % below a handbook table at 50 degC, `oxystrat validate`), "
+                       "and {}, are extrapolated; measure kLa and the O2 saturation at the process temperature.",
+                       celsius, factor);
+  }
+  if (celsius < 10.0) {
+    return fmt::format("model range: at {:.0f} degC {} is extrapolated; measure kLa at the process temperature.", celsius,
+                       factor);
+  }
+  return "";
+}
+
+}  // namespace
 
 std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const OxygenField* field) {
   std::vector<std::string> out;
@@ -38,9 +76,17 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
   }
   for (size_t m = 0; m < h.impellers.size(); ++m) {
     if (h.impellers[m].regime == GasRegime::flooded) {
+      // The criterion is the Rushton turbine's; other types carry it scaled by their capacity.
+      const ImpellerType type = c.impellers[m].type;
+      const std::string criterion =
+          type == ImpellerType::rushton
+              ? "criterion for Rushton turbines, Nienow et al. 1985"
+              : fmt::format("the Rushton turbine's criterion of Nienow et al. 1985 times {:.3g}, the {} type's gas "
+                            "capacity relative to it [from memory]",
+                            impeller_data(type).flooding_capacity, to_string(type));
       out.push_back(fmt::format("impeller {} is FLOODED (Fl_G = {:.3g} > {:.3g}): gas rises as a plume past it; raise "
-                                "the speed or lower the gas flow (criterion for Rushton turbines, Nienow et al. 1985).",
-                                m, h.impellers[m].aeration_number, h.impellers[m].flooding_aeration));
+                                "the speed or lower the gas flow ({}).",
+                                m, h.impellers[m].aeration_number, h.impellers[m].flooding_aeration, criterion));
     }
   }
   if (!c.impellers.empty()) {
@@ -73,6 +119,7 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
     }
   }
   if (field != nullptr) {
+    if (auto w = temperature_caution(v.temperature_k); !w.empty()) out.push_back(std::move(w));
     // Over the moving broth: stagnant broth outside the caverns is at the zero-shear limit, and
     // its kLa hardly matters (it is fed by diffusion, said in the cavern caution).
     double mu_max = 0.0;
@@ -85,11 +132,7 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
                                 "Pa s [mem]; measure kLa in the broth where you can.",
                                 mu_max));
     }
-    if (field->pco2_max_pa > pco2_inhibition_pa) {
-      out.push_back(fmt::format("pCO2 reaches {:.0f} mmHg, above the ~150 mmHg known to inhibit cell cultures (Gray et "
-                                "al. 1996).",
-                                field->pco2_max_pa / kMmHgPa));
-    }
+    if (auto w = pco2_caution(c.culture.kind, field->pco2_max_pa); !w.empty()) out.push_back(std::move(w));
     if (field->volume_fraction_churning > widespread_churning_share) {
       // Not a plume but the vessel's gas flow: a tall vessel at a high superficial velocity.
       const double vs_max = *std::max_element(field->superficial_gas_m_s.begin(), field->superficial_gas_m_s.end());
@@ -103,10 +146,12 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
           100.0 * field->holdup_max, 100.0 * field->holdup_max / (1.0 + field->holdup_max), 100.0 * bubbly_flow_holdup,
           100.0 * field->volume_fraction_churning, vs_max));
     } else if (field->volume_fraction_churning > 0.0) {
-      out.push_back(fmt::format("model range: gas holdup reaches {:.0f} % ({:.1f} % of the volume above {:.0f} %), beyond "
+      // A single small zone may hold under 0.05 % of the volume: never print it as "0.0 %".
+      const double share = 100.0 * field->volume_fraction_churning;
+      out.push_back(fmt::format("model range: gas holdup reaches {:.0f} % ({} of the volume above {:.0f} %), beyond "
                                 "bubbly flow: churning gas plumes there (typically the sparger plume) are not described "
                                 "by the zone model; holdup, kLa and pressure there are rough.",
-                                100.0 * field->holdup_max, 100.0 * field->volume_fraction_churning,
+                                100.0 * field->holdup_max, share < 0.05 ? "under 0.1 %" : fmt::format("{:.1f} %", share),
                                 100.0 * bubbly_flow_holdup));
     }
     for (size_t i = 0; i < c.impellers_above_liquid.size(); ++i) {

@@ -15,7 +15,12 @@ namespace oxystrat {
 //! `field` may be null (no gas: only the hydrodynamic cautions apply).
 std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const OxygenField* field);
 
-//! pCO2 above which cell cultures are inhibited [Pa]: 150 mmHg (Gray et al. 1996).
+//! pCO2 above which cell cultures are inhibited [Pa]: 150 mmHg (Gray et al. 1996). Microbial
+//! cultures are cautioned from the same value, the middle of their wide range.
 inline constexpr double pco2_inhibition_pa = 150.0 * kMmHgPa;
+
+//! The caution for a largest pCO2 of `pco2_pa` in a culture of this kind; empty below
+//! pco2_inhibition_pa.
+std::string pco2_caution(CultureKind kind, double pco2_pa);
 
 }  // namespace oxystrat

@@ -133,12 +133,19 @@ KlaCalibration calibrate_kla(const LoadedCase& base, const std::vector<Override>
   if (!res.gas_exponent_fitted && !res.power_exponent_fitted) {
     // Only the prefactor would move: a calibration of nothing but the level, which
     // model.kla_factor states honestly, with no claim about how kLa scales.
+    // The level alone is what the data do give: the factor on the case's correlation they imply.
+    double ln_ratio = 0.0, weights = 0.0;
+    for (const auto& r : res.rows) ln_ratio += r.weight * std::log(r.measured_1_s / r.before_1_s), weights += r.weight;
+    const double factor = res.rows.front().inputs.kla_factor * std::exp(ln_ratio / weights);
+    const std::string what =
+        n == 1 ? std::string("one operating point cannot fit an exponent")
+               : fmt::format("the {} operating points have no spread: the speed varies by {:.1f} % and the superficial "
+                             "gas velocity by {:.1f} % (at least 10 % each is needed to fit an exponent)",
+                             n, 100.0 * std::expm1(spread(ln_speed)), 100.0 * std::expm1(spread(x2)));
     throw CaseError(fmt::format(
-        "{}: the {} operating points have no spread: the speed varies by {:.1f} % and the superficial gas velocity by "
-        "{:.1f} % (at least 10 % each is needed to fit an exponent), so the correlation cannot be calibrated; measure "
-        "at two or more speeds and two or more gas flows, or, for one operating point, set model.kla_factor to "
-        "measured / predicted kLa",
-        data.file_name, n, 100.0 * std::expm1(spread(ln_speed)), 100.0 * std::expm1(spread(x2))));
+        "{}: {}, so the correlation cannot be calibrated; measure at two or more speeds and two or more gas flows, or "
+        "keep the correlation's form and set model.kla_factor = {:.3g} (measured / predicted kLa{})",
+        data.file_name, what, factor, n == 1 ? "" : ", geometric mean over the points"));
   }
   if (!res.gas_exponent_fitted) {
     res.warnings.push_back(fmt::format(

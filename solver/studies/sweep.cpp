@@ -187,6 +187,18 @@ PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supp
   return r;
 }
 
+std::vector<std::string> point_cautions(const LoadedCase& base, const std::vector<Override>& base_overrides,
+                                        const SweepPlan& plan, size_t i, const SweepOptions& opts) {
+  auto overrides = base_overrides;
+  for (auto& o : point_overrides(plan, i)) overrides.push_back(o);
+  try {
+    const auto loaded = read_case_text(base.source_text, base.file_name, overrides);
+    return run_case(loaded.data, {opts.supportable_biomass}).cautions;
+  } catch (const std::exception&) {
+    return {};  // the sweep's own result already says why the point failed
+  }
+}
+
 std::vector<std::string> sweep_value_names(const Case& base, const SweepOptions& opts) {
   auto names = summary_value_names(opts.with_mixing);
   for (auto& n : limit_value_names(base)) names.push_back(std::move(n));

@@ -101,6 +101,11 @@ void run_sweep(const LoadedCase& base, const std::vector<Override>& base_overrid
 PointResult evaluate_point(const LoadedCase& loaded, bool with_mixing, bool supportable_biomass,
                            int uncertainty_samples = 0, std::uint64_t seed = 1, NewtonWorkspace* workspace = nullptr);
 
+//! The cautions `run` gives at point `i` of the plan (the point is run again: a sweep keeps only
+//! their count per point). Empty when the point fails to run.
+std::vector<std::string> point_cautions(const LoadedCase& base, const std::vector<Override>& base_overrides,
+                                        const SweepPlan& plan, size_t i, const SweepOptions& opts);
+
 //! The uncertainty quantiles as summary values ("do_min_p10", ...), appended to a point's values.
 void append_uncertainty_values(const Case& c, int samples, std::uint64_t seed, bool with_mixing,
                                std::vector<SummaryValue>& values);

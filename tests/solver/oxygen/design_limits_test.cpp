@@ -11,6 +11,7 @@
 #include "physics/heat.hpp"
 #include "physics/solubility.hpp"
 #include "solver/oxygen/case_run.hpp"
+#include "solver/oxygen/cautions.hpp"
 
 namespace oxystrat {
 namespace {
@@ -97,6 +98,42 @@ TEST(Cautions, ChurningGasIsAPlumeOrTheVesselsGasFlow) {
   const std::string vessel = churning("tall-bacterial-150m3.toml", {parse_override("operation.gas_flow=1 vvm")});
   EXPECT_NE(vessel.find("not a sparger plume but the gas flow itself"), std::string::npos) << vessel;
   EXPECT_NE(vessel.find("of the gassed dispersion"), std::string::npos) << vessel;
+}
+
+TEST(Cautions, HighPco2IsJudgedByTheCultureKind) {
+  // 150 mmHg: the cell-culture threshold of Gray et al. (1996); microbial cultures are cautioned
+  // from the same value with their own (wide, from memory) range, never with the cell-culture text.
+  const double mmhg = 133.322;
+  EXPECT_EQ(pco2_caution(CultureKind::cell, 149.0 * mmhg), "");
+  EXPECT_EQ(pco2_caution(CultureKind::microbial, 149.0 * mmhg), "");
+  const std::string cell = pco2_caution(CultureKind::cell, 160.0 * mmhg);
+  EXPECT_NE(cell.find("pCO2 reaches 160 mmHg"), std::string::npos) << cell;
+  EXPECT_NE(cell.find("Gray et al. 1996"), std::string::npos) << cell;
+  const std::string microbial = pco2_caution(CultureKind::microbial, 160.0 * mmhg);
+  EXPECT_NE(microbial.find("bacteria and fungi"), std::string::npos) << microbial;
+  EXPECT_EQ(microbial.find("cell cultures"), std::string::npos) << microbial;
+}
+
+TEST(Cautions, ATemperatureBeyondTheSolubilityAndKlaDataIsCautioned) {
+  // Benson & Krause (1984) fitted O2 solubility to about 40 degC and the 1.024 kLa factor is used
+  // near 10-30 degC (both from memory): a thermophile at 65 degC and a culture at 5 degC are told,
+  // the demo's 30 degC is not.
+  const auto temperature_caution = [](const std::string& t) {
+    const Case c = read_case_file(fixtures::source_dir() + "/cases/pilot-300L.toml",
+                                  {parse_override("vessel.temperature=" + t)}).data;
+    const auto run = run_case(c, {false, false});
+    for (const auto& w : run.cautions) {
+      if (w.find("degC the") != std::string::npos) return w;
+    }
+    return std::string();
+  };
+  EXPECT_EQ(temperature_caution("30 degC"), "");
+  const std::string hot = temperature_caution("65 degC");
+  EXPECT_NE(hot.find("at 65 degC the O2 solubility of Benson & Krause (1984)"), std::string::npos) << hot;
+  EXPECT_NE(hot.find("here x2.9"), std::string::npos) << hot;  // 1.024^45 = 2.90
+  const std::string cold = temperature_caution("5 degC");
+  EXPECT_NE(cold.find("at 5 degC the kLa temperature factor"), std::string::npos) << cold;
+  EXPECT_NE(cold.find("here x0.7"), std::string::npos) << cold;  // 1.024^-15 = 0.70
 }
 
 TEST(Cautions, ATopImpellerNearTheSurfaceIsCautioned) {

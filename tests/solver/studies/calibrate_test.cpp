@@ -206,6 +206,21 @@ TEST(CalibrateKla, PointsWithNoSpreadAreRefused) {
   }
 }
 
+// One measured point gives the level and nothing else: the refusal says which kla_factor matches it.
+TEST(CalibrateKla, OnePointIsRefusedWithTheFactorThatMatchesIt) {
+  const auto base = read_case_file(kPilot);
+  auto d = points({{400, 1.0}});
+  // Twice the pilot's own correlation, van 't Riet (1979) coalescing constants as in the tests above.
+  model_values(base, d, {2 * 0.026, 0.4, 0.5});
+  try {
+    calibrate_kla(base, {}, d, no_zone_check());
+    FAIL() << "one point was calibrated";
+  } catch (const CaseError& e) {
+    EXPECT_THAT(e.what(), HasSubstr("points.csv: one operating point cannot fit an exponent"));
+    EXPECT_THAT(e.what(), HasSubstr("model.kla_factor = 2 (measured / predicted kLa)"));
+  }
+}
+
 TEST(CalibrateKla, ExponentOutsideThePublishedBandIsWarned) {
   const auto base = read_case_file(kPilot);
   auto d = points(full_design());
