@@ -131,7 +131,8 @@ void add_sweep_command(CLI::App& app) {
     const auto cautions = chosen >= 0 ? point_cautions(base, base_overrides, p, static_cast<size_t>(chosen), so)
                                       : std::vector<std::string>{};
     if (!cautions.empty()) {
-      fmt::print("Cautions at the chosen point (defer to local codes, the vessel's certification and licensed practice)\n");
+      fmt::print("Cautions at the chosen point (defer to local codes, the vessel's certification and licensed "
+                 "practice)\n");
       for (const auto& w : cautions) fmt::print("  - {}\n", w);
     }
     fmt::print("{}", sweep_honesty_text(p, results, chosen));
@@ -143,7 +144,8 @@ void add_sweep_command(CLI::App& app) {
       h5.close();
     }
     write_text_file(folder->file("report.html").string(),
-                    report_page("oxystrat sweep: " + base.data.title, sweep_report_body(p, results, pareto, chosen, o->objective, cautions)));
+                    report_page("oxystrat sweep: " + base.data.title,
+                                sweep_report_body(p, results, pareto, chosen, o->objective, cautions)));
     folder->commit();
     session.finish();
     fmt::print("Wrote {}/sweep.csv, result.h5, report.html\n", folder->target().string());

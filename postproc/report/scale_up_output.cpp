@@ -145,7 +145,10 @@ std::string scale_up_text(const Case& pilot, const Case& production, const Scale
     if (r.reached && !r.production.effects.feasible) t += "      breaks: " + broken(r.production) + "\n";
   }
   const auto groups = production_cautions(s);
-  if (!groups.empty()) t += "Cautions at the production points (defer to local codes, the vessel's certification and licensed practice)\n";
+  if (!groups.empty()) {
+    t += "Cautions at the production points (defer to local codes, the vessel's certification and licensed "
+         "practice)\n";
+  }
   for (const auto& g : groups) {
     t += "  " + g.where + ":\n";
     for (const auto& w : g.cautions) t += "    - " + w + "\n";
@@ -205,7 +208,9 @@ void write_scale_up_h5(H5Writer& h5, const ScaleUpStudy& s) {
     for (const auto& w : rows[i]->effects.cautions) cautions.push_back(w), caution_rows.push_back(static_cast<int>(i));
   }
   h5.write("/scale_up/cautions", cautions);
-  h5.attribute("/scale_up/cautions", "meaning", "the cautions `run` gives at each production point (the pilot's are not included); /scale_up/caution_row says whose");
+  h5.attribute("/scale_up/cautions", "meaning",
+               "the cautions `run` gives at each production point (the pilot's are not included); "
+               "/scale_up/caution_row says whose");
   h5.write("/scale_up/caution_row", caution_rows, "1");
   h5.attribute("/scale_up/caution_row", "meaning", "the row of /scale_up/criterion each entry of /scale_up/cautions belongs to");
   field("speed", "1/s", [](const ScaleMetrics& m) { return m.speed_rps; });
@@ -260,7 +265,10 @@ std::string scale_up_report_body(const Case& pilot, const Case& production, cons
   b += svg::bar_chart("Gassed P/V at scale, by criterion", "P/V [" + pv_unit.unit + "]", cats, {"P/V"}, {pv}, 640, 320);
   b += "</div>\n";
   const auto groups = production_cautions(s);
-  if (!groups.empty()) b += "<h3>Cautions at the production points</h3>\n<p>Defer to local codes, the vessel's certification and licensed practice.</p>\n";
+  if (!groups.empty()) {
+    b += "<h3>Cautions at the production points</h3>\n<p>Defer to local codes, the vessel's certification and "
+         "licensed practice.</p>\n";
+  }
   for (const auto& g : groups) {
     b += "<h4>" + escape(g.where) + "</h4>\n<ul>\n";
     for (const auto& w : g.cautions) b += "<li>" + escape(w) + "</li>\n";

@@ -199,7 +199,8 @@ void write_sweep_h5(H5Writer& h5, const SweepPlan& plan, const std::vector<Point
                "1 when the chosen point has the smallest or largest swept value of a varied key: extend the range");
   h5.write("/sweep/chosen_edge_axes", edges);
   h5.write("/sweep/chosen_cautions", chosen_cautions);
-  h5.attribute("/sweep/chosen_cautions", "meaning", "the cautions `run` gives at the chosen point; empty: none or no point chosen");
+  h5.attribute("/sweep/chosen_cautions", "meaning",
+               "the cautions `run` gives at the chosen point; empty: none or no point chosen");
   const auto values = ok_values(results);
   for (const auto* row : row_names(values)) {
     std::vector<double> col(n, std::numeric_limits<double>::quiet_NaN());
