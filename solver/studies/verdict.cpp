@@ -94,11 +94,22 @@ Verdict make_verdict(const Case& c, const CaseRun& run) {
     v.headline = fmt::format("FINE: every constraint holds; the lowest DO is {:.3g} mmol/L, {:.0f} % above the floor of "
                              "{:.3g} mmol/L.",
                              f.do_min, 100.0 * (f.do_min / v.do_floor_mol_m3 - 1.0), v.do_floor_mol_m3);
+    // Beyond bubbly flow in much of the tank, one bubble size per zone holds too much gas: the
+    // holdup, and the kLa it gives, are overstated, so a pass there is not to be trusted as it reads.
+    const bool churning = f.volume_fraction_churning > widespread_churning_share;
+    if (churning) {
+      v.headline += fmt::format(" But the gas holdup passes {:.0f} % in {:.0f} % of the volume: churn-turbulent flow, "
+                                "where the model overstates holdup and kLa, so this answer is optimistic.",
+                                100.0 * bubbly_flow_holdup, 100.0 * f.volume_fraction_churning);
+    }
     if (!run.cautions.empty()) {
       v.headline += fmt::format(" Read the {} caution{} below before relying on it.", run.cautions.size(),
                                 run.cautions.size() == 1 ? "" : "s");
     }
-    if (v.do_floor_mol_m3 > 0.0 && f.do_min < 1.5 * v.do_floor_mol_m3) {
+    if (churning) {
+      v.advice = "Bring the superficial gas velocity down to stay in bubbly flow (less air; back pressure or O2 "
+                 "enrichment instead), or confirm kLa by measurement at this scale and gas rate.";
+    } else if (v.do_floor_mol_m3 > 0.0 && f.do_min < 1.5 * v.do_floor_mol_m3) {
       v.advice = "The margin on DO is thin: a 20-40 % kLa error (the correlations' scatter) would take part of the tank below "
                  "the floor; see `oxystrat run --uncertainty 200`.";
     } else {

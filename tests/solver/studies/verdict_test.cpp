@@ -51,5 +51,24 @@ TEST(Verdict, ALighterCultureMeets) {
   EXPECT_THAT(v.headline, HasSubstr("FINE"));
 }
 
+TEST(Verdict, APassInChurnTurbulentFlowIsCalledOptimistic) {
+  // The tall demo at the pilot's P/V and 1 vvm (the scale-up's equal P/V, equal vvm row): DO holds,
+  // but vs reaches ~0.2 m/s and the holdup passes 0.3 in most of the tank. The verdict says the
+  // pass rests on the model beyond bubbly flow; at the demo's own 0.5 vvm with a lighter culture it
+  // does not (only its sparger plume churns).
+  const auto at = [](const std::vector<Override>& o) {
+    const auto c = read_case_file(fixtures::source_dir() + "/cases/tall-3rushton.toml", o).data;
+    return make_verdict(c, run_case(c, {false, false}));
+  };
+  const auto churning = at({parse_override("operation.speed=134.1 rpm"), parse_override("operation.gas_flow=1 vvm")});
+  EXPECT_TRUE(churning.meets);
+  EXPECT_THAT(churning.headline, HasSubstr("churn-turbulent flow"));
+  EXPECT_THAT(churning.headline, HasSubstr("this answer is optimistic"));
+  EXPECT_THAT(churning.advice, HasSubstr("superficial gas velocity down"));
+  const auto bubbly = at({parse_override("culture.biomass=10 g/L")});
+  EXPECT_TRUE(bubbly.meets);
+  EXPECT_THAT(bubbly.headline, testing::Not(HasSubstr("optimistic")));
+}
+
 }  // namespace
 }  // namespace oxystrat
