@@ -4,7 +4,10 @@
 
 namespace oxystrat {
 
-DoController::DoController(const Case& c, double air_saturation_mol_m3) : k_(c.control), air_sat_(air_saturation_mol_m3) {
+DoController::DoController(const Case& c, double air_saturation_mol_m3) : air_sat_(air_saturation_mol_m3) { retune(c); }
+
+void DoController::retune(const Case& c) {
+  k_ = c.control;
   gas_lo_ = k_.gas_min_m3_s >= 0.0 ? k_.gas_min_m3_s : c.operation.gas_flow_normal_m3_s;
   gas_hi_ = k_.gas_max_m3_s >= 0.0 ? k_.gas_max_m3_s : gas_lo_;
   o2_lo_ = c.operation.oxygen_fraction;

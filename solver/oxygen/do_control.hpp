@@ -19,6 +19,11 @@ class DoController {
   //! output is saturated the integral is held (anti-windup).
   double update(double probe_do_mol_m3);
 
+  //! New settings (set-point, gain, times, limits) from the [control] table and operating values
+  //! of `c` (a step event's case, its actuators as the case file gives them), keeping the
+  //! integral and the last measurement: the loop carries on from where it is.
+  void retune(const Case& c);
+
   //! Sets speed over u in [0, 1], then gas flow over [1, 2], then O2 fraction over [2, 3].
   void actuate(double u, Case& c) const;
 

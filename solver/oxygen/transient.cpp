@@ -13,6 +13,7 @@
 #include "solver/flow/hydrodynamics.hpp"
 #include "solver/oxygen/heat_balance.hpp"
 #include "solver/oxygen/oxygen_field.hpp"
+#include "solver/oxygen/transient_events.hpp"
 #include "solver/oxygen/transient_step.hpp"
 
 namespace oxystrat {
@@ -21,6 +22,7 @@ using namespace transient_detail;
 
 TransientResult run_transient(const LoadedCase& base, const std::vector<Override>& base_overrides,
                               const TransientOptions& opts) {
+  check_transient_events(base, base_overrides);
   TransientResult res;
   const Case& c0 = base.data;
   const auto& k = c0.control;
@@ -119,7 +121,8 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
       const double speed = current.operation.speed_rps, gas = current.operation.gas_flow_normal_m3_s,
                    o2 = current.operation.oxygen_fraction;
       current = read_case_text(base.source_text, base.file_name, applied).data;
-      if (k.enabled) {  // the controller keeps its actuators
+      if (k.enabled) {  // a new set-point or limits; the controller keeps its actuators
+        controller.retune(current);
         current.operation.speed_rps = speed;
         current.operation.gas_flow_normal_m3_s = gas;
         current.operation.oxygen_fraction = o2;
@@ -134,7 +137,7 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
       controller.actuate(u, current);
       changed = changed || current.operation.speed_rps != speed || current.operation.gas_flow_normal_m3_s != gas ||
                 current.operation.oxygen_fraction != o2;
-      next_control += k.interval_s;
+      next_control += current.control.interval_s;  // an event may retune it
     }
     if (changed) {
       est.have_slope = false;  // kLa and C* jump with the actuators: no error estimate across it

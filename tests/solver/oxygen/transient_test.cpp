@@ -8,6 +8,7 @@
 #include "case_fixtures.hpp"
 #include "solver/oxygen/case_run.hpp"
 #include "solver/oxygen/transient.hpp"
+#include "solver/oxygen/transient_events.hpp"
 
 namespace oxystrat {
 namespace {
@@ -191,6 +192,85 @@ TEST(Transient, BatchGrowthIsExponentialWithTheSubstrateFollowingTheYield) {
   const double q = loaded.data.culture.q_o2_max_mol_kg_s;
   const double x_start = r.trace[r.trace.size() - 2].biomass_mean;
   EXPECT_NEAR(r.trace.back().our_mol_s / (q * x_start * r.working_volume_m3), 1.0, 1e-3);
+}
+
+TEST(Transient, ASetPointEventRetunesTheController) {
+  // The controlled pilot above with its set-point raised from 30 to 60 % at 10 min (no uptake
+  // step): the probe follows to the new set-point. The controller used to keep the case's first
+  // settings and hold 30 % whatever the event said.
+  const std::string text = R"toml(
+[vessel]
+diameter = "0.6 m"
+working_volume = "300 L"
+temperature = "30 degC"
+[[impeller]]
+type = "rushton"
+diameter = "0.2 m"
+elevation = "0.3 m"
+[sparger]
+type = "ring"
+elevation = "0.18 m"
+diameter = "0.16 m"
+[operation]
+speed = "300 rpm"
+gas_flow = "1 vvm"
+[culture]
+biomass = "5 g/L"
+q_o2_max = "4 mmol/g/h"
+k_o2 = "0.002 mmol/L"
+critical_do = "0.02 mmol/L"
+[grid]
+radial = 3
+axial = 6
+[control]
+setpoint = "30 %"
+gain = 3
+speed_min = "250 rpm"
+speed_max = "700 rpm"
+interval = "5 s"
+[[event]]
+time = "10 min"
+set = "control.setpoint=60 %"
+)toml";
+  const auto loaded = read_case_text(text, "set-point step");
+  TransientOptions o;
+  o.duration_s = 1800.0;
+  o.step_s = 2.5;
+  const auto r = run_transient(loaded, {}, o);
+  const double air = loaded.data.do_percent.reference_mol_m3;
+  double before = 0.0;
+  for (const auto& smp : r.trace) {
+    if (smp.time_s <= 600.0) before = smp.probe_do;
+  }
+  EXPECT_NEAR(before / (0.3 * air), 1.0, 0.05);  // near 30 % before the step (2.2 % off: still settling)
+  EXPECT_NEAR(r.trace.back().probe_do / (0.6 * air), 1.0, 0.02);  // and at 60 % after it
+}
+
+TEST(Transient, EventsTheRunCannotTakeAreRefusedBeforeItStarts) {
+  // The fed-batch demo (controlled, growing, fed) on a coarse grid. Each refused event would have
+  // mixed two networks' states, moved a point the run had fixed, or been overridden in silence.
+  const auto refused = [](const std::string& set) {
+    const std::vector<Override> o{parse_override("grid.radial=4"), parse_override("grid.axial=12"),
+                                  parse_override("event.0.set=" + set)};
+    const auto loaded = read_case_file(fixtures::source_dir() + "/cases/fedbatch-60m3.toml", o);
+    try {
+      check_transient_events(loaded, o);
+    } catch (const CaseError& e) {
+      return std::string(e.what());
+    }
+    return std::string();
+  };
+  EXPECT_NE(refused("grid.axial=16").find("changes the zone network"), std::string::npos);
+  EXPECT_NE(refused("impeller.0.type=hydrofoil-down").find("changes the zone network"), std::string::npos);
+  EXPECT_NE(refused("control.probe_height=3 m").find("moves the DO probe or the feed point"), std::string::npos);
+  EXPECT_NE(refused("culture.biomass=80 g/L").find("the run's own state"), std::string::npos);
+  EXPECT_NE(refused("operation.speed=120 rpm").find("are the controller's"), std::string::npos);
+  const std::string named = refused("operation.speed=120 rpm");
+  EXPECT_NE(named.find("event 0 (at 3 h) sets 'operation.speed=120 rpm'"), std::string::npos) << named;
+  for (const char* allowed : {"vessel.head_pressure=1.0 bar(g)", "control.setpoint=40 %", "culture.q_o2_max=6 mmol/g/h",
+                              "control.speed_max=150 rpm"}) {
+    EXPECT_EQ(refused(allowed), "") << allowed;
+  }
 }
 
 TEST(Transient, AFedBatchClosesItsBalancesAndShowsAGradientAtTheFeed) {
