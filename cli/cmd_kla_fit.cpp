@@ -74,10 +74,12 @@ void add_kla_fit_command(CLI::App& app) {
     protect_from_replacement(o->data);
     std::optional<RunFolder> folder;
     if (!o->out.out_dir.empty()) folder.emplace(o->out.out_dir, o->out.force);
-    const DoTrace trace = read_do_trace(o->data);
+    std::string trimmed;
+    const DoTrace trace = rise_from_minimum(read_do_trace(o->data), trimmed);
     if (!o->our.empty()) fo.uptake = parse_uptake_rate(o->our, trace.scale, "--our");
     if (!o->saturation.empty()) fo.saturation = parse_do_value(o->saturation, trace.scale, "--saturation");
-    const KlaFitResult fit = fit_kla(trace, fo);
+    KlaFitResult fit = fit_kla(trace, fo);
+    if (!trimmed.empty()) fit.warnings.insert(fit.warnings.begin(), trimmed);
     fmt::print("{}", kla_fit_text(trace, fo, fit));
     for (const auto& w : fit.warnings) fmt::print(stderr, "warning: {}\n", w);
     if (!folder) return;

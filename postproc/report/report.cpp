@@ -357,7 +357,8 @@ their slip velocity on the liquid flow (bubble size from break-up in the local d
 so holdup, bubble size and gas composition are found per zone; non-flooded impellers spread it.
 C* follows Henry's law at each zone's pressure and gas composition (Benson &amp; Krause 1984); kLa
 per zone from van 't Riet (1979) or from the bubble size and surface renewal; uptake is Monod in
-dissolved O2. Power numbers, gassed power (Cui et al. 1996), flooding (Nienow et al. 1985); viscous
+dissolved O2. Power numbers, gassed power (Cui et al. 1996 for Rushton turbines, by type otherwise), flooding
+(Nienow et al. 1985, scaled by type); the heterogeneous (churn-turbulent) regime is flagged, not modelled; viscous
 broths through Metzner-Otto, damped turbulence and Elson caverns. The single-zone column is the
 textbook answer: one well-mixed zone with the vessel-average kLa. Correlations were fitted on
 vessels up to a few m3 and scatter by 20-40 %; read the numbers as engineering estimates,

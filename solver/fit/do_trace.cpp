@@ -2,6 +2,7 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cctype>
 #include <cmath>
 #include <limits>
@@ -153,6 +154,26 @@ DoTrace parse_do_trace(const std::string& text, const std::string& file_name) {
 }
 
 DoTrace read_do_trace(const std::string& path) { return do_trace_from(read_csv_table(path, "DO trace", "'time [s],DO [%]'")); }
+
+DoTrace rise_from_minimum(const DoTrace& trace, std::string& note) {
+  note.clear();
+  const auto& y = trace.value;
+  if (y.size() < 3) return trace;
+  const auto [lo, hi] = std::minmax_element(y.begin(), y.end());
+  const size_t first = static_cast<size_t>(lo - y.begin());
+  const size_t head = std::min<size_t>(3, first);
+  double start = 0.0;
+  for (size_t i = 0; i < head; ++i) start += y[i] / static_cast<double>(head);
+  // A fall of a fifth of the range, not the noise of a flat start (whose minimum is anywhere).
+  if (first < 3 || !(start - *lo > 0.2 * (*hi - *lo))) return trace;
+  DoTrace rise = trace;
+  const auto cut = [first](auto& v) { v.erase(v.begin(), v.begin() + static_cast<std::ptrdiff_t>(first)); };
+  cut(rise.time_s), cut(rise.value), cut(rise.line);
+  note = fmt::format("the trace falls to its lowest reading at t = {:.6g} s (line {}) before it rises: the fit uses the "
+                     "rise from there; the {} rows before it (the stripping part) are left out",
+                     rise.time_s.front(), rise.line.front(), first);
+  return rise;
+}
 
 double parse_do_value(const std::string& text, DoScale scale, const std::string& what) {
   const units::Split q = split_option(text, what);

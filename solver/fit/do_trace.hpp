@@ -39,6 +39,12 @@ DoTrace parse_do_trace(const std::string& text, const std::string& file_name);
 DoTrace read_do_trace(const std::string& path);
 inline constexpr int min_trace_points = 10;
 
+//! A whole gassing-out run as a logger records it falls (stripping) before it rises: the rise is
+//! what the fit needs. When the lowest reading lies after the first rows and the trace falls to
+//! it by more than a fifth of its range, returns the trace from that reading on and says so in
+//! `note` (the rows and the time left out); otherwise the trace as it is and an empty note.
+DoTrace rise_from_minimum(const DoTrace& trace, std::string& note);
+
 //! SI value of a DO quantity for a trace of the given scale: a concentration ("0.21 mmol/L",
 //! "6.8 mg/L") for a concentration trace, a percentage ("100 %") for a saturation trace. `what`
 //! names the option in messages. Throws CaseError.

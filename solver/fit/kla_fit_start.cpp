@@ -43,6 +43,12 @@ Setup prepare(const DoTrace& tr, const KlaFitOptions& o) {
   const double tail = median(std::vector<double>(y.end() - static_cast<std::ptrdiff_t>(edge), y.end()));
   const double sigma = noise_estimate(y);
   const auto unit = scale_unit(tr.scale);
+  if (head - tail > 10.0 * sigma) {
+    throw CaseError(fmt::format("{}: the DO falls, from {:.4g} {} at the start to {:.4g} {} at the end (medians of the "
+                                "first and last {} rows): that is the stripping (nitrogen or gas-off) part of a "
+                                "gassing-out run; give the trace from where aeration resumes and the DO rises",
+                                tr.file_name, shown(tr.scale, head), unit, shown(tr.scale, tail), unit, edge));
+  }
   if (!(tail - head > 10.0 * sigma) || !(tail > head)) {
     throw CaseError(fmt::format("{}: the DO does not rise: {:.4g} {} at the start, {:.4g} {} at the end (noise about "
                                 "{:.2g} {}); the gassing-out method needs the rise after aeration resumes",
@@ -104,7 +110,11 @@ Setup prepare(const DoTrace& tr, const KlaFitOptions& o) {
   s.free[kTau] = o.lag_mode == ProbeLagMode::fitted;
   s.free[kT0] = true;
   const bool lagged = o.lag_mode != ProbeLagMode::none;
-  s.lo << 1e-6 * k0, -kInf, -kInf, 0.0, lagged ? t.front() - span : t.front();
+  // The level at the step is no lower than the lowest reading (a probe rises from it) nor than 0
+  // unless the probe reads below 0 (an offset): left free, a lagged fit of a trace that starts
+  // at its minimum ran C0 to -107 % with t0 before the data.
+  const double c0_lowest = std::min(0.0, *std::min_element(y.begin(), y.end()));
+  s.lo << 1e-6 * k0, -kInf, c0_lowest, 0.0, lagged ? t.front() - span : t.front();
   s.hi << kInf, kInf, kInf, span, t_half;
 
   const double cstar0 = o.saturation ? *o.saturation : tail + o.uptake / k0;

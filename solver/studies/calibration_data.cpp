@@ -247,9 +247,11 @@ CalibrationData calibration_from(const CsvTable& table, CalibrationQuantity q) {
     }
     if (!value && !p.trace.empty()) {
       // The kLa from the row's gassing-out trace, with the probe lag fitted (kla-fit's default).
-      const DoTrace trace = read_do_trace(p.trace);
+      std::string trimmed;
+      const DoTrace trace = rise_from_minimum(read_do_trace(p.trace), trimmed);
       const KlaFitResult fit = fit_kla(trace, KlaFitOptions{});
       value = fit.kla_1_s;
+      if (!trimmed.empty()) data.notes.push_back(fmt::format("{}: {}: {}", where, p.trace, trimmed));
       data.notes.push_back(fmt::format("{}: kLa {:.4g} 1/h fitted from the gassing-out trace {} (probe lag {:.3g} s)",
                                        where, 3600.0 * fit.kla_1_s, p.trace, fit.probe_lag_s));
       for (const auto& w : fit.warnings) data.notes.push_back(fmt::format("{}: {}: {}", where, p.trace, w));
