@@ -111,12 +111,13 @@ void add_lifelines_command(CLI::App& app) {
       write_case_h5(h5, loaded);
       write_network_h5(h5, study.run.net);
       write_lifelines_h5(h5, r, lo, study.regimes);
+      h5.write("/cautions", study.cautions);
       h5.close();
     }
     write_lifelines_csv(folder.file("cells.csv").string(), folder.file("trajectories.csv").string(), r, study.do_mol_m3);
     write_text_file(folder.file("report.html").string(),
                     report_page("oxystrat lifelines: " + c.title,
-                                lifeline_html(r, study.run.net, study.do_mol_m3, c.culture.critical_do_mol_m3)));
+                                lifeline_html(r, study.run.net, study.do_mol_m3, c.culture.critical_do_mol_m3, study.cautions)));
     folder.commit();
     fmt::print("Wrote {}/result.h5, cells.csv, trajectories.csv, report.html\n", folder.target().string());
   });

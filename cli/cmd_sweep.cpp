@@ -110,8 +110,8 @@ void add_sweep_command(CLI::App& app) {
     }
     if (!lead) return;
     if (!session.completes()) {
-      fmt::print("Stopped after {} new points as asked; {} of {} are in the journal {}. Run again with --resume.\n",
-                 share.now, total - share.later, total,
+      fmt::print("Stopped after {} new point{} as asked; {} of {} are in the journal {}. Run again with --resume.\n",
+                 share.now, share.now == 1 ? "" : "s", total - share.later, total,
                  rk.size > 1 ? output_folder_path(o->out.out_dir).string() + ".journal*.csv" : session.journal_path());
       return;  // no result folder: the sweep is not complete
     }

@@ -9,6 +9,7 @@
 #include "solver/oxygen/transient.hpp"
 #include "solver/oxygen/transient_limits.hpp"
 #include "postproc/report/transient_output.hpp"
+#include "solver/oxygen/transient_cautions.hpp"
 
 namespace oxystrat::cli {
 namespace {

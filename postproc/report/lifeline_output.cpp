@@ -170,6 +170,11 @@ std::string lifeline_study_text(const Case& c, const LifelineStudy& s) {
   if (!s.frozen_at_s && c.feed.enabled) {
     out += "  substrate along the paths: add --after T to follow the cells through a fed transient\n";
   }
+  if (!s.cautions.empty()) {
+    out += fmt::format("Cautions on the {} the cells see (defer to local codes and licensed practice)\n",
+                       s.frozen_at_s ? "transient state" : "steady field");
+    for (const auto& w : s.cautions) out += "  - " + w + "\n";
+  }
   return out;
 }
 
@@ -233,7 +238,7 @@ void write_lifelines_csv(const std::string& cells_path, const std::string& paths
 }
 
 std::string lifeline_html(const LifelineResult& r, const ZoneNetwork& net, const std::vector<double>& do_field,
-                          double critical) {
+                          double critical, const std::vector<std::string>& cautions) {
   std::string s = "<h2>What cells experience</h2>\n<pre>" + svg::escape(lifeline_text(r, critical)) + "</pre>\n<div class=\"row\">\n";
   for (const auto& f : r.fields) {
     const std::string what = side(f) + " " + f.label;
@@ -272,7 +277,13 @@ std::string lifeline_html(const LifelineResult& r, const ZoneNetwork& net, const
   const double v = net.total_volume();
   for (int k = 0; k < net.size(); ++k) occ_ratio[k] = r.occupancy[k] / (net.volume[k] / v);
   s += svg::zone_map(net, occ_ratio, "Occupancy / volume share", "-", {});
-  return s + "</div>\n";
+  s += "</div>\n";
+  if (!cautions.empty()) {
+    s += "<h3>Cautions</h3>\n<ul>\n";
+    for (const auto& w : cautions) s += "<li>" + svg::escape(w) + "</li>\n";
+    s += "</ul>\n";
+  }
+  return s;
 }
 
 }  // namespace oxystrat

@@ -24,7 +24,8 @@ void write_lifelines_h5(H5Writer& h5, const LifelineResult& r, const LifelineOpt
 //! Per cell: share of time below critical DO (and outside each other field); and the kept trajectories (time, zone, DO).
 void write_lifelines_csv(const std::string& cells_path, const std::string& paths_path, const LifelineResult& r,
                          const std::vector<double>& do_mol_m3);
+//! The report's body; `cautions` (the state's, LifelineStudy::cautions) listed at its end.
 std::string lifeline_html(const LifelineResult& r, const ZoneNetwork& net, const std::vector<double>& do_mol_m3,
-                          double critical_do_mol_m3);
+                          double critical_do_mol_m3, const std::vector<std::string>& cautions);
 
 }  // namespace oxystrat

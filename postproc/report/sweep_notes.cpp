@@ -21,7 +21,7 @@ std::vector<std::string> honesty_lines(const SweepPlan& plan, const std::vector<
     for (const auto& k : r.checks) broken[k.name] += k.satisfied ? 0 : 1;
   }
   if (infeasible > 0) {
-    std::string s = fmt::format("{} infeasible point{} break:", infeasible, infeasible == 1 ? "" : "s");
+    std::string s = fmt::format("{} infeasible point{}:", infeasible, infeasible == 1 ? " breaks" : "s break");
     for (const auto& [name, n] : broken) {
       if (n > 0) s += fmt::format(" {} ({})", name, n);
     }

@@ -12,9 +12,6 @@
 
 namespace oxystrat {
 
-//! Plain-words cautions of a transient run (hazards and model limits that applied).
-std::vector<std::string> transient_cautions(const Case& c, const TransientResult& r);
-
 //! trace.csv (every step), probe.csv, controller.csv, result.h5, fields/*.vtu + transient.pvd,
 //! report.html, all inside `folder`.
 void write_transient_outputs(RunFolder& folder, const LoadedCase& loaded, const ZoneNetwork& net,

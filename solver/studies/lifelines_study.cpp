@@ -1,6 +1,7 @@
 #include "solver/studies/lifelines_study.hpp"
 
 #include "solver/oxygen/transient.hpp"
+#include "solver/oxygen/transient_cautions.hpp"
 
 namespace oxystrat {
 
@@ -15,6 +16,7 @@ LifelineStudy run_lifeline_study(const LoadedCase& loaded, const LifelineStudyOp
     to.duration_s = *opts.after_s;
     to.output_interval_s = to.duration_s;
     const auto tr = run_transient(loaded, opts.overrides, to);
+    s.cautions = transient_cautions(c, tr);
     const auto& last = tr.trace.back();
     s.at.operation.speed_rps = last.speed_rps;
     s.at.operation.gas_flow_normal_m3_s = last.gas_normal_m3_s;
@@ -29,6 +31,7 @@ LifelineStudy run_lifeline_study(const LoadedCase& loaded, const LifelineStudyOp
     }
   }
   s.run = run_case(s.at, {false, false});
+  if (!opts.after_s) s.cautions = s.run.cautions;
   if (!opts.after_s && s.run.field) {
     s.do_mol_m3 = s.run.field->do_mol_m3;
     fields.push_back(do_lifeline_field(s.do_mol_m3, c.culture.critical_do_mol_m3));

@@ -31,6 +31,9 @@ struct LifelineStudy {
   std::vector<double> do_mol_m3;     //!< the DO the cells see [mol/m3]; empty without gas (steady)
   LifelineRegimes regimes;           //!< impeller discharge and bulk of each impeller's loop
   LifelineResult result;
+  //! What the fields the cells see rest on: the transient's cautions up to T0 with after_s, else
+  //! the steady run's.
+  std::vector<std::string> cautions;
 };
 
 LifelineStudy run_lifeline_study(const LoadedCase& loaded, const LifelineStudyOptions& opts);

@@ -8,6 +8,7 @@
 
 #include "case_fixtures.hpp"
 #include "solver/oxygen/transient.hpp"
+#include "solver/oxygen/transient_cautions.hpp"
 #include "solver/studies/lifelines_study.hpp"
 
 namespace oxystrat {
@@ -77,6 +78,19 @@ TEST(LifelineStudy, FrozenTransientSetsTheFlowAndTheFields) {
   EXPECT_EQ(t.result.fields[1].threshold, 0.3);
   EXPECT_EQ(t.result.jumps, s.result.jumps);
   EXPECT_EQ(t.result.fields[0].time_outside_fraction, s.result.fields[0].time_outside_fraction);
+  // What the frozen state rests on is said: the transient's own cautions up to T0.
+  EXPECT_EQ(s.cautions, transient_cautions(loaded.data, tr));
+  EXPECT_FALSE(s.cautions.empty());  // the probe reads above critical DO while the top starves
+}
+
+TEST(LifelineStudy, TheSteadyFieldCarriesTheRunsCautions) {
+  // The tall demo's sparger plume churns beyond bubbly flow: the cells' field says so.
+  const auto loaded = coarse("tall-3rushton.toml");
+  LifelineStudyOptions o;
+  o.cells = few_cells();
+  const auto s = run_lifeline_study(loaded, o);
+  EXPECT_EQ(s.cautions, run_case(loaded.data, {false, false}).cautions);
+  EXPECT_FALSE(s.cautions.empty());
 }
 
 TEST(LifelineStudy, FrozenWithoutGrowthHasNoSubstrateField) {
