@@ -3,6 +3,7 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 #include <fstream>
 #include <stdexcept>
@@ -33,7 +34,13 @@ std::string uncertainty_text(const UncertaintyResult& u) {
   }
   s += "  What moves DO min most (Spearman rank correlation; measure these first):\n";
   for (size_t i = 0; i < u.sensitivity.size() && i < 5; ++i) {
-    s += fmt::format("    {:<24} {:+.2f}\n", u.sensitivity[i].constant, u.sensitivity[i].spearman);
+    s += fmt::format("    {:<24} {:+.2f}{}\n", u.sensitivity[i].constant, u.sensitivity[i].spearman,
+                     u.sensitivity[i].significant ? "" : "  (within sampling noise)");
+  }
+  if (std::any_of(u.sensitivity.begin(), u.sensitivity.end(), [](const Sensitivity& k) { return !k.significant; })) {
+    s += fmt::format("    (within sampling noise: |rank correlation| below 1.96/sqrt(n - 1) = {:.2f}; more samples "
+                     "sharpen the ranking)\n",
+                     1.96 / std::sqrt(std::max(1.0, static_cast<double>(n) - u.failed - 1.0)));
   }
   return s;
 }
@@ -64,6 +71,11 @@ void write_uncertainty_h5(H5Writer& h5, const UncertaintyResult& u) {
   for (const auto& s : u.sensitivity) sens_names.push_back(s.constant), sens.push_back(s.spearman);
   h5.write("/uncertainty/sensitivity_constants", sens_names);
   h5.write("/uncertainty/sensitivity_do_min", sens, "1");
+  std::vector<int> significant;
+  for (const auto& k : u.sensitivity) significant.push_back(k.significant);
+  h5.write("/uncertainty/sensitivity_significant", significant, "1");
+  h5.attribute("/uncertainty/sensitivity_significant", "meaning",
+               "1 where |rank correlation| >= 1.96 / sqrt(n - 1): beyond sampling noise (95 %)");
   std::vector<double> p10, p50, p90;
   for (const auto& q : u.profile_do) p10.push_back(q.p10), p50.push_back(q.p50), p90.push_back(q.p90);
   h5.write("/uncertainty/profile_z", u.profile_z, "m");
@@ -98,9 +110,10 @@ std::string uncertainty_html(const UncertaintyResult& u, double critical) {
     s += fmt::format("<tr><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td>{}</td></tr>\n",
                      o.name, num(shown(o, o.q.p10)), num(shown(o, o.q.p50)), num(shown(o, o.q.p90)), o.display_unit);
   }
-  s += "</table>\n<h3>What moves DO min most</h3>\n<table><tr><th>constant</th><th>rank correlation</th></tr>\n";
+  s += "</table>\n<h3>What moves DO min most</h3>\n<table><tr><th>constant</th><th>rank correlation</th><th></th></tr>\n";
   for (const auto& k : u.sensitivity) {
-    s += fmt::format("<tr><td>{}</td><td class=\"num\">{:+.2f}</td></tr>\n", k.constant, k.spearman);
+    s += fmt::format("<tr><td>{}</td><td class=\"num\">{:+.2f}</td><td>{}</td></tr>\n", k.constant, k.spearman,
+                     k.significant ? "" : "within sampling noise");
   }
   s += "</table></div>\n";
   std::vector<double> p10, p50, p90;

@@ -102,13 +102,29 @@ std::vector<UncertainConstant> uncertain_constants() {
   };
 }
 
+std::vector<UncertainConstant> uncertain_constants(const Case& c) {
+  auto constants = uncertain_constants();
+  if (c.model.kla_model != KlaModel::mechanistic) return constants;
+  for (auto& k : constants) {
+    if (k.name == "kla_power_exponent" || k.name == "kla_gas_exponent") {
+      k.width = 0.0;
+      k.source = "not varied: the mechanistic kLa does not use the correlation's exponents";
+    } else if (k.name == "kla_prefactor") {
+      k.source = "the mechanistic kLa's level (model.kla_factor), given the correlations' +-20-40 % scatter as its 90 % "
+                 "range (our assumption: the eddy model and the bubble size are no better known)";
+      k.apply = [](Case& ci, double f) { ci.model.kla_factor *= f; };
+    }
+  }
+  return constants;
+}
+
 std::vector<std::string> uncertainty_output_names() {
   return {"do_min", "volume_fraction_below_critical", "max_biomass", "theta95"};
 }
 
 UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts) {
   UncertaintyResult res;
-  res.constants = uncertain_constants();
+  res.constants = uncertain_constants(c);
   for (auto& k : res.constants) {
     const bool varied = opts.only.empty() || std::find(opts.only.begin(), opts.only.end(), k.name) != opts.only.end();
     k.width *= varied ? opts.width_scale : 0.0;
@@ -154,11 +170,15 @@ UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts)
   }
   res.failed = failed;
   for (auto& o : res.outputs) o.q = {quantile(o.samples, 0.1), quantile(o.samples, 0.5), quantile(o.samples, 0.9)};
+  const auto finite = [](double v) { return std::isfinite(v); };
+  const double ran = static_cast<double>(std::count_if(res.outputs[0].samples.begin(), res.outputs[0].samples.end(), finite));
+  const double noise = ran > 1.0 ? 1.96 / std::sqrt(ran - 1.0) : 1.0;
   for (size_t k = 0; k < nk; ++k) {
     if (res.constants[k].width == 0.0) continue;
     std::vector<double> draws(static_cast<size_t>(n));
     for (int i = 0; i < n; ++i) draws[i] = res.draws[i][k];
-    res.sensitivity.push_back({res.constants[k].name, spearman(draws, res.outputs[0].samples)});
+    const double rho = spearman(draws, res.outputs[0].samples);
+    res.sensitivity.push_back({res.constants[k].name, rho, std::abs(rho) >= noise});
   }
   std::stable_sort(res.sensitivity.begin(), res.sensitivity.end(),
                    [](const Sensitivity& a, const Sensitivity& b) { return std::abs(a.spearman) > std::abs(b.spearman); });

@@ -23,6 +23,10 @@ struct UncertainConstant {
 
 //! The constants with their default widths and sources (docs/trust.md, "Uncertainty").
 std::vector<UncertainConstant> uncertain_constants();
+//! The constants as they act on case `c`: with the mechanistic kLa the correlation's exponents do
+//! not enter the zones' kLa (width 0, said in the source), and the prefactor's scatter is carried
+//! by the mechanistic kLa's level, model.kla_factor.
+std::vector<UncertainConstant> uncertain_constants(const Case& c);
 
 struct UncertaintyOptions {
   int samples = 100;
@@ -48,6 +52,10 @@ struct UncertaintyOutput {
 struct Sensitivity {
   std::string constant;
   double spearman = 0.0;  //!< rank correlation of the constant's draw with DO_min [-]
+  //! |spearman| at least 1.96 / sqrt(n - 1) over the n samples that ran: beyond what sampling
+  //! noise gives a constant with no effect, 95 % two-sided (the rank correlation of independent
+  //! draws has variance 1 / (n - 1); common practice). Below it the ranking says nothing.
+  bool significant = false;
 };
 
 struct UncertaintyResult {
