@@ -112,6 +112,11 @@ void add_calibrate_command(CLI::App& app) {
     folder.commit();
     fmt::print("Wrote {}/calibration.toml{}{}, result.h5, report.html\n", folder.target().string(),
                k ? ", calibration.csv" : "", m ? ", mixing.csv" : "");
+    const bool mix_usable = m && m->not_determined.empty();
+    if (m && !mix_usable) {
+      fmt::print("The exchange constant is not set in calibration.toml: {} (see the warnings).\n", m->not_determined);
+    }
+    if (!k && !mix_usable) return;
     fmt::print("Use it: include = [\"calibration.toml\"] in a case file (the path relative to that file), or\n");
     std::string sets;
     if (k) {
@@ -119,7 +124,7 @@ void add_calibrate_command(CLI::App& app) {
                           "model.kla_gas_exponent={:.6g}",
                           k->fitted.prefactor, k->fitted.power_exponent, k->fitted.gas_exponent);
     }
-    if (m) sets += fmt::format(" --set model.exchange_constant={:.6g}", m->fitted);
+    if (mix_usable) sets += fmt::format(" --set model.exchange_constant={:.6g}", m->fitted);
     fmt::print("       {}\n", sets.substr(1));
   });
 }

@@ -78,7 +78,11 @@ std::string calibration_toml(const CalibrationSources& src, const KlaCalibration
     s += fmt::format("kla_power_exponent = {:.6g}\n", kla->fitted.power_exponent);
     s += fmt::format("kla_gas_exponent = {:.6g}\n", kla->fitted.gas_exponent);
   }
-  if (mix) s += fmt::format("exchange_constant = {:.6g}\n", mix->fitted);
+  if (mix && mix->not_determined.empty()) s += fmt::format("exchange_constant = {:.6g}\n", mix->fitted);
+  if (mix && !mix->not_determined.empty()) {
+    s += fmt::format("# exchange_constant = {:.6g} is not set: {} (see the warnings above)\n", mix->fitted,
+                     mix->not_determined);
+  }
   return s;
 }
 
@@ -181,6 +185,9 @@ void write_calibration_h5(H5Writer& h5, const CalibrationSources& src, const Kla
       h5.write(g + "exchange_constant_ci_high", mix->hi, "1");
     }
     h5.write(g + "exchange_constant_before", mix->before, "1");
+    h5.write(g + "exchange_constant_set", std::vector<int>{mix->not_determined.empty() ? 1 : 0}, "1");
+    h5.attribute(g + "exchange_constant_set", "meaning",
+                 "1 when calibration.toml sets the fitted c_t; 0 when the fit did not determine it (see warnings)");
     h5.write(g + "rms_log_residual", mix->rms_log, "1");
     std::vector<double> speed, gas, meas, fit, before, res, sens, weight;
     std::vector<std::string> names;
@@ -345,6 +352,9 @@ std::string calibration_report_body(const CalibrationSources& src, const KlaCali
     s += "</table>\n";
     s += fmt::format("<p>{} points; scatter {:.1f} % (RMS of ln fitted/measured); {} mixing-time computations.</p>\n",
                      mix->points, 100.0 * mix->rms_log, mix->evaluations);
+    if (!mix->not_determined.empty()) {
+      s += "<p><strong>Not set in calibration.toml:</strong> " + escape(mix->not_determined) + ".</p>\n";
+    }
     s += "</div><div>\n";
     warnings(mix->warnings);
     s += "</div></div>\n<div class=\"row\">\n";

@@ -143,11 +143,13 @@ MixingCalibration calibrate_exchange(const LoadedCase& base, const std::vector<O
                                        opt.mixing.max_time_s));
   }
   if (max_sens < 0.05) {
+    res.not_determined = "the computed mixing times hardly depend on it at these points";
     res.warnings.push_back(fmt::format(
         "the computed mixing times hardly depend on the exchange constant at these points (|d ln theta / d ln c_t| "
         "at most {:.3f}): the circulation loops set them, so the measurements cannot determine c_t",
         max_sens));
   } else if (res.at_search_bound) {
+    res.not_determined = "its best value lies at the end of the search range";
     res.warnings.push_back(fmt::format(
         "the best exchange constant lies at the end of the search range ({:.3g} to {:.3g}): the measured mixing times "
         "are {} than the network can give by turbulent exchange alone; check the probe and injection positions and "

@@ -34,6 +34,9 @@ struct MixingCalibration {
   double rms_log = 0.0;
   int points = 0, evaluations = 0;         //!< evaluations: mixing-time computations
   bool at_search_bound = false;
+  //! Empty when the fit determines c_t; else why not (the best value at the end of the search
+  //! range, or mixing times the exchange hardly moves): then c_t is reported, never set.
+  std::string not_determined;
   std::vector<MixingPointResult> rows;
   std::vector<std::string> warnings;
 };

@@ -137,6 +137,22 @@ TEST_F(CalibrateCli, IdenticalPointsAreRefused) {
   EXPECT_EQ(work_listing(), std::vector<std::string>{"same.csv"});
 }
 
+// Mixing times the network cannot reach (4000 s on the 300 L pilot at 300-400 rpm: a unit slip)
+// put the best c_t at the end of the search range: reported, never set.
+TEST_F(CalibrateCli, AnUndeterminedExchangeConstantIsNotSet) {
+  std::ofstream(work() / "slow.csv") << "name,speed [rpm],gas flow [Nm3/h],mixing time [s]\nA,300,18,4000\nB,400,18,3000\n";
+  const auto r = oxystrat({"calibrate", kCase, "--mixing-data", "slow.csv", "--out", "cal"});
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("end of the search range"));
+  EXPECT_THAT(r.out, HasSubstr("The exchange constant is not set in calibration.toml"));
+  EXPECT_THAT(r.out, testing::Not(HasSubstr("--set model.exchange_constant")));
+  const auto toml = read_file(work() / "cal/calibration.toml");
+  EXPECT_THAT(toml, HasSubstr("# exchange_constant = "));
+  EXPECT_THAT(toml, testing::Not(HasSubstr("\nexchange_constant =")));  // only the comment
+  const auto f = open_h5((work() / "cal/result.h5").string());
+  EXPECT_EQ(read_ints(f, "/calibration/mixing/exchange_constant_set"), std::vector<int>{0});
+}
+
 // What cannot be computed is left out: one mixing time has no interval, --no-zone-check has no
 // zone-model kLa. No NaN or infinity in any file.
 TEST_F(CalibrateCli, ValuesThatDoNotApplyAreAbsentNotNan) {
