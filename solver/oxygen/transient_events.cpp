@@ -14,8 +14,11 @@ bool same_network(const ZoneNetwork& a, const ZoneNetwork& b) {
   return a.r_lines == b.r_lines && a.z_lines == b.z_lines && a.volume == b.volume;
 }
 
-// What the event changed that the run cannot take mid-way; empty when it may apply.
-std::string what_cannot_change(const Case& before, const Case& after, const ZoneNetwork& net_before) {
+// What the event changed that the run cannot take mid-way; empty when it may apply. The
+// controller's actuators go by the key the event sets: a gas flow given in actual m3/h changes
+// its normal value with a head-pressure event, which the controller's flow does not follow.
+std::string what_cannot_change(const Case& before, const Case& after, const std::string& key,
+                               const ZoneNetwork& net_before) {
   if (!same_network(net_before, build_zone_geometry(after))) {
     return "it changes the zone network (the vessel, an impeller's size, type or height, the sparger or the grid): "
            "a transient runs on one network; give the change in the case and start a new run";
@@ -33,9 +36,8 @@ std::string what_cannot_change(const Case& before, const Case& after, const Zone
     return "the biomass and substrate of a growing culture are the run's own state (they start from the case's values "
            "and then grow and are consumed zone by zone); change the uptake or the kinetics instead";
   }
-  if (before.control.enabled && (after.operation.speed_rps != before.operation.speed_rps ||
-                                 after.operation.gas_flow_normal_m3_s != before.operation.gas_flow_normal_m3_s ||
-                                 after.operation.oxygen_fraction != before.operation.oxygen_fraction)) {
+  if (before.control.enabled &&
+      (key == "operation.speed" || key == "operation.gas_flow" || key == "operation.oxygen_fraction")) {
     return "under DO control the speed, gas flow and O2 fraction are the controller's; change its limits "
            "(control.speed_min, control.gas_max, control.oxygen_max, ...) or its set-point instead";
   }
@@ -54,7 +56,7 @@ void check_transient_events(const LoadedCase& base, const std::vector<Override>&
     for (const auto& set : c0.events[i].sets) {
       applied.push_back(parse_override(set));
       const Case after = read_case_text(base.source_text, base.file_name, applied).data;
-      const std::string why = what_cannot_change(before, after, net0);
+      const std::string why = what_cannot_change(before, after, applied.back().key, net0);
       if (!why.empty()) {
         throw CaseError(fmt::format("{}: event {} (at {:.6g} h) sets '{}': {}", base.file_name, i,
                                     c0.events[i].time_s / 3600.0, set, why));

@@ -249,8 +249,8 @@ set = "control.setpoint=60 %"
 TEST(Transient, EventsTheRunCannotTakeAreRefusedBeforeItStarts) {
   // The fed-batch demo (controlled, growing, fed) on a coarse grid. Each refused event would have
   // mixed two networks' states, moved a point the run had fixed, or been overridden in silence.
-  const auto refused = [](const std::string& set) {
-    const std::vector<Override> o{parse_override("grid.radial=4"), parse_override("grid.axial=12"),
+  const auto refused = [](const std::string& set, const std::string& gas = "operation.gas_flow=0.5 vvm") {
+    const std::vector<Override> o{parse_override("grid.radial=4"), parse_override("grid.axial=12"), parse_override(gas),
                                   parse_override("event.0.set=" + set)};
     const auto loaded = read_case_file(fixtures::source_dir() + "/cases/fedbatch-60m3.toml", o);
     try {
@@ -271,6 +271,9 @@ TEST(Transient, EventsTheRunCannotTakeAreRefusedBeforeItStarts) {
                               "control.speed_max=150 rpm"}) {
     EXPECT_EQ(refused(allowed), "") << allowed;
   }
+  // A gas flow in actual m3/min changes its normal value with the head pressure; the event sets
+  // the pressure, not the controller's gas flow.
+  EXPECT_EQ(refused("vessel.head_pressure=1.0 bar(g)", "operation.gas_flow=30 m3/min"), "");
 }
 
 TEST(Transient, AFedBatchClosesItsBalancesAndShowsAGradientAtTheFeed) {
