@@ -59,11 +59,11 @@ TEST(Transient, RelaxesToTheSteadyFieldAndConservesOxygen) {
   EXPECT_NEAR((r.o2_fed - r.o2_out - r.o2_taken_up - r.o2_stored_change) / r.o2_fed, 0.0, 1e-9);
 }
 
-// The cascade's lower speed stays above flooding (about 225 rpm here at 1 vvm, Nienow et al. 1985),
-// as plants set it: a flooded impeller pumps little and the loop would hunt across the transition.
-// Gain 3: the loaded impeller's kLa rises steeply with speed here, and gain 5 hunts.
-TEST(Transient, ControllerHoldsTheProbeAtItsSetPointAfterAnUptakeStep) {
-  const auto loaded = read_case_text(R"toml(
+// A controlled 300 L pilot. The cascade's lower speed stays above flooding (about 225 rpm here at
+// 1 vvm, Nienow et al. 1985), as plants set it: a flooded impeller pumps little and the loop
+// would hunt across the transition. Gain 3: the loaded impeller's kLa rises steeply with speed
+// here, and gain 5 hunts.
+const std::string kControlledPilot = R"toml(
 [vessel]
 diameter = "0.6 m"
 working_volume = "300 L"
@@ -93,6 +93,10 @@ gain = 3
 speed_min = "250 rpm"
 speed_max = "700 rpm"
 interval = "5 s"
+)toml";
+
+TEST(Transient, ControllerHoldsTheProbeAtItsSetPointAfterAnUptakeStep) {
+  const auto loaded = read_case_text(kControlledPilot + R"toml(
 [[event]]
 time = "10 min"
 set = "culture.biomass=12 g/L"
@@ -198,36 +202,7 @@ TEST(Transient, ASetPointEventRetunesTheController) {
   // The controlled pilot above with its set-point raised from 30 to 60 % at 10 min (no uptake
   // step): the probe follows to the new set-point. The controller used to keep the case's first
   // settings and hold 30 % whatever the event said.
-  const std::string text = R"toml(
-[vessel]
-diameter = "0.6 m"
-working_volume = "300 L"
-temperature = "30 degC"
-[[impeller]]
-type = "rushton"
-diameter = "0.2 m"
-elevation = "0.3 m"
-[sparger]
-type = "ring"
-elevation = "0.18 m"
-diameter = "0.16 m"
-[operation]
-speed = "300 rpm"
-gas_flow = "1 vvm"
-[culture]
-biomass = "5 g/L"
-q_o2_max = "4 mmol/g/h"
-k_o2 = "0.002 mmol/L"
-critical_do = "0.02 mmol/L"
-[grid]
-radial = 3
-axial = 6
-[control]
-setpoint = "30 %"
-gain = 3
-speed_min = "250 rpm"
-speed_max = "700 rpm"
-interval = "5 s"
+  const std::string text = kControlledPilot + R"toml(
 [[event]]
 time = "10 min"
 set = "control.setpoint=60 %"
