@@ -94,8 +94,18 @@ void check_geometry(const TomlSource& src, const Case& c, std::vector<std::strin
     }
   }
   if (c.vessel.baffles == 0) {
-    notes.push_back("unbaffled vessel: the power and flow numbers assume a baffled vessel; give power_number "
-                    "and flow_number from your own data");
+    // Name what is still missing: a case that gives the power number from its supplier's curve
+    // was told to give it again.
+    std::string missing;
+    for (size_t i = 0; i < c.impellers.size(); ++i) {
+      const auto& imp = c.impellers[i];
+      if (!imp.power_number) missing += fmt::format("{}impeller.{}.power_number", missing.empty() ? "" : ", ", i);
+      if (!imp.flow_number) missing += fmt::format("{}impeller.{}.flow_number", missing.empty() ? "" : ", ", i);
+    }
+    if (!missing.empty()) {
+      notes.push_back("unbaffled vessel: the default power and flow numbers are for a baffled vessel; give " + missing +
+                      " from your own data");
+    }
   }
 }
 

@@ -105,6 +105,19 @@ TEST(CaseReader, NotesDoNotStopTheCase) {
   const auto loaded = load(CaseText().replace("baffles = 4", "baffles = 0").remove_line("baffle_width ="));
   ASSERT_FALSE(loaded.notes.empty());
   EXPECT_THAT(loaded.notes.back(), HasSubstr("unbaffled"));
+  EXPECT_THAT(loaded.notes.back(), HasSubstr("give impeller.0.power_number, impeller.0.flow_number"));
+}
+
+TEST(CaseReader, AnUnbaffledVesselNamesOnlyTheNumbersStillMissing) {
+  // The bundled cell culture gives its unbaffled power number: only the flow number is asked for.
+  const auto cells = read_case_file(OXYSTRAT_TEST_DATA_DIR "/../../cases/cell-culture-2m3.toml");
+  ASSERT_FALSE(cells.notes.empty());
+  EXPECT_THAT(cells.notes.back(), HasSubstr("give impeller.0.flow_number from your own data"));
+  EXPECT_THAT(cells.notes.back(), testing::Not(HasSubstr("power_number")));
+  // Both given: nothing to ask for.
+  const auto both = read_case_file(OXYSTRAT_TEST_DATA_DIR "/../../cases/cell-culture-2m3.toml",
+                                    {parse_override("impeller.0.flow_number=0.5")});
+  for (const auto& n : both.notes) EXPECT_THAT(n, testing::Not(HasSubstr("unbaffled"))) << n;
 }
 
 TEST(CaseReader, ReadsAFileFromDisk) {
