@@ -33,14 +33,16 @@ std::string uncertainty_text(const UncertaintyResult& u) {
                      num(shown(o, o.q.p90)), o.display_unit);
   }
   s += "  What moves DO min most (Spearman rank correlation; measure these first):\n";
+  bool noise_shown = false;
   for (size_t i = 0; i < u.sensitivity.size() && i < 5; ++i) {
     s += fmt::format("    {:<24} {:+.2f}{}\n", u.sensitivity[i].constant, u.sensitivity[i].spearman,
                      u.sensitivity[i].significant ? "" : "  (within sampling noise)");
+    noise_shown = noise_shown || !u.sensitivity[i].significant;
   }
-  if (std::any_of(u.sensitivity.begin(), u.sensitivity.end(), [](const Sensitivity& k) { return !k.significant; })) {
+  if (noise_shown) {
     s += fmt::format("    (within sampling noise: |rank correlation| below 1.96/sqrt(n - 1) = {:.2f}; more samples "
                      "sharpen the ranking)\n",
-                     1.96 / std::sqrt(std::max(1.0, static_cast<double>(n) - u.failed - 1.0)));
+                     u.noise_bar);
   }
   return s;
 }

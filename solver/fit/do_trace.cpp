@@ -164,8 +164,10 @@ DoTrace rise_from_minimum(const DoTrace& trace, std::string& note) {
   const size_t head = std::min<size_t>(3, first);
   double start = 0.0;
   for (size_t i = 0; i < head; ++i) start += y[i] / static_cast<double>(head);
-  // A fall of a fifth of the range, not the noise of a flat start (whose minimum is anywhere).
-  if (first < 3 || !(start - *lo > 0.2 * (*hi - *lo))) return trace;
+  // A fall of a fifth of the range, not the noise of a flat start (whose minimum is anywhere), and
+  // a rise after it (a trace that only falls is the fit's to refuse, with its own message).
+  const double rise_after = *std::max_element(lo, y.end()) - *lo;
+  if (first < 3 || !(start - *lo > 0.2 * (*hi - *lo)) || !(rise_after > 0.2 * (*hi - *lo))) return trace;
   DoTrace rise = trace;
   const auto cut = [first](auto& v) { v.erase(v.begin(), v.begin() + static_cast<std::ptrdiff_t>(first)); };
   cut(rise.time_s), cut(rise.value), cut(rise.line);

@@ -172,7 +172,8 @@ UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts)
   for (auto& o : res.outputs) o.q = {quantile(o.samples, 0.1), quantile(o.samples, 0.5), quantile(o.samples, 0.9)};
   const auto finite = [](double v) { return std::isfinite(v); };
   const double ran = static_cast<double>(std::count_if(res.outputs[0].samples.begin(), res.outputs[0].samples.end(), finite));
-  const double noise = ran > 1.0 ? 1.96 / std::sqrt(ran - 1.0) : 1.0;
+  res.noise_bar = ran > 1.0 ? 1.96 / std::sqrt(ran - 1.0) : 1.0;
+  const double noise = res.noise_bar;
   for (size_t k = 0; k < nk; ++k) {
     if (res.constants[k].width == 0.0) continue;
     std::vector<double> draws(static_cast<size_t>(n));

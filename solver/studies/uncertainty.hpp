@@ -63,6 +63,7 @@ struct UncertaintyResult {
   std::vector<std::vector<double>> draws;  //!< [sample][constant] standard-normal draws
   std::vector<UncertaintyOutput> outputs;  //!< do_min, volume_fraction_below_critical, max_biomass, theta95
   std::vector<Sensitivity> sensitivity;    //!< sorted by |spearman|, largest first
+  double noise_bar = 1.0;                  //!< 1.96 / sqrt(n - 1) over the n samples that ran [-]
   std::vector<double> profile_z;           //!< level heights [m]
   std::vector<Quantiles> profile_do;       //!< mean DO per level [mol/m3]
   int failed = 0;
