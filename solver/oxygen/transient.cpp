@@ -229,6 +229,7 @@ TransientResult run_transient(const LoadedCase& base, const std::vector<Override
       smp.gas_normal_m3_s = current.operation.gas_flow_normal_m3_s;
       smp.oxygen_fraction = current.operation.oxygen_fraction;
       smp.controller_output = u;
+      smp.controller_at_top = k.enabled && u >= 0.999 * controller.max_output();
       smp.feed_rate_m3_s = current.feed.rate_at(t);
       smp.fed_volume_m3 = current.feed.volume_until(t);
       smp.heat_load_w = heat_balance(current, {plant->hydro.power_gassed_w, plant->hydro.gas_molar_flow_mol_s,

@@ -39,6 +39,7 @@ struct TransientSample {
   double probe_do = 0.0, do_min = 0.0, do_mean = 0.0, do_max = 0.0;  //!< [mol/m3]
   double speed_rps = 0.0, gas_normal_m3_s = 0.0, oxygen_fraction = 0.0;
   double controller_output = 0.0;                       //!< cascade position 0..3 [-]
+  bool controller_at_top = false;                       //!< at the end of its last stage (as tuned then)
   double otr_mol_s = 0.0, our_mol_s = 0.0;              //!< vessel totals [mol/s]
   double cer_mol_s = 0.0;                               //!< CO2 evolution into the gas [mol/s]
   double pco2_max_pa = 0.0;                             //!< largest dissolved-CO2 partial pressure [Pa]

@@ -37,10 +37,8 @@ std::vector<std::string> transient_cautions(const Case& c, const TransientResult
                                 fed, 100 * fed / r.working_volume_m3));
     }
     const auto& last = r.trace.back();
-    if (c.control.enabled && last.controller_output >= 0.999 * (c.control.oxygen_max > c.operation.oxygen_fraction ? 3.0
-                                                                : c.control.gas_max_m3_s > c.operation.gas_flow_normal_m3_s
-                                                                    ? 2.0
-                                                                    : 1.0)) {
+    // The controller's own limits at the end: an event may have retuned them.
+    if (c.control.enabled && last.controller_at_top) {
       out.push_back("the DO controller ended at the top of its cascade: the vessel cannot hold the set-point at this "
                     "uptake");
     }

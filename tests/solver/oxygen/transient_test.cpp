@@ -8,6 +8,7 @@
 #include "case_fixtures.hpp"
 #include "solver/oxygen/case_run.hpp"
 #include "solver/oxygen/transient.hpp"
+#include "solver/oxygen/transient_cautions.hpp"
 #include "solver/oxygen/transient_events.hpp"
 
 namespace oxystrat {
@@ -219,6 +220,25 @@ set = "control.setpoint=60 %"
   }
   EXPECT_NEAR(before / (0.3 * air), 1.0, 0.05);  // near 30 % before the step (2.2 % off: still settling)
   EXPECT_NEAR(r.trace.back().probe_do / (0.6 * air), 1.0, 0.02);  // and at 60 % after it
+}
+
+TEST(Transient, TheCascadeAtItsTopIsJudgedByTheControllersOwnLimits) {
+  // The controlled pilot at 40 g/L: 700 rpm cannot hold 30 %, so the speed-only cascade ends at
+  // its top and a caution says so. Given O2 enrichment up to 60 % by an event at 10 min, the same
+  // loop holds its set-point on the O2 stage: no caution (it used to be judged by the case's first
+  // limits, and said "at the top" there too).
+  TransientOptions o;
+  o.duration_s = 1800.0;
+  o.step_s = 2.5;
+  const auto at_top = [&o](const std::string& extra) {
+    const auto loaded = read_case_text(kControlledPilot + extra, "cascade");
+    const auto r = run_transient(loaded, {}, o);
+    const auto w = transient_cautions(loaded.data, r);
+    return std::any_of(w.begin(), w.end(), [](const std::string& s) { return s.find("top of its cascade") != std::string::npos; });
+  };
+  const std::string heavy = "\n[[event]]\ntime = \"1 s\"\nset = \"culture.biomass=40 g/L\"\n";
+  EXPECT_TRUE(at_top(heavy));
+  EXPECT_FALSE(at_top(heavy + "[[event]]\ntime = \"10 min\"\nset = \"control.oxygen_max=0.6\"\n"));
 }
 
 TEST(Transient, EventsTheRunCannotTakeAreRefusedBeforeItStarts) {
