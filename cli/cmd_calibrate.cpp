@@ -68,8 +68,7 @@ void add_calibrate_command(CLI::App& app) {
       throw CaseError("calibrate: give --kla-data FILE (measured kLa) and/or --mixing-data FILE (measured mixing times)");
     }
     const auto loaded = load_case(o->case_opts);
-    std::vector<Override> overrides;
-    for (const auto& s : o->case_opts.sets) overrides.push_back(parse_override(s));
+    const auto overrides = case_overrides(o->case_opts);
     // Checked before the work: an existing folder without --force fails at once.
     for (const auto& data : {o->kla_data, o->mixing_data}) {
       if (!data.empty()) protect_from_replacement(data);

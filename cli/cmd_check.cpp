@@ -15,9 +15,7 @@ void add_check_command(CLI::App& app) {
   cmd->callback([opts] {
     const auto loaded = load_case(*opts);
     const auto net = build_zone_geometry(loaded.data);
-    std::vector<Override> overrides;
-    for (const auto& s : opts->sets) overrides.push_back(parse_override(s));
-    check_transient_events(loaded, overrides);  // what `transient` would refuse
+    check_transient_events(loaded, case_overrides(*opts));  // what `transient` would refuse
     fmt::print("{}", geometry_summary(loaded, net));
     fmt::print("Case is valid.\n");
   });

@@ -25,8 +25,7 @@ void add_levers_command(CLI::App& app) {
   cmd->add_option("--threads", lo->threads, "Threads (default: all)")->check(CLI::Range(1, 1024));
   cmd->callback([opts, out, lo] {
     const auto loaded = load_case(*opts);
-    std::vector<Override> overrides;
-    for (const auto& s : opts->sets) overrides.push_back(parse_override(s));
+    const auto overrides = case_overrides(*opts);
     if (!lo->impeller_case.empty()) protect_from_replacement(lo->impeller_case);
     RunFolder folder(out->out_dir, out->force);
     const auto study = study_levers(loaded, overrides, *lo);

@@ -92,7 +92,7 @@ void add_lifelines_command(CLI::App& app) {
       if (!(*so.after_s > 0.0 && *so.after_s <= 100 * 86400.0)) {
         throw CaseError(fmt::format("--after '{}': allowed more than 0 s and at most 100 d", o->after));
       }
-      for (const auto& a : o->case_opts.sets) so.overrides.push_back(parse_override(a));
+      so.overrides = case_overrides(o->case_opts);
       // Read only where the transient has a substrate field: a growing culture.
       if (!o->substrate_threshold.empty() && c.culture.grows()) {
         const double threshold = option_quantity("--substrate-threshold", o->substrate_threshold, units::Dimension::biomass);

@@ -75,8 +75,7 @@ void add_run_command(CLI::App& app) {
     }
     auto verdict = make_verdict(c, run);
     if (!verdict.meets && run.field && !opts->no_levers) {
-      std::vector<Override> overrides;
-      for (const auto& s : opts->case_opts.sets) overrides.push_back(parse_override(s));
+      const auto overrides = case_overrides(opts->case_opts);
       stage("the levers that would make the case pass");
       verdict.advice = lever_advice(study_levers(loaded, overrides, {}));
     }

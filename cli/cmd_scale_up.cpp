@@ -27,8 +27,7 @@ void add_scale_up_command(CLI::App& app) {
   cmd->callback([pilot, prod, out, so] {
     const auto pilot_case = load_case({*pilot, {}});
     const auto production = load_case(*prod);
-    std::vector<Override> overrides;
-    for (const auto& s : prod->sets) overrides.push_back(parse_override(s));
+    const auto overrides = case_overrides(*prod);
     RunFolder folder(out->out_dir, out->force);
     const auto study = study_scale_up(pilot_case, production, overrides, *so);
     fmt::print("{}", scale_up_text(pilot_case.data, production.data, study));

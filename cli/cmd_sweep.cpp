@@ -74,8 +74,7 @@ void add_sweep_command(CLI::App& app) {
     // Every check before any point runs.
     const auto base = load_case(o->case_opts);
     check_objective_applies(base.data, o->objective);
-    std::vector<Override> base_overrides;
-    for (const auto& s : o->case_opts.sets) base_overrides.push_back(parse_override(s));
+    const auto base_overrides = case_overrides(o->case_opts);
     const SweepOptions so{o->with_mixing, !o->no_biomass, o->uncertainty, o->seed, o->threads};
     std::vector<SweepAxis> axes;
     for (const auto& v : o->vary) axes.push_back(parse_vary(v, base));

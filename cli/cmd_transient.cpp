@@ -48,8 +48,7 @@ void add_transient_command(CLI::App& app) {
   cmd->add_flag("--fixed-step", o->fixed_step, "Constant steps of --step, no error control");
   cmd->callback([o] {
     const auto loaded = load_case(o->case_opts);
-    std::vector<Override> overrides;
-    for (const auto& s : o->case_opts.sets) overrides.push_back(parse_override(s));
+    const auto overrides = case_overrides(o->case_opts);
     TransientOptions to;
     to.duration_s = time_option("--duration", o->duration);
     to.step_s = time_option("--step", o->step);

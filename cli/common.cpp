@@ -22,11 +22,15 @@ void add_output_options(CLI::App& cmd, OutputOptions& o) {
   cmd.add_flag("--force", o.force, "Replace an existing output folder once the new result is complete");
 }
 
-LoadedCase load_case(const CaseOptions& o) {
+std::vector<Override> case_overrides(const CaseOptions& o) {
   std::vector<Override> overrides;
   for (const auto& s : o.sets) overrides.push_back(parse_override(s));
+  return overrides;
+}
+
+LoadedCase load_case(const CaseOptions& o) {
   protect_from_replacement(o.case_path);
-  auto loaded = read_case_file(o.case_path, overrides);
+  auto loaded = read_case_file(o.case_path, case_overrides(o));
   for (const auto& f : loaded.included_files) protect_from_replacement(f);
   for (const auto& note : loaded.notes) fmt::print(stderr, "warning: {}\n", note);
   return loaded;

@@ -26,6 +26,8 @@ void add_case_options(CLI::App& cmd, CaseOptions& o);
 //! Adds --out (required) and --force to a command.
 void add_output_options(CLI::App& cmd, OutputOptions& o);
 
+//! The --set arguments of `o`, parsed (CaseError for one without '=').
+std::vector<Override> case_overrides(const CaseOptions& o);
 //! Reads the case with its overrides; prints the reader's notes to stderr as warnings.
 LoadedCase load_case(const CaseOptions& o);
 
