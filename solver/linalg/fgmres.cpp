@@ -4,6 +4,8 @@
 #include <algorithm>
 #include <cmath>
 
+#include "solver/linalg/parallel_loop.hpp"
+
 namespace oxystrat {
 namespace {
 
@@ -25,15 +27,13 @@ double chunk_dot(const double* a, const T* b, int n) {
 void widen(const Eigen::VectorXf& in, Eigen::VectorXd& out, int parallel_from) {
   const auto n = in.size();
   out.resize(n);
-#pragma omp parallel for schedule(static) if (n >= parallel_from)
-  for (Eigen::Index k = 0; k < n; ++k) out[k] = static_cast<double>(in[k]);
+  parallel_loop(n, n >= parallel_from, [&](Eigen::Index k) { out[k] = static_cast<double>(in[k]); });
 }
 
 void narrow_divided(const Eigen::VectorXd& in, double divisor, Eigen::VectorXf& out, int parallel_from) {
   const auto n = in.size();
   out.resize(n);
-#pragma omp parallel for schedule(static) if (n >= parallel_from)
-  for (Eigen::Index k = 0; k < n; ++k) out[k] = static_cast<float>(in[k] / divisor);
+  parallel_loop(n, n >= parallel_from, [&](Eigen::Index k) { out[k] = static_cast<float>(in[k] / divisor); });
 }
 
 }  // namespace
@@ -42,12 +42,11 @@ void narrow_divided(const Eigen::VectorXd& in, double divisor, Eigen::VectorXf& 
 // (each entry's sum in the order of i, as count separate updates would add it).
 void Fgmres::add_combination(const Eigen::VectorXd& c, int count, Eigen::VectorXd& x, int parallel_from) const {
   const auto n = x.size();
-#pragma omp parallel for schedule(static) if (n >= parallel_from)
-  for (Eigen::Index k = 0; k < n; ++k) {
+  parallel_loop(n, n >= parallel_from, [&](Eigen::Index k) {
     double v = x[k];
     for (int i = 0; i < count; ++i) v += c[i] * static_cast<double>(z_basis_[i][k]);
     x[k] = v;
-  }
+  });
 }
 
 double Fgmres::orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<Eigen::VectorXd> h, int parallel_from) {
@@ -73,8 +72,7 @@ double Fgmres::orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<Eigen::Ve
   };
   // One sweep over the chunks: subtract d, or project on the basis; then measure |w|^2.
   const auto sweep = [&](bool subtract) {
-#pragma omp parallel for schedule(static) if (m >= parallel_from)
-    for (int c = 0; c < chunks; ++c) {
+    parallel_loop(chunks, m >= parallel_from, [&](int c) {
       const int b = c * kChunk, e = std::min(m, b + kChunk);
       double* out = partial_.data() + static_cast<size_t>(c) * width;
       if (subtract) {
@@ -87,7 +85,7 @@ double Fgmres::orthogonalise(Eigen::VectorXd& w, int count, Eigen::Ref<Eigen::Ve
         for (int i = 0; i < count; ++i) out[i] = chunk_dot(wp + b, basis_[i].data() + b, e - b);
       }
       out[count] = chunk_dot(wp + b, wp + b, e - b);
-    }
+    });
   };
   h.head(count).setZero();
   double norm2 = 0.0;

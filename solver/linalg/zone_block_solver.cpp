@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <cmath>
 
+#include "solver/linalg/parallel_loop.hpp"
+
 namespace oxystrat {
 namespace {
 
@@ -284,13 +286,10 @@ bool ZoneBlockSolver::refresh_preconditioner() {
     // The two pairs are independent (block Jacobi between them, see precondition()): built side
     // by side, each sequential, so the hierarchies are the same bits for any thread count.
     std::array<bool, 2> ok{false, false};
-#pragma omp parallel sections num_threads(2) if (n_ >= kParallelPairsFrom)
-    {
-#pragma omp section
-      ok[0] = mg_[0].setup(*block_[0], shift[0], options_) && mg_[2].setup(*block_[2], shift[2], options_);
-#pragma omp section
-      ok[1] = mg_[1].setup(*block_[1], shift[1], options_) && mg_[3].setup(*block_[3], shift[3], options_);
-    }
+    side_by_side(
+        n_ >= kParallelPairsFrom,
+        [&] { ok[0] = mg_[0].setup(*block_[0], shift[0], options_) && mg_[2].setup(*block_[2], shift[2], options_); },
+        [&] { ok[1] = mg_[1].setup(*block_[1], shift[1], options_) && mg_[3].setup(*block_[3], shift[3], options_); });
     if (!ok[0] || !ok[1]) return false;
   } else {
     for (int s = 0; s < kS; ++s) {
@@ -326,19 +325,15 @@ void ZoneBlockSolver::block_solve(int s, Eigen::VectorXd& x) const {
 // one), then the zone-local blocks.
 void ZoneBlockSolver::multiply(const Eigen::VectorXd& x, Eigen::VectorXd& out) const {
   out.resize(kS * n_);
-#pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
-  for (int i = 0; i < kS * n_; ++i) out[i] = 0.0;
+  const bool split = kS * n_ >= options_.parallel_from_unknowns;
+  parallel_loop(kS * n_, split, [&](int i) { out[i] = 0.0; });
   // Each species' transport with its zone-local rows. Liquid and gas pair side by side when each
   // shares one transport; the gas from the last column, so that the two threads write the same
   // cache lines only where they cross.
   if (block_[0] == block_[1] && block_[2] == block_[3]) {
-#pragma omp parallel sections num_threads(2) if (kS * n_ >= options_.parallel_from_unknowns)
-    {
-#pragma omp section
-      add_product(*block_[0], 0, 2, false, x, out, local_.data());
-#pragma omp section
-      add_product(*block_[2], 2, 2, true, x, out, local_.data());
-    }
+    side_by_side(
+        split, [&] { add_product(*block_[0], 0, 2, false, x, out, local_.data()); },
+        [&] { add_product(*block_[2], 2, 2, true, x, out, local_.data()); });
     return;
   }
   for (int s = 0; s < kS; ++s) add_product(*block_[s], s, 1, false, x, out, local_.data());
@@ -349,28 +344,21 @@ void ZoneBlockSolver::precondition(const Eigen::VectorXf& v, Eigen::VectorXf& ou
   if (fused_) {
     precondition_fused(v);
   } else {
-#pragma omp parallel sections num_threads(2) if (n_ >= kParallelPairsFrom)
-    {
-#pragma omp section
-      precondition_pair(0, v);
-#pragma omp section
-      precondition_pair(1, v);
-    }
+    side_by_side(n_ >= kParallelPairsFrom, [&] { precondition_pair(0, v); }, [&] { precondition_pair(1, v); });
   }
   out.resize(kS * n_);
+  const bool split = kS * n_ >= options_.parallel_from_unknowns;
   if (multigrid_) {  // the answers where the cycles left them
     const std::array<const float*, kS> x{mg_[0].solution().data(), mg_[1].solution().data(), mg_[2].solution().data(),
                                          mg_[3].solution().data()};
-#pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
-    for (int k = 0; k < n_; ++k) {
+    parallel_loop(n_, split, [&](int k) {
       for (int s = 0; s < kS; ++s) out[kS * k + s] = x[s][k];
-    }
+    });
     return;
   }
-#pragma omp parallel for schedule(static) if (kS * n_ >= options_.parallel_from_unknowns)
-  for (int k = 0; k < n_; ++k) {
+  parallel_loop(n_, split, [&](int k) {
     for (int s = 0; s < kS; ++s) out[kS * k + s] = static_cast<float>(s_[s][k]);
-  }
+  });
 }
 
 // x_l = A^-1 v_l, x_g = S^-1 (v_g - C x_l) for one pair: into the multigrid's own solution

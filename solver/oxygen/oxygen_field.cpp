@@ -15,6 +15,7 @@
 #include "solver/oxygen/oxygen_problem.hpp"
 #include "physics/solubility.hpp"
 #include "solver/flow/transport.hpp"
+#include "solver/linalg/parallel_loop.hpp"
 #include "physics/constants.hpp"
 
 namespace oxystrat {
@@ -55,13 +56,12 @@ GasState gas_state(const OxygenContext& ctx, const std::vector<double>& dry_mol_
   g.superficial.assign(net.size(), 0.0);
   for (int sweep = 0; sweep < 4; ++sweep) {
     g.pressure = column_pressures(ctx.c, net, g.holdup);
-#pragma omp parallel for schedule(static) if (net.size() >= 50000)
-    for (int k = 0; k < net.size(); ++k) {
-      // Wet gas volume per zone volume. Beyond ~0.3 bubbly flow gives way to churning plumes, which
-      // a caution reports; the hydrostatic head counts at most 60 % gas so the columns stay liquid.
+    // Wet gas volume per zone volume. Beyond ~0.3 bubbly flow gives way to churning plumes, which
+    // a caution reports; the hydrostatic head counts at most 60 % gas so the columns stay liquid.
+    parallel_loop(net.size(), net.size() >= 50000, [&](int k) {
       g.holdup[k] = dry_mol_m3[k] * kR * t / (g.pressure[k] - pw);
       g.superficial[k] = g.holdup[k] * ctx.routing.slip_m_s[k];
-    }
+    });
   }
   return g;
 }
@@ -157,15 +157,14 @@ void OxygenSetup::update(const Eigen::VectorXd& x) {
   const double molar_volume_rt = kR * c.vessel.temperature_k;
   const double sparged = ctx.hydro.gas_molar_flow_mol_s;
   // Zone by zone in parallel, summed in zone order (the same total for any thread count).
-#pragma omp parallel for schedule(static) if (n >= 50000)
-  for (int k = 0; k < n; ++k) {
+  parallel_loop(n, n >= 50000, [&](int k) {
     const double undissolved =
         ctx.routing.unit_inventory[k] * sparged * molar_volume_rt / (gas.pressure[k] - water_pressure_pa);
     kla[k] = std::min(gas.holdup[k], undissolved) < gas_free_holdup
                  ? 0.0
                  : local_kla(c, ctx.hydro.epsilon[k], gas.superficial[k], gas.holdup[k], ctx.routing.sauter_m[k],
                              ctx.hydro.apparent_viscosity[k]);
-  }
+  });
   double kla_volume = 0.0;
   for (int k = 0; k < n; ++k) kla_volume += kla[k] * net.volume[k];
   // The published correlation fixes the vessel's total; the local form only distributes it.

@@ -4,6 +4,8 @@
 #include <array>
 #include <cmath>
 
+#include "solver/linalg/parallel_loop.hpp"
+
 namespace oxystrat {
 
 ZoneTransfer zone_transfer(const TransferCoefficients& coeff, int k, double c, double d, double go, double gc) {
@@ -120,8 +122,7 @@ ZoneBlockSolver::LocalBlock OxygenProblem::local_block(const Eigen::VectorXd& x,
 bool OxygenProblem::jacobian_parts(const Eigen::VectorXd& x, std::vector<ZoneBlockSolver::LocalBlock>& local,
                                    ZoneTransports& transports) const {
   if (static_cast<int>(local.size()) != n_) return false;
-#pragma omp parallel for schedule(static) if (n_ >= 50000)
-  for (int k = 0; k < n_; ++k) local[k] = local_block(x, k);
+  parallel_loop(n_, n_ >= 50000, [&](int k) { local[k] = local_block(x, k); });
   transports = {&transport_, &gas_transport_};
   return true;
 }
