@@ -6,6 +6,9 @@
 #include <bit>
 #include <cmath>
 #include <cstdint>
+#include <map>
+#include <memory>
+#include <mutex>
 #include <stdexcept>
 #include <utility>
 #include <vector>
@@ -103,7 +106,7 @@ struct alignas(2 * kLogFull) Lane {
   int cell = -1;          // -1: idle
 };
 
-constexpr int kBlock = 64;  // cells per block: the unit of work and of the ordered merge
+constexpr int kBlock = 64;  // cells per block: the unit of work and of the in-order merge
 constexpr int kLanes = 4;   // cells followed side by side in one thread (3-4 measured best, 8 slower)
 
 // The lanes of a thread as the rare paths of a move see them: they take a lane index, so that a
@@ -297,7 +300,7 @@ class Simulator {
 };
 
 // A thread's workspace for a block of cells: its tally, the event lists of each cell of the block
-// (merged in cell order), the lanes. Allocated once per thread; capacities are kept.
+// (merged in cell order), the lanes. Reused from block to block (see BlockMerger); capacities are kept.
 struct BlockWork {
   Tally tally;
   std::vector<std::vector<FieldEvents>> events;  // [cell in block][field]
@@ -377,36 +380,80 @@ void run_block(const Simulator& sim, std::vector<ZoneRecord<LogColumns>>& record
   for (size_t k = 0; k < records.size(); ++k) work.tally.zone[k].sum = records[k].sum, records[k].sum = Pair{0.0, 0.0};
 }
 
+// Adds finished blocks into the totals in block order (so the sums do not depend on the thread
+// count): whichever thread finishes the block next in order merges it, with any later ones
+// already done. A thread whose block is early parks its workspace and goes on with a spare one
+// instead of waiting for its turn, which on a shared machine could be most of a block away.
+class BlockMerger {
+ public:
+  BlockMerger(const Simulator& sim, int zones, int cells, Totals& out) : sim_(sim), zones_(zones), cells_(cells), out_(out) {}
+
+  std::unique_ptr<BlockWork> take() {
+    {
+      const std::lock_guard<std::mutex> lock(mutex_);
+      if (!spare_.empty()) {
+        auto w = std::move(spare_.back());
+        spare_.pop_back();
+        return w;
+      }
+    }
+    return std::make_unique<BlockWork>(sim_, zones_);
+  }
+
+  void finished(int block, std::unique_ptr<BlockWork> work) {
+    const std::lock_guard<std::mutex> lock(mutex_);
+    parked_.emplace(block, std::move(work));
+    for (auto it = parked_.find(next_); it != parked_.end(); it = parked_.find(next_)) {
+      merge(next_, *it->second);
+      spare_.push_back(std::move(it->second));
+      parked_.erase(it);
+      ++next_;
+    }
+  }
+
+ private:
+  void merge(int block, const BlockWork& work) {
+    const int first = block * kBlock, last = std::min(cells_, first + kBlock);
+    out_.tally.add(work.tally);
+    for (int c = first; c < last; ++c) {
+      for (int f = 0; f < sim_.fields(); ++f) work.events[c - first][f].append_to(out_.events[f]);
+    }
+    // Room for all the events, estimated from the first block, so that the lists (hundreds of
+    // MB at 1e5 cells) are not copied again and again as they grow.
+    if (block == 0) {
+      const double scale = 1.05 * cells_ / std::max(last - first, 1);
+      for (auto& e : out_.events) {
+        for (auto* v : {&e.excursions, &e.between, &e.long_excursions, &e.long_between}) {
+          v->reserve(static_cast<size_t>(scale * v->size()) + 64);
+        }
+      }
+    }
+  }
+
+  const Simulator& sim_;
+  int zones_, cells_;
+  Totals& out_;
+  std::mutex mutex_;
+  std::vector<std::unique_ptr<BlockWork>> spare_;
+  std::map<int, std::unique_ptr<BlockWork>> parked_;
+  int next_ = 0;  // the next block to merge
+};
+
 // All cells, in blocks over the threads, with the column count a constant.
 template <int LogColumns>
 void follow_cells(const Chain& chain, const Simulator& sim, int cells, int threads, Totals& out, std::vector<Trajectory>& paths) {
   const auto prototype = zone_records<LogColumns>(chain);
   const int blocks = (cells + kBlock - 1) / kBlock;
+  BlockMerger merger(sim, chain.zones, cells, out);
 #pragma omp parallel num_threads(threads)
   {
-    BlockWork work(sim, chain.zones);
     auto records = prototype;  // this thread's: its sums sit on the lines the moves read
-#pragma omp for ordered schedule(dynamic, 1)
+#pragma omp for schedule(dynamic, 1)
     for (int b = 0; b < blocks; ++b) {
+      auto work = merger.take();
       const int first = b * kBlock, last = std::min(cells, first + kBlock);
-      run_block<LogColumns>(sim, records, first, last, work, out.outside, paths);
-#pragma omp ordered
-      {
-        out.tally.add(work.tally);
-        for (int c = first; c < last; ++c) {
-          for (int f = 0; f < sim.fields(); ++f) work.events[c - first][f].append_to(out.events[f]);
-        }
-        // Room for all the events, estimated from the first block, so that the lists (hundreds of
-        // MB at 1e5 cells) are not copied again and again as they grow.
-        if (b == 0) {
-          const double scale = 1.05 * cells / std::max(last - first, 1);
-          for (auto& e : out.events) {
-            for (auto* v : {&e.excursions, &e.between, &e.long_excursions, &e.long_between}) {
-              v->reserve(static_cast<size_t>(scale * v->size()) + 64);
-            }
-          }
-        }
-      }
+      run_block<LogColumns>(sim, records, first, last, *work, out.outside, paths);
+      merger.finished(b, std::move(work));
     }
   }
 }

@@ -56,7 +56,7 @@ TEST(Lifelines, OccupancyEqualsVolumeShareAndResidenceIsVolumeOverOutflow) {
 TEST(Lifelines, SeededAndIndependentOfThreads) {
   const Small s;
   LifelineOptions o;
-  o.cells = 150;  // more than two blocks of cells, so that both threads get work
+  o.cells = 2000;  // ~30 blocks of cells: both threads get work, and blocks finish out of order
   o.duration_s = 60.0;
   o.threads = 1;
   o.min_excursion_s = 0.5;
