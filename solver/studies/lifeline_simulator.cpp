@@ -13,6 +13,7 @@
 #include <utility>
 #include <vector>
 
+#include "solver/linalg/memory_policy.hpp"
 #include "solver/random/cell_random.hpp"
 #include "solver/random/exponential_ziggurat.hpp"
 
@@ -425,6 +426,7 @@ class BlockMerger {
       for (auto& e : out_.events) {
         for (auto* v : {&e.excursions, &e.between, &e.long_excursions, &e.long_between}) {
           v->reserve(static_cast<size_t>(scale * v->size()) + 64);
+          prefer_huge_pages(v->data(), v->capacity() * sizeof(double));
         }
       }
     }
