@@ -46,16 +46,16 @@ void add_mixing_command(CLI::App& app) {
     if (!o->inject.empty()) std::tie(mo.inject_r_m, mo.inject_z_m) = parse_vessel_point("--inject", o->inject);
     if (!o->probe.empty()) std::tie(mo.probe_r_m, mo.probe_z_m) = parse_vessel_point("--probe", o->probe);
     const auto mix = tracer_mixing_time(net, hydro, mo);
-    const int pct = static_cast<int>(std::lround(100 * mo.homogeneity));
+    const std::string theta = theta_label(mo.homogeneity);
     fmt::print("{}\n{}\n{}", c.title, mixing_headline(c, mix, mo.homogeneity), power_table(c, hydro));
     fmt::print("Mixing ({} zones, {} implicit steps, {} factorisations)\n", net.size(), mix.stats.steps,
                mix.stats.factorisations);
-    fmt::print("  theta{} whole vessel  {:.4g} s  (N theta = {:.4g}{})\n", pct, mix.theta_s, c.operation.speed_rps * mix.theta_s,
+    fmt::print("  {} whole vessel  {:.4g} s  (N theta = {:.4g}{})\n", theta, mix.theta_s, c.operation.speed_rps * mix.theta_s,
                mix.judged_volume_fraction < 1.0
                    ? fmt::format("; the broth inside the caverns: the {:.1f} % outside them is stagnant and not counted",
                                  100.0 * (1.0 - mix.judged_volume_fraction))
                    : "");
-    fmt::print("  theta{} at the probe  {:.4g} s  (zone {} at r = {:.3g} m, z = {:.3g} m)\n", pct, mix.theta_probe_s,
+    fmt::print("  {} at the probe  {:.4g} s  (zone {} at r = {:.3g} m, z = {:.3g} m)\n", theta, mix.theta_probe_s,
                mix.probe_zone, net.r[mix.probe_zone], net.z[mix.probe_zone]);
     fmt::print("  injected in zone {} at r = {:.3g} m, z = {:.3g} m\n", mix.inject_zone, net.r[mix.inject_zone],
                net.z[mix.inject_zone]);
@@ -66,7 +66,7 @@ void add_mixing_command(CLI::App& app) {
       write_case_h5(h5, loaded);
       write_network_h5(h5, net);
       write_hydrodynamics_h5(h5, c, hydro);
-      write_mixing_h5(h5, mix);
+      write_mixing_h5(h5, mix, mo.homogeneity);
       h5.close();
     }
     write_mixing_csv(folder.file("tracer.csv").string(), mix);

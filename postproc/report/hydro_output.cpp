@@ -1,4 +1,5 @@
 #include "postproc/report/hydro_output.hpp"
+#include "postproc/report/mixing_output.hpp"
 #include "postproc/io/file_output.hpp"
 #include "solver/flow/viscous_flow.hpp"
 #include "input/errors.hpp"
@@ -116,14 +117,22 @@ std::string power_table(const Case& c, const Hydrodynamics& h) {
   return s;
 }
 
-void write_mixing_h5(H5Writer& h5, const MixingResult& m) {
-  h5.write("/mixing/theta95", m.theta_s, "s");
-  h5.attribute("/mixing/theta95", "meaning",
-               "time after which every zone the flow reaches stays within +-5 % of the final value");
+void write_mixing_h5(H5Writer& h5, const MixingResult& m, double homogeneity) {
+  const std::string band = homogeneity_percent(1.0 - homogeneity);
+  h5.write("/mixing/homogeneity", homogeneity, "1");
+  h5.attribute("/mixing/homogeneity", "meaning", "degree of homogeneity x of the mixing time theta_x");
+  h5.write("/mixing/theta", m.theta_s, "s");
+  h5.attribute("/mixing/theta", "meaning",
+               "time after which every zone the flow reaches stays within +-" + band + " % of the final value");
+  h5.write("/mixing/theta_probe", m.theta_probe_s, "s");
+  if (std::abs(homogeneity - 0.95) < 1e-12) {
+    h5.write("/mixing/theta95", m.theta_s, "s");
+    h5.attribute("/mixing/theta95", "meaning", "time after which every zone the flow reaches stays within +-5 % of the final value");
+    h5.write("/mixing/theta95_probe", m.theta_probe_s, "s");
+  }
   h5.write("/mixing/judged_volume_fraction", m.judged_volume_fraction, "1");
   h5.attribute("/mixing/judged_volume_fraction", "meaning",
-               "share of the volume theta95 judges: 1, or less where broth outside every cavern is stagnant");
-  h5.write("/mixing/theta95_probe", m.theta_probe_s, "s");
+               "share of the volume theta judges: 1, or less where broth outside every cavern is stagnant");
   h5.write("/mixing/time", m.time_s, "s");
   h5.write("/mixing/probe", m.probe, "1");
   h5.attribute("/mixing/probe", "meaning", "tracer concentration at the probe zone over its final value");

@@ -21,7 +21,9 @@ std::vector<CellArray> hydrodynamics_cell_arrays(const Hydrodynamics& h);
 //! Per impeller: type, D/T, Np, P ungassed/gassed, regime, tip speed; then totals and P/V.
 std::string power_table(const Case& c, const Hydrodynamics& h);
 
-void write_mixing_h5(H5Writer& h5, const MixingResult& m);
+//! theta_x as /mixing/theta and /mixing/theta_probe with x as /mixing/homogeneity; at the default
+//! x = 0.95 also under the names /mixing/theta95 and /mixing/theta95_probe.
+void write_mixing_h5(H5Writer& h5, const MixingResult& m, double homogeneity);
 //! time_s, c/c_final at the probe, max deviation over zones.
 void write_mixing_csv(const std::string& path, const MixingResult& m);
 

@@ -26,8 +26,10 @@ std::string seconds(double t) { return format_number(t, 3, 1) + " s"; }
 
 }  // namespace
 
+std::string homogeneity_percent(double homogeneity) { return fmt::format("{:g}", std::round(1000.0 * homogeneity) / 10.0); }
+
 std::string mixing_headline(const Case& c, const MixingResult& mix, double homogeneity) {
-  const int pct = static_cast<int>(std::lround(100 * homogeneity));
+  const std::string pct = homogeneity_percent(homogeneity);
   const std::string what = mix.judged_volume_fraction < 1.0 ? "The broth inside the caverns" : "The whole vessel";
   std::string s = mix.reached ? fmt::format("{} mixes to {} % in {} ({} impeller turns).", what, pct, seconds(mix.theta_s),
                                             format_number(c.operation.speed_rps * mix.theta_s, 3, 0))
@@ -72,7 +74,7 @@ std::string mixing_report_body(const Case& c, const ZoneNetwork& net, const Hydr
                        {{mix.judged_volume_fraction < 1.0 ? "largest over the zones the flow reaches" : "largest over the zones", mix.time_s,
                          dev, "#d62728"}},
                        {{false, 100.0 * band, fmt::format("{} % band", format_number(100 * band, 2, 1))},
-                        {true, mix.theta_s, fmt::format("theta{}", static_cast<int>(std::lround(100 * homogeneity)))}},
+                        {true, mix.theta_s, theta_label(homogeneity)}},
                        560, 340, 0.0, 100.0);
   // The tracer in the section at the stored time nearest half the mixing time.
   if (!mix.snapshots.empty()) {

@@ -12,6 +12,12 @@
 
 namespace oxystrat {
 
+//! x of theta_x in percent as printed: 95, 97.5, 99.9.
+std::string homogeneity_percent(double homogeneity);
+
+//! The name of the mixing time for homogeneity x: "theta95", "theta99.9".
+inline std::string theta_label(double homogeneity) { return "theta" + homogeneity_percent(homogeneity); }
+
 //! The first sentence: theta_x of the whole vessel, and whether the culture would use up the
 //! dissolved O2 of air saturation faster than that (gradients expected) or not.
 std::string mixing_headline(const Case& c, const MixingResult& mix, double homogeneity);
