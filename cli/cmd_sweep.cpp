@@ -122,7 +122,11 @@ void add_sweep_command(CLI::App& app) {
     fmt::print("{} feasible, {} failed", feasible_count, failed);
     if (chosen >= 0) {
       fmt::print("; chosen point {} (least {}):", chosen, o->objective);
-      for (const auto& ov : point_overrides(p, static_cast<size_t>(chosen))) fmt::print(" {}", ov.raw);
+      // Four figures, as an operating point is set (sweep.csv keeps every digit).
+      for (size_t d = 0; d < p.axes.size(); ++d) {
+        const auto& a = p.axes[d];
+        fmt::print(" {}={:.4g}{}{}", a.key, p.points[static_cast<size_t>(chosen)][d], a.unit.empty() ? "" : " ", a.unit);
+      }
       fmt::print(", P gassed {:.4g} kW, DO min {:.4g} mmol/L", summary_display(results[chosen].values, "power_gassed"),
                  summary_display(results[chosen].values, "do_min"));
     }

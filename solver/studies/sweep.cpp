@@ -97,16 +97,21 @@ void check_sweep_axes(const LoadedCase& base, const std::vector<Override>& base_
       try {
         (void)read_case_text(base.source_text, base.file_name, overrides);
       } catch (const CaseError& e) {
-        // The reader names the override as a --set; here it is the --vary argument's value.
+        // The reader names the override as a --set; here it is the value of a --vary argument,
+        // the one at its end (axis d) or another axis at its start: the one the reader names.
         std::string why = e.what();
-        if (const std::string set = "--set '" + point[d].raw + "': "; why.rfind(set, 0) == 0) why.erase(0, set.size());
-        if (axes[d].plain_assumed) {
+        size_t bad = d;
+        for (size_t k = 0; k < axes.size(); ++k) {
+          if (why.rfind("--set '" + point[k].raw + "': ", 0) == 0) bad = k;
+        }
+        if (const std::string set = "--set '" + point[bad].raw + "': "; why.rfind(set, 0) == 0) why.erase(0, set.size());
+        if (axes[bad].plain_assumed) {
           why += fmt::format(" (the case does not write {}, so its values were taken as plain numbers; give the unit: "
                              "{}=START:STOP:COUNT:UNIT)",
-                             axes[d].key, axes[d].key);
+                             axes[bad].key, axes[bad].key);
         }
-        throw CaseError(fmt::format("--vary '{}' at {}: {}", axes[d].argument.empty() ? axes[d].key : axes[d].argument,
-                                    point[d].raw, why));
+        throw CaseError(fmt::format("--vary '{}' at {}: {}", axes[bad].argument.empty() ? axes[bad].key : axes[bad].argument,
+                                    point[bad].raw, why));
       }
     }
   }

@@ -86,6 +86,15 @@ TEST(SweepPlan, AxesAreReadAtBothEndsBeforeAnyPointRuns) {
   EXPECT_THROW(parse_vary("operation.speed=nan:500:3", base), CaseError);
   EXPECT_THROW(parse_vary("operation.speed=300:inf:3", base), CaseError);
   EXPECT_THROW(parse_vary("operation.speed=300:500:3x", base), CaseError);
+  // A bad value of the second axis is named as that axis's, not as the first one's (it was read
+  // while the first axis stood at one of its ends).
+  try {
+    check_sweep_axes(base, {}, {parse_vary("operation.speed=300:500:3", base), parse_vary("vessel.head_pressure=1:2:2:bar", base)});
+    ADD_FAILURE() << "a pressure without (a) or (g) was accepted";
+  } catch (const CaseError& e) {
+    EXPECT_EQ(std::string(e.what()).rfind("--vary 'vessel.head_pressure=1:2:2:bar' at vessel.head_pressure=1 bar: pressure unit", 0), 0u)
+        << e.what();
+  }
 }
 
 TEST(SweepPlan, ObjectiveIsCheckedAgainstTheValuesThePointsWillHave) {
