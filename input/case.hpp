@@ -71,6 +71,9 @@ struct Sparger {
   double pore_diameter_m = 0.0;  //!< Pore size of a porous (sintered) element [m]
 };
 
+//! Highest agitator speed a case may give [1/s] (3000 rpm: beyond any vessel this tool is for).
+inline constexpr double max_speed_rps = 50.0;
+
 struct Operation {
   double speed_rps = 0.0;          //!< Agitator speed N [1/s]
   //! Dry inlet gas flow as normal volume (0 degC, 101325 Pa) [m3/s]; vvm refers to this basis.

@@ -44,7 +44,7 @@ void read_operation(TomlSource& src, Case& c) {
   src.allow_table("operation");
   if (!src.has("operation")) src.missing("operation", "the [operation] table with at least speed");
   auto& o = c.operation;
-  o.speed_rps = src.require_quantity("operation.speed", Dimension::speed, {0.0, 50.0, true}, "120 rpm");
+  o.speed_rps = src.require_quantity("operation.speed", Dimension::speed, {0.0, max_speed_rps, true}, "120 rpm");
   o.gas_flow_normal_m3_s = read_gas_flow(src, "operation.gas_flow", c.vessel);
   o.oxygen_fraction = src.number("operation.oxygen_fraction", {0.0, 1.0}).value_or(physics::air_o2_fraction);
   // Air's CO2 by default, but never more than the O2 leaves (pure O2 has none).

@@ -139,9 +139,9 @@ DoTrace do_trace_from(const CsvTable& table) {
     tr.line.push_back(row.line);
   }
   if (static_cast<int>(tr.time_s.size()) < min_trace_points) {
-    throw CaseError(fmt::format("{}: too few points: {} rows of data; the fit needs at least {} (better: dozens "
+    throw CaseError(fmt::format("{}: too few points: {} row{} of data; the fit needs at least {} (better: dozens "
                                 "spread over the whole rise)",
-                                table.file_name, tr.time_s.size(), min_trace_points));
+                                table.file_name, tr.time_s.size(), tr.time_s.size() == 1 ? "" : "s", min_trace_points));
   }
   return tr;
 }

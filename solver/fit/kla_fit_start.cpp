@@ -35,8 +35,8 @@ Setup prepare(const DoTrace& tr, const KlaFitOptions& o) {
   const auto& y = tr.value;
   const size_t n = t.size();
   if (static_cast<int>(n) < min_trace_points || y.size() != n) {
-    throw CaseError(fmt::format("{}: too few points: {} rows of data; the fit needs at least {}", tr.file_name, n,
-                                min_trace_points));
+    throw CaseError(fmt::format("{}: too few points: {} row{} of data; the fit needs at least {}", tr.file_name, n,
+                                n == 1 ? "" : "s", min_trace_points));
   }
   const size_t edge = std::max<size_t>(3, n / 20);
   const double head = median(std::vector<double>(y.begin(), y.begin() + static_cast<std::ptrdiff_t>(edge)));

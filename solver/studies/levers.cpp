@@ -51,10 +51,12 @@ std::vector<LeverSpec> lever_specs(const Case& c) {
   double d_max = 0.0;
   for (const auto& i : c.impellers) d_max = std::max(d_max, i.diameter_m);
   if (c.constraints.max_tip_speed_m_s) {
-    out.push_back(spec("speed", "operation.speed", "rpm", rpm, *c.constraints.max_tip_speed_m_s / (M_PI * d_max) * 60.0,
-                   "the tip-speed limit of [constraints]"));
+    out.push_back(spec("speed", "operation.speed", "rpm", rpm,
+                       std::min(*c.constraints.max_tip_speed_m_s / (M_PI * d_max), max_speed_rps) * 60.0,
+                       "the tip-speed limit of [constraints]"));
   } else {
-    out.push_back(spec("speed", "operation.speed", "rpm", rpm, 2.0 * rpm, "twice the case's speed (no tip-speed limit given)"));
+    out.push_back(spec("speed", "operation.speed", "rpm", rpm, std::min(2.0 * rpm, 60.0 * max_speed_rps),
+                       "twice the case's speed (no tip-speed limit given)"));
   }
   const double vvm = c.operation.gas_flow_normal_m3_s * 60.0 / c.vessel.working_volume_m3;
   out.push_back(spec("gas flow", "operation.gas_flow", "vvm", vvm, std::max(vvm, 1.5),

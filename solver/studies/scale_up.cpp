@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 #include <omp.h>
 
+#include <algorithm>
 #include <cmath>
 #include <functional>
 #include <numbers>
@@ -92,7 +93,9 @@ ScaleUpStudy study_scale_up(const LoadedCase& pilot, const LoadedCase& productio
   s.pilot = metrics(pilot.data, Depth::field);
   const Case& prod = production.data;
   const double n0 = prod.operation.speed_rps;
-  const double lo = n0 / o.speed_factor, hi = n0 * o.speed_factor;
+  // Within the speeds a case may give (a production vessel smaller than the pilot's once searched
+  // up to 3200 rpm and lost every criterion to the reader's range error).
+  const double lo = n0 / o.speed_factor, hi = std::min(n0 * o.speed_factor, max_speed_rps);
   const double gas_vvm = s.pilot.vvm * prod.vessel.working_volume_m3 / 60.0;  // equal vvm [Nm3/s]
   const double gas_vs = gas_for_superficial(prod, s.pilot.superficial_gas_m_s);
 

@@ -67,5 +67,15 @@ TEST(ScaleUp, EachCriterionHoldsItsQuantity) {
   EXPECT_DOUBLE_EQ(s.rows[0].production.speed_rps, direct.operation.speed_rps);
 }
 
+TEST(ScaleUp, ToASmallerVesselSearchesOnlyTheSpeedsACaseMayGive) {
+  // From the 60 m3 demo to the 300 L pilot (at 400 rpm): the search once reached 8 x 400 rpm, past
+  // the 3000 rpm a case may give, and every criterion ended in that range error.
+  const auto s = study_scale_up(demo("tall-3rushton.toml"), demo("pilot-300L.toml"), {});
+  ASSERT_EQ(s.rows.size(), 7u);
+  for (size_t i = 1; i < s.rows.size(); ++i) EXPECT_TRUE(s.rows[i].reached) << s.rows[i].criterion << ": " << s.rows[i].note;
+  EXPECT_TRUE(s.rows[2].reached);
+  EXPECT_NEAR(s.rows[2].production.tip_speed_m_s / s.pilot.tip_speed_m_s, 1.0, 1e-3);  // bisection to 1e-5 in ln N
+}
+
 }  // namespace
 }  // namespace oxystrat
