@@ -139,7 +139,7 @@ std::vector<std::string> cautions(const Case& c, const Hydrodynamics& h, const O
       out.push_back(fmt::format(
           "model range: gas holdup (gas volume per liquid volume) reaches {:.0f} % ({:.0f} % of the gassed dispersion) "
           "and exceeds {:.0f} % in {:.0f} % of the volume: not a sparger plume but the gas flow itself. At a superficial "
-          "gas velocity of up to {:.2g} m/s a tall vessel runs towards the churn-turbulent regime (from ~0.05 m/s in "
+          "gas velocity of up to {:.2g} m/s the vessel runs towards the churn-turbulent regime (from ~0.05 m/s in "
           "bubble columns, Shah et al. 1982 [mem]), where large, fast bubbles carry much of the gas; one bubble size per "
           "zone then overstates the holdup and the gassed level, and holdup, kLa and pressure are rough. Less gas, more "
           "back pressure or O2 enrichment lower the velocity.",
