@@ -20,6 +20,15 @@ std::string num(double v) { return report::format_number(v); }
 // The samples are SI; tables for people show them in the output's display unit.
 double shown(const UncertaintyOutput& o, double si) { return si * units::display_per_si(o.unit, o.display_unit); }
 
+// How often the constants' scatter alone puts some broth below its critical DO: what a verdict
+// with a thin margin rests on.
+std::string below_critical_sentence(const UncertaintyResult& u) {
+  if (u.samples_ran == 0 || u.samples_below_critical == 0) return "";
+  return fmt::format("In {} of {} samples some broth falls below its critical DO (the constants varied within their "
+                     "published scatter).",
+                     u.samples_below_critical, u.samples_ran);
+}
+
 }  // namespace
 
 std::string uncertainty_text(const UncertaintyResult& u) {
@@ -28,9 +37,10 @@ std::string uncertainty_text(const UncertaintyResult& u) {
                               u.failed ? fmt::format(", {} failed", u.failed) : "");
   s += fmt::format("  {:<26} {:>10} {:>10} {:>10}  {}\n", "", "P10", "P50", "P90", "unit");
   for (const auto& o : u.outputs) {
-    s += fmt::format("  {:<26} {:>10} {:>10} {:>10}  {}\n", o.name, num(shown(o, o.q.p10)), num(shown(o, o.q.p50)),
+    s += fmt::format("  {:<26} {:>10} {:>10} {:>10}  {}\n", o.label, num(shown(o, o.q.p10)), num(shown(o, o.q.p50)),
                      num(shown(o, o.q.p90)), o.display_unit);
   }
+  if (const auto line = below_critical_sentence(u); !line.empty()) s += "  " + line + "\n";
   s += "  What moves DO min most (Spearman rank correlation; measure these first):\n";
   bool noise_shown = false;
   for (size_t i = 0; i < u.sensitivity.size() && i < 5; ++i) {
@@ -109,9 +119,11 @@ std::string uncertainty_html(const UncertaintyResult& u, double critical) {
   s += "<table><tr><th>quantity</th><th>P10</th><th>P50</th><th>P90</th><th>unit</th></tr>\n";
   for (const auto& o : u.outputs) {
     s += fmt::format("<tr><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td>{}</td></tr>\n",
-                     o.name, num(shown(o, o.q.p10)), num(shown(o, o.q.p50)), num(shown(o, o.q.p90)), o.display_unit);
+                     o.label, num(shown(o, o.q.p10)), num(shown(o, o.q.p50)), num(shown(o, o.q.p90)), o.display_unit);
   }
-  s += "</table>\n<h3>What moves DO min most</h3>\n<table><tr><th>constant</th><th>rank correlation</th><th></th></tr>\n";
+  s += "</table>\n";
+  if (const auto line = below_critical_sentence(u); !line.empty()) s += "<p>" + line + "</p>\n";
+  s += "<h3>What moves DO min most</h3>\n<table><tr><th>constant</th><th>rank correlation</th><th></th></tr>\n";
   for (const auto& k : u.sensitivity) {
     s += fmt::format("<tr><td>{}</td><td class=\"num\">{:+.2f}</td><td>{}</td></tr>\n", k.constant, k.spearman,
                      k.significant ? "" : "within sampling noise");

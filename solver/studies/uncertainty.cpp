@@ -139,8 +139,10 @@ UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts)
   const auto names = uncertainty_output_names();
   const char* units_[4] = {"mol/m3", "1", "kg/m3", "s"};       // SI, as /summary
   const char* shown[4] = {"mmol/L", "%", "g/L", "s"};          // for the tables people read
+  const char* labels[4] = {"DO min (zones)", "volume below critical DO", "max biomass (zones)", "theta95"};
   for (int q = 0; q < 4; ++q) {
-    res.outputs.push_back({names[q], units_[q], shown[q], std::vector<double>(static_cast<size_t>(n), std::nan("")), {}});
+    res.outputs.push_back(
+        {names[q], labels[q], units_[q], shown[q], std::vector<double>(static_cast<size_t>(n), std::nan("")), {}});
   }
   const auto net0 = build_zone_geometry(c);
   std::vector<std::vector<double>> profiles(static_cast<size_t>(n));
@@ -172,6 +174,9 @@ UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts)
   for (auto& o : res.outputs) o.q = {quantile(o.samples, 0.1), quantile(o.samples, 0.5), quantile(o.samples, 0.9)};
   const auto finite = [](double v) { return std::isfinite(v); };
   const double ran = static_cast<double>(std::count_if(res.outputs[0].samples.begin(), res.outputs[0].samples.end(), finite));
+  res.samples_ran = static_cast<int>(ran);
+  res.samples_below_critical = static_cast<int>(
+      std::count_if(res.outputs[1].samples.begin(), res.outputs[1].samples.end(), [](double v) { return v > 0.0; }));
   res.noise_bar = ran > 1.0 ? 1.96 / std::sqrt(ran - 1.0) : 1.0;
   const double noise = res.noise_bar;
   for (size_t k = 0; k < nk; ++k) {

@@ -43,6 +43,7 @@ struct Quantiles {
 
 struct UncertaintyOutput {
   std::string name;
+  std::string label;         //!< as the tables name the value ("DO min (zones)")
   std::string unit;          //!< SI unit of the samples
   std::string display_unit;  //!< unit of the tables people read (units::display_scale)
   std::vector<double> samples;  //!< one per sample (NaN where a sample failed)
@@ -67,6 +68,8 @@ struct UncertaintyResult {
   std::vector<double> profile_z;           //!< level heights [m]
   std::vector<Quantiles> profile_do;       //!< mean DO per level [mol/m3]
   int failed = 0;
+  //! Samples in which some broth fell below its (sampled) critical DO, of those that ran.
+  int samples_below_critical = 0, samples_ran = 0;
 };
 
 UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts);

@@ -63,6 +63,24 @@ TEST(Uncertainty, UptakeScatterGivesTheExpectedBiomassBand) {
   EXPECT_LT(u.sensitivity[0].spearman, -0.9);  // more uptake, lower DO: a monotone link
 }
 
+TEST(Uncertainty, SamplesWithBrothBelowCriticalAreCounted) {
+  // At the supportable biomass the lowest DO sits at the critical DO, so the constants' scatter
+  // puts some samples below it and some above.
+  Case c = small();
+  c.culture.biomass_kg_m3 = run_case(c, {true, false, 1e-3}).max_biomass_kg_m3;
+  UncertaintyOptions o;
+  o.samples = 16;
+  o.with_mixing = false;
+  const auto u = run_uncertainty(c, o);
+  int below = 0;
+  for (double v : u.outputs[1].samples) below += v > 0.0 ? 1 : 0;
+  EXPECT_EQ(u.samples_ran, 16);
+  EXPECT_EQ(u.samples_below_critical, below);
+  EXPECT_GT(below, 0);
+  EXPECT_LT(below, 16);
+  EXPECT_EQ(u.outputs[0].label, "DO min (zones)");
+}
+
 TEST(Uncertainty, AConstantWithNoEffectIsMarkedAsNoise) {
   // The critical DO does not enter DO min (only the share below critical): its rank correlation
   // with DO min is sampling noise, under 1.96 / sqrt(n - 1) at 95 % (common practice) for all but
