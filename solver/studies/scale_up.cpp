@@ -112,7 +112,9 @@ ScaleUpStudy study_scale_up(const LoadedCase& pilot, const LoadedCase& productio
        s.pilot.power_per_volume_w_m3, true},
       {"equal tip speed, equal vvm", gas_vvm, Depth::hydro, [](const ScaleMetrics& m) { return m.tip_speed_m_s; },
        s.pilot.tip_speed_m_s, true},
-      {"equal kLa (vessel correlation), equal vvm", gas_vvm, Depth::field, [](const ScaleMetrics& m) { return m.kla_1_s; },
+      {prod.model.kla_model == KlaModel::mechanistic ? "equal kLa (mechanistic, volume mean), equal vvm"
+                                                      : "equal kLa (vessel correlation), equal vvm",
+       gas_vvm, Depth::field, [](const ScaleMetrics& m) { return m.kla_1_s; },
        s.pilot.kla_1_s, true},
       {"equal mixing time, equal vvm", gas_vvm, Depth::mixing, [](const ScaleMetrics& m) { return m.theta95_s; },
        s.pilot.theta95_s, false},
