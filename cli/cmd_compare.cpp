@@ -78,6 +78,7 @@ void add_compare_command(CLI::App& app) {
     fmt::print("{}", compare_text(names, values, feasible_flags, violated));
     for (size_t i = 0; i < loaded.size(); ++i) {
       for (const auto& w : runs[i].run.cautions) fmt::print("caution ({}): {}\n", names[i], w);
+      if (const auto note = scatter_note(names[i], runs[i].values, feasible_flags[i]); !note.empty()) fmt::print("note: {}\n", note);
     }
     {
       H5Writer h5(folder.file("result.h5").string());

@@ -1,5 +1,6 @@
 #include "input/units.hpp"
 
+#include <algorithm>
 #include <array>
 #include <cctype>
 #include <charconv>
@@ -32,7 +33,7 @@ const std::vector<UnitDef>& table(Dimension dim) {
                                              {"MPa", 1e6},  {"mbar", 100.0},    {"atm", 101325.0},
                                              {"psi", 6894.757293168361},
                                              {"mmHg", kMmHgPa}, {"Torr", 101325.0 / 760.0}};
-  static const std::vector<UnitDef> temperature{{"degC", 1.0, zero_celsius_k}, {"K", 1.0}};
+  static const std::vector<UnitDef> temperature{{"degC", 1.0, zero_celsius_k}, {"K", 1.0}, {"\u00b0C", 1.0, zero_celsius_k}};
   static const std::vector<UnitDef> biomass{{"g/L", 1.0}, {"kg/m3", 1.0}, {"mg/L", 1e-3}};
   static const std::vector<UnitDef> specific_rate{
       {"mmol/g/h", 1.0 / kHour}, {"mol/kg/s", 1.0}, {"mmol/(g h)", 1.0 / kHour},
@@ -160,7 +161,7 @@ std::string accepted(Dimension dim) {
     if (!out.empty()) out += ", ";
     out += u.name;
   }
-  if (dim == Dimension::pressure) out += " (each with (a) for absolute or (g) for gauge)";
+  if (dim == Dimension::pressure) out += " (each with (a) for absolute or (g) for gauge: bar(a) or bara)";
   if (dim == Dimension::concentration) out += ", mg/L";
   if (dim == Dimension::fraction) out = "a plain number or %";
   return out;
@@ -170,11 +171,20 @@ double to_si(Dimension dim, const Split& q, double molar_mass_kg_mol) {
   std::string unit = q.unit;
   double offset_pa = 0.0;
   if (dim == Dimension::pressure) {
-    const bool absolute = unit.size() >= 3 && unit.compare(unit.size() - 3, 3, "(a)") == 0;
-    const bool gauge = unit.size() >= 3 && unit.compare(unit.size() - 3, 3, "(g)") == 0;
+    bool absolute = unit.size() >= 3 && unit.compare(unit.size() - 3, 3, "(a)") == 0;
+    bool gauge = unit.size() >= 3 && unit.compare(unit.size() - 3, 3, "(g)") == 0;
+    // The plant's own spelling, "barg", "psia", "kPag": a pressure unit with a or g appended.
+    if (!absolute && !gauge && unit.size() >= 2 && (unit.back() == 'a' || unit.back() == 'g')) {
+      const std::string base = unit.substr(0, unit.size() - 1);
+      const auto& known = table(dim);
+      if (std::any_of(known.begin(), known.end(), [&](const UnitDef& u) { return u.name == base; })) {
+        absolute = unit.back() == 'a', gauge = unit.back() == 'g';
+        unit = base + (absolute ? "(a)" : "(g)");
+      }
+    }
     if (!absolute && !gauge) {
       throw UnitError(fmt::format("pressure unit '{}' must say (a) for absolute or (g) for gauge, "
-                                  "e.g. '1.5 bar(a)' or '0.5 bar(g)'",
+                                  "e.g. '1.5 bar(a)' or '0.5 bar(g)' (also written bara, barg)",
                                   unit));
     }
     unit = fold_spaces(std::string_view(unit).substr(0, unit.size() - 3));

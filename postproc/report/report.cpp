@@ -78,6 +78,21 @@ std::string operating_rows(const std::vector<ComparedCase>& cases) {
   return s + fmt::format("<tr><th colspan=\"{}\" style=\"text-align:left\">results</th></tr>\n", cases.size() + 2);
 }
 
+}  // namespace
+
+std::string scatter_note(const std::string& name, const std::vector<SummaryValue>& values, bool meets) {
+  const auto has = [&](const char* n) {
+    return std::any_of(values.begin(), values.end(), [&](const SummaryValue& v) { return v.name == n; });
+  };
+  if (!meets || !has("volume_fraction_below_critical_p90") || !has("do_min_p10")) return "";
+  if (!(summary_value(values, "volume_fraction_below_critical_p90") > 0.0)) return "";
+  return fmt::format("{} meets its constraints as computed, but not across the model constants' scatter: at P90 {} of "
+                     "the volume is below critical DO (DO min P10 {}).",
+                     name, value_text(values, "volume_fraction_below_critical_p90"), value_text(values, "do_min_p10"));
+}
+
+namespace {
+
 // The first sentence of a comparison: how many meet their constraints, and which has most oxygen.
 std::string compare_verdict(const std::vector<ComparedCase>& cases) {
   std::vector<std::string> ok;
@@ -104,6 +119,7 @@ std::string compare_verdict(const std::vector<ComparedCase>& cases) {
   if (best != nullptr) detail = fmt::format("Highest DO minimum: {} ({}). ", best->name, value_text(best->values, "do_min"));
   for (const auto& c : cases) {
     if (!feasible(c.checks)) detail += c.name + " breaks: " + broken_constraints(c.checks) + ". ";
+    if (const auto note = scatter_note(c.name, c.values, feasible(c.checks)); !note.empty()) detail += note + " ";
   }
   return verdict_box_html(ok.size() == cases.size(), headline, detail);
 }

@@ -35,6 +35,9 @@ struct ComparedCase {
   std::vector<ConstraintCheck> checks;
 };
 std::string compare_report_body(const std::vector<ComparedCase>& cases);
+//! With --uncertainty, for a configuration that meets its constraints as computed but not across
+//! the model constants' scatter (some broth below critical DO at P90): one sentence; else "".
+std::string scatter_note(const std::string& name, const std::vector<SummaryValue>& values, bool meets);
 
 //! The operating window of a sweep: feasible region, chosen point and its cautions, Pareto front,
 //! the table.

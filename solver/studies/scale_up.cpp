@@ -93,8 +93,8 @@ ScaleUpStudy study_scale_up(const LoadedCase& pilot, const LoadedCase& productio
   s.pilot = metrics(pilot.data, Depth::field);
   const Case& prod = production.data;
   const double n0 = prod.operation.speed_rps;
-  // Within the speeds a case may give (a production vessel smaller than the pilot's once searched
-  // up to 3200 rpm and lost every criterion to the reader's range error).
+  // Within the speeds a case may give: the reader refuses a point beyond them, and the criterion
+  // would be lost to that error (a production vessel smaller than the pilot needs high speeds).
   const double lo = n0 / o.speed_factor, hi = std::min(n0 * o.speed_factor, max_speed_rps);
   const double gas_vvm = s.pilot.vvm * prod.vessel.working_volume_m3 / 60.0;  // equal vvm [Nm3/s]
   const double gas_vs = gas_for_superficial(prod, s.pilot.superficial_gas_m_s);

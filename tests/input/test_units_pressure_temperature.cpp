@@ -86,6 +86,19 @@ TEST(UnitsPressure, WithoutAbsoluteOrGaugeIsAnError) {
   }
 }
 
+TEST(UnitsPressure, ThePlantsSpellingsBaraAndBargAreTheMarkers) {
+  // "barg", "psia", "kPag": the a or g written onto the unit, as plant documents do.
+  expect_si(Dimension::pressure, "0.5 barg", 0.5e5 + kAtm);
+  expect_si(Dimension::pressure, "1.8 bara", 1.8e5);
+  expect_si(Dimension::pressure, "7 psig", 7 * kPsi + kAtm);
+  expect_si(Dimension::pressure, "20 psia", 20 * kPsi);
+  expect_si(Dimension::pressure, "150 kPag", 150e3 + kAtm);
+  expect_si(Dimension::pressure, "1500 mbara", 1.5e5);
+  // A unit that merely ends in a or g is not read as one: "Pa" alone still needs its marker.
+  EXPECT_THROW(units::parse(Dimension::pressure, "150000 Pa"), UnitError);
+  EXPECT_THROW(units::parse(Dimension::pressure, "1.5 barx"), UnitError);
+}
+
 TEST(UnitsPressure, MarkerWithoutUnitIsAnError) {
   EXPECT_THROW(units::parse(Dimension::pressure, "1.5 (a)"), UnitError);
 }
@@ -119,6 +132,7 @@ TEST(UnitsTemperature, CelsiusAndKelvin) {
   expect_si(Dimension::temperature, "0 degC", 273.15);
   expect_si(Dimension::temperature, "-5 degC", 268.15);
   expect_si(Dimension::temperature, "310.15 K", 310.15);
+  expect_si(Dimension::temperature, "36.5 \u00b0C", 309.65);  // the degree sign, as plant documents write it
 }
 
 TEST(UnitsTemperature, DisplayIsCelsius) {

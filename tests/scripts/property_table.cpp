@@ -28,6 +28,8 @@ int main() {
       {"350 L/h", units::Dimension::volume_flow},  {"2.5 m3/h", units::Dimension::volume_flow},
       {"0.02 g/g/h", units::Dimension::mass_specific_rate}, {"60 m2", units::Dimension::area},
       {"7.2 t/h", units::Dimension::mass_flow},    {"0.12 kcal/mol", units::Dimension::molar_energy},
-      {"3 kW/kg", units::Dimension::specific_power}};
+      {"3 kW/kg", units::Dimension::specific_power}, {"7 psig", units::Dimension::pressure},
+      {"1.8 bara", units::Dimension::pressure},    {"150 kPag", units::Dimension::pressure},
+      {"30 \u00b0C", units::Dimension::temperature}};
   for (const auto& [text, dim] : quantities) fmt::print("unit,{},{:.12g}\n", text, units::parse(dim, text));
 }

@@ -58,8 +58,12 @@ def main():
         elif line.startswith("unit,"):
             _, text, si = line.split(",")
             number, unit = text.split(" ", 1)
+            # The plant spellings (psig, bara, kPag) as pint reads them: the unit and a gauge flag.
+            for plain in ("psi", "bar", "kPa"):
+                if unit in (plain + "a", plain + "g"):
+                    unit = plain + ("(g)" if unit.endswith("g") else "(a)")
             gauge = unit.endswith("(g)")
-            unit = unit.replace("(a)", "").replace("(g)", "").replace("degC", "degree_Celsius")
+            unit = unit.replace("(a)", "").replace("(g)", "").replace("degC", "degree_Celsius").replace("\u00b0C", "degree_Celsius")
             unit = {"mmol/g/h": "mmol/g/hour", "cP": "centipoise", "L": "liter", "rpm": "revolutions_per_minute",
                     "g/cm3": "g/cm**3",
                     "1/h": "1/hour", "L/h": "liter/hour", "m3/h": "m**3/hour", "g/g/h": "g/g/hour",
