@@ -5,6 +5,7 @@
 #include <cctype>
 #include <charconv>
 #include <cmath>
+#include <utility>
 #include <fmt/format.h>
 
 #include "physics/constants.hpp"
@@ -40,7 +41,7 @@ const std::vector<UnitDef>& table(Dimension dim) {
       {"mol/kg/h", 1.0 / kHour}};
   static const std::vector<UnitDef> viscosity{{"mPa s", 1e-3}, {"Pa s", 1.0}, {"cP", 1e-3},
                                               {"Pa.s", 1.0},   {"mPa.s", 1e-3}};
-  static const std::vector<UnitDef> density{{"kg/m3", 1.0}, {"g/L", 1.0}, {"g/cm3", 1e3}};
+  static const std::vector<UnitDef> density{{"kg/m3", 1.0}, {"g/L", 1.0}, {"g/cm3", 1e3}, {"kg/L", 1e3}};
   static const std::vector<UnitDef> time{{"s", 1.0}, {"min", kMinute}, {"h", kHour},
                                          {"d", 86400.0}, {"ms", 1e-3}};
   static const std::vector<UnitDef> velocity{{"m/s", 1.0}, {"cm/s", 1e-2}, {"mm/s", 1e-3}};
@@ -122,6 +123,20 @@ std::string_view trim(std::string_view s) {
   return s;
 }
 
+// The typographic forms of unit symbols, as data sheets print them, in the plain ones the tables
+// hold: "mPa·s" (middle dot), "Nm³/h", "m²", "µm" (micro sign or Greek mu).
+std::string plain_symbols(std::string_view s) {
+  static const std::pair<std::string_view, std::string_view> forms[] = {
+      {"\u00b7", " "}, {"\u22c5", " "}, {"\u00b3", "3"}, {"\u00b2", "2"}, {"\u00b5", "u"}, {"\u03bc", "u"}};
+  std::string out(s);
+  for (const auto& [typographic, plain] : forms) {
+    for (size_t at = out.find(typographic); at != std::string::npos; at = out.find(typographic, at + plain.size())) {
+      out.replace(at, typographic.size(), plain);
+    }
+  }
+  return out;
+}
+
 // Collapses runs of blanks so "mPa  s" matches "mPa s".
 std::string fold_spaces(std::string_view s) {
   std::string out;
@@ -151,7 +166,7 @@ Split split(std::string_view text) {
     throw UnitError(fmt::format("'{}' does not start with a number", t));
   }
   if (!std::isfinite(value)) throw UnitError(fmt::format("'{}' is not a finite number", t));
-  return Split{value, fold_spaces(std::string_view(ptr, static_cast<size_t>(last - ptr)))};
+  return Split{value, fold_spaces(plain_symbols(std::string_view(ptr, static_cast<size_t>(last - ptr))))};
 }
 
 std::string accepted(Dimension dim) {

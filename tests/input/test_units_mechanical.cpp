@@ -88,10 +88,22 @@ TEST(UnitsViscosity, RunsOfBlanksInsideAUnitCountAsOne) {
   expect_si(Dimension::viscosity, "  2   mPa s  ", 2e-3);
 }
 
+TEST(UnitsSymbols, TypographicFormsAreTheirPlainOnes) {
+  // As data sheets print them: a middle dot (or dot operator) for the product, superscript powers,
+  // the micro sign or the Greek mu.
+  expect_si(Dimension::viscosity, "1.1 mPa\u00b7s", 1.1e-3);
+  expect_si(Dimension::viscosity, "1.1 mPa\u22c5s", 1.1e-3);
+  expect_si(Dimension::volume, "2 m\u00b3", 2.0);
+  expect_si(Dimension::area, "60 m\u00b2", 60.0);
+  expect_si(Dimension::length, "20 \u00b5m", 20e-6);
+  expect_si(Dimension::length, "20 \u03bcm", 20e-6);
+}
+
 TEST(UnitsDensity, EveryUnit) {
   expect_si(Dimension::density, "1030 kg/m3", 1030.0);
   expect_si(Dimension::density, "1030 g/L", 1030.0);
   expect_si(Dimension::density, "1.03 g/cm3", 1030.0);
+  expect_si(Dimension::density, "1.03 kg/L", 1030.0);
 }
 
 TEST(UnitsBiomass, EveryUnit) {
