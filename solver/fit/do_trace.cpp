@@ -9,6 +9,7 @@
 #include <optional>
 #include <string_view>
 
+#include "input/clock_time.hpp"
 #include "input/csv_table.hpp"
 #include "input/errors.hpp"
 #include "input/units.hpp"
@@ -85,6 +86,11 @@ DoTrace do_trace_from(const CsvTable& table) {
   }
   tr.time_header = cells[0];
   tr.do_header = cells[1];
+  // A logger's clock times ("10:00:05", "2026-12-05 10:00:05") in a column without a time unit:
+  // seconds from the first row, across midnight.
+  const bool clock = !std::isfinite(time_factor(tc.unit)) && !table.rows.empty() &&
+                     clock_seconds(table.rows.front().cells[0]).has_value();
+  if (clock) tc.unit = "s";
   if (tc.unit.empty()) {
     throw CaseError(fmt::format("{}: column 1 '{}': missing unit; write it in brackets or after a space, "
                                 "e.g. 'time [s]' (s, min or h)",
@@ -116,9 +122,24 @@ DoTrace do_trace_from(const CsvTable& table) {
   tr.do_unit = dc.unit;
   tr.time_factor = time_scale;
   tr.do_factor = do_scale;
+  double clock_start = 0.0, clock_days = 0.0, clock_last = 0.0;
   for (const auto& row : table.rows) {
     const auto at = table.where(row.line);
-    const auto tv = table.number(row, 0);
+    std::optional<double> tv;
+    if (clock) {
+      const auto c = clock_seconds(row.cells[0]);
+      if (!c) {
+        throw CaseError(fmt::format("{}: column 1 '{}': '{}' is not a clock time like the first row's ('{}', "
+                                    "hh:mm:ss, optionally after a date YYYY-MM-DD)",
+                                    at, tr.time_header, row.cells[0], table.rows.front().cells[0]));
+      }
+      if (tr.time_s.empty()) clock_start = *c;
+      if (!tr.time_s.empty() && *c < clock_last - 43200.0) clock_days += 86400.0;  // past midnight, no date given
+      clock_last = *c;
+      tv = *c + clock_days - clock_start;
+    } else {
+      tv = table.number(row, 0);
+    }
     if (!tv) {
       throw CaseError(fmt::format("{}: column 1 '{}': '{}' is not a number; expected the time in {}", at,
                                   tr.time_header, row.cells[0], tr.time_unit));
@@ -130,9 +151,9 @@ DoTrace do_trace_from(const CsvTable& table) {
     }
     const double t_s = *tv * time_scale;
     if (!tr.time_s.empty() && t_s <= tr.time_s.back()) {
-      throw CaseError(fmt::format("{}: column 1 '{}': time {} {} is not after the previous row's (line {}); rows must "
+      throw CaseError(fmt::format("{}: column 1 '{}': time {}{} is not after the previous row's (line {}); rows must "
                                   "be in increasing time",
-                                  at, tr.time_header, row.cells[0], tr.time_unit, tr.line.back()));
+                                  at, tr.time_header, row.cells[0], clock ? "" : " " + tr.time_unit, tr.line.back()));
     }
     tr.time_s.push_back(t_s);
     tr.value.push_back(*dv * do_scale);

@@ -3,6 +3,7 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
+#include <cstdio>
 #include <string>
 #include <vector>
 
@@ -53,6 +54,29 @@ void expect_trace_error(const std::string& text, const std::vector<std::string>&
   } catch (const CaseError& e) {
     for (const auto& p : parts) EXPECT_THAT(e.what(), HasSubstr(p));
   }
+}
+
+TEST(KlaFitTrace, ClockTimesOfALoggerAreSecondsFromTheFirstRow) {
+  // A logger's export: clock times, no time unit; one trace crosses midnight without a date,
+  // the other with one.
+  std::string bare = "time,DO [%]\n", dated = "timestamp;DO [%]\n";
+  for (int i = 0; i < 12; ++i) {
+    const int t = 23 * 3600 + 59 * 60 + 30 + 10 * i, day = t / 86400, s = t % 86400;
+    const auto hms = [](int x) {
+      char b[16];
+      std::snprintf(b, sizeof b, "%02d:%02d:%02d", x / 3600, x % 3600 / 60, x % 60);
+      return std::string(b);
+    };
+    bare += hms(s) + "," + std::to_string(10 + 5 * i) + "\n";
+    dated += std::string(day == 0 ? "2026-12-05 " : "2026-12-06T") + hms(s) + ";" + std::to_string(10 + 5 * i) + "\n";
+  }
+  for (const auto& text : {bare, dated}) {
+    const auto tr = parse_do_trace(text, "logger.csv");
+    ASSERT_EQ(tr.time_s.size(), 12u);
+    for (size_t i = 0; i < tr.time_s.size(); ++i) EXPECT_DOUBLE_EQ(tr.time_s[i], 10.0 * static_cast<double>(i));
+  }
+  expect_trace_error("time,DO [%]\n10:00:00,5\n10:00:10,6\nlater,7\n" + rows(10),
+                     {"trace.csv:4", "'later' is not a clock time like the first row's ('10:00:00'"});
 }
 
 TEST(KlaFitTrace, ErrorsNameFileLineColumnAndExpectation) {
