@@ -2,6 +2,7 @@
 
 #include <cctype>
 #include <charconv>
+#include <chrono>
 
 namespace oxystrat {
 namespace {
@@ -19,17 +20,6 @@ std::optional<int> fixed_digits(std::string_view s, size_t& pos, size_t digits) 
   return v;
 }
 
-// Days from 1970-01-01 to the given civil date (proleptic Gregorian; H. Hinnant's
-// days_from_civil algorithm, public domain).
-long days_from_civil(int y, int m, int d) {
-  y -= m <= 2 ? 1 : 0;
-  const long era = (y >= 0 ? y : y - 399) / 400;
-  const long yoe = y - era * 400;
-  const long doy = (153 * (m + (m > 2 ? -3 : 9)) + 2) / 5 + d - 1;
-  const long doe = yoe * 365 + yoe / 4 - yoe / 100 + doy;
-  return era * 146097 + doe - 719468;
-}
-
 }  // namespace
 
 std::optional<double> clock_seconds(std::string_view text) {
@@ -44,10 +34,12 @@ std::optional<double> clock_seconds(std::string_view text) {
     const auto mo = fixed_digits(text, pos, 2);
     ++pos;
     const auto d = fixed_digits(text, pos, 2);
-    if (!y || !mo || !d || *mo < 1 || *mo > 12 || *d < 1 || *d > 31) return std::nullopt;
-    if (text[pos] != ' ' && text[pos] != 'T') return std::nullopt;
+    if (!y || !mo || !d) return std::nullopt;
+    const std::chrono::year_month_day date{std::chrono::year{*y}, std::chrono::month{static_cast<unsigned>(*mo)},
+                                           std::chrono::day{static_cast<unsigned>(*d)}};
+    if (!date.ok() || (text[pos] != ' ' && text[pos] != 'T')) return std::nullopt;
     ++pos;
-    days = static_cast<double>(days_from_civil(*y, *mo, *d));
+    days = static_cast<double>(std::chrono::sys_days{date}.time_since_epoch().count());
   }
   // hh:mm or h:mm, then optionally :ss and a fraction.
   size_t hour_digits = 0;

@@ -24,7 +24,7 @@ TEST(ClockTime, DateAndTimeCountDaysFrom1970) {
 
 TEST(ClockTime, OtherTextIsNotAClockTime) {
   for (const char* text : {"", "10", "12.5", "abc", "25:00", "10:60", "10:5", "10:00:5", "10:00:00x", "10:00:-1",
-                           "2026-13-05 10:00", "2026-12-05", "2026-12-05_10:00", "1e3", ":30"}) {
+                           "2026-13-05 10:00", "2026-02-30 10:00", "2026-12-05", "2026-12-05_10:00", "1e3", ":30"}) {
     EXPECT_FALSE(clock_seconds(text).has_value()) << text;
   }
 }
