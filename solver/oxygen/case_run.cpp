@@ -42,6 +42,7 @@ CaseRun run_case(const Case& c, const CaseRunOptions& opts, NewtonWorkspace* wor
   if (opts.supportable_biomass && c.culture.q_o2_max_mol_kg_s > 0.0) {
     stage("the largest biomass every zone supports (a root search: one steady solve per step)");
     run.max_biomass_kg_m3 = max_supportable_biomass(ctx, *run.field, opts.biomass_rel_tol);
+    run.biomass_searched = true;
   }
   if (opts.single_zone) {
     Case lumped = c;

@@ -24,6 +24,7 @@ struct CaseRun {
   std::optional<OxygenField> single_zone;  //!< the same case as one well-mixed zone
   double max_biomass_kg_m3 = 0.0;
   double max_biomass_single_zone_kg_m3 = 0.0;
+  bool biomass_searched = false;           //!< the two above were searched for (else they are 0, not an answer)
   std::vector<std::string> cautions;
   std::vector<std::string> notes;          //!< what was skipped and why
   DesignLimits limits;                     //!< heat, shear and cost at this point

@@ -42,8 +42,9 @@ std::vector<SummaryValue> summary_values(const Case& c, const CaseRun& run, std:
       e("do_min_saturation", f ? f->do_min / f->air_saturation_mol_m3 : nan, "1", "%", "DO min / air saturation"),
       e("volume_fraction_below_critical", f ? f->volume_fraction_below_critical : nan, "1", "%",
         "volume below critical DO"),
-      e("max_biomass", f ? run.max_biomass_kg_m3 : nan, "kg/m3", "g/L", "max biomass (zones)"),
-      e("max_biomass_single_zone", f ? run.max_biomass_single_zone_kg_m3 : nan, "kg/m3", "g/L",
+      // Not searched for (a sweep's --no-biomass): no value, rather than a supportable biomass of 0.
+      e("max_biomass", f && run.biomass_searched ? run.max_biomass_kg_m3 : nan, "kg/m3", "g/L", "max biomass (zones)"),
+      e("max_biomass_single_zone", f && run.biomass_searched ? run.max_biomass_single_zone_kg_m3 : nan, "kg/m3", "g/L",
         "max biomass (single zone)"),
       e("offgas_y_o2", f ? f->offgas_y_o2 : nan, "1", "%", "off-gas O2 (dry)"),
       e("offgas_y_co2", f ? f->offgas_y_co2 : nan, "1", "%", "off-gas CO2 (dry)"),

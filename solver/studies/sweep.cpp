@@ -225,6 +225,11 @@ void check_objective(const Case& base, const std::string& objective, const Sweep
   const bool maximise = objective.size() > 4 && objective.compare(objective.size() - 4, 4, ":max") == 0;
   // A name of an earlier release (volume_below_critical) still names its value.
   const std::string name = current_summary_name(maximise ? objective.substr(0, objective.size() - 4) : objective);
+  if (!opts.supportable_biomass && (name == "max_biomass" || name == "max_biomass_single_zone")) {
+    throw CaseError(fmt::format("--objective '{}': {} is not searched for with --no-biomass (every point would have no "
+                                "value); drop --no-biomass",
+                                objective, name));
+  }
   const auto names = sweep_value_names(base, opts);
   if (std::find(names.begin(), names.end(), name) != names.end()) return;
   std::string list;

@@ -112,6 +112,10 @@ TEST(SweepPlan, ObjectiveIsCheckedAgainstTheValuesThePointsWillHave) {
   EXPECT_THROW(check_objective("do_min_p10", o), CaseError);
   o.uncertainty_samples = 4;
   EXPECT_NO_THROW(check_objective("do_min_p10:max", o));
+  EXPECT_NO_THROW(check_objective("max_biomass:max", o));
+  o.supportable_biomass = false;  // --no-biomass: the points carry no supportable biomass
+  EXPECT_THROW(check_objective("max_biomass:max", o), CaseError);
+  EXPECT_NO_THROW(check_objective("max_biomass_p50:max", o));  // the uncertainty study searches its own
 }
 
 TEST(SweepPlan, VaryTakesTheCaseFilesUnitWhenNoneIsGiven) {
