@@ -167,13 +167,8 @@ void append_uncertainty_values(const Case& c, int samples, std::uint64_t seed, b
   const auto u = run_uncertainty(c, o);
   for (const auto& out : u.outputs) {
     if (out.name == "theta95" && !with_mixing) continue;
-    // Labelled as the value itself is in the tables ("DO min (zones) P10"), not by its identifier.
-    std::string label = out.name;
-    for (const auto& v : values) {
-      if (v.name == out.name) label = v.label;
-    }
     for (const auto& [suffix, v] : {std::pair{"_p10", out.q.p10}, std::pair{"_p50", out.q.p50}, std::pair{"_p90", out.q.p90}}) {
-      values.push_back(summary_entry(out.name + suffix, v, out.unit, out.display_unit, label + " P" + std::string(suffix + 2)));
+      values.push_back(summary_entry(out.name + suffix, v, out.unit, out.display_unit, out.label + " P" + std::string(suffix + 2)));
     }
   }
 }

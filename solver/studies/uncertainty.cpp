@@ -139,7 +139,7 @@ UncertaintyResult run_uncertainty(const Case& c, const UncertaintyOptions& opts)
   const auto names = uncertainty_output_names();
   const char* units_[4] = {"mol/m3", "1", "kg/m3", "s"};       // SI, as /summary
   const char* shown[4] = {"mmol/L", "%", "g/L", "s"};          // for the tables people read
-  const char* labels[4] = {"DO min (zones)", "volume below critical DO", "max biomass (zones)", "theta95"};
+  const char* labels[4] = {"DO min (zones)", "volume below critical DO", "max biomass (zones)", "mixing time theta95"};  // as summary_values() names them
   for (int q = 0; q < 4; ++q) {
     res.outputs.push_back(
         {names[q], labels[q], units_[q], shown[q], std::vector<double>(static_cast<size_t>(n), std::nan("")), {}});
