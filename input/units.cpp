@@ -1,6 +1,5 @@
 #include "input/units.hpp"
 
-#include <algorithm>
 #include <array>
 #include <cctype>
 #include <charconv>
@@ -123,6 +122,14 @@ std::string_view trim(std::string_view s) {
   return s;
 }
 
+// The table's entry for a unit name, or null.
+const UnitDef* find_unit(Dimension dim, const std::string& name) {
+  for (const auto& u : table(dim)) {
+    if (u.name == name) return &u;
+  }
+  return nullptr;
+}
+
 // The typographic forms of unit symbols, as data sheets print them, in the plain ones the tables
 // hold: "mPa·s" (middle dot), "Nm³/h", "m²", "µm" (micro sign or Greek mu).
 std::string plain_symbols(std::string_view s) {
@@ -186,17 +193,12 @@ double to_si(Dimension dim, const Split& q, double molar_mass_kg_mol) {
   std::string unit = q.unit;
   double offset_pa = 0.0;
   if (dim == Dimension::pressure) {
-    bool absolute = unit.size() >= 3 && unit.compare(unit.size() - 3, 3, "(a)") == 0;
-    bool gauge = unit.size() >= 3 && unit.compare(unit.size() - 3, 3, "(g)") == 0;
-    // The plant's own spelling, "barg", "psia", "kPag": a pressure unit with a or g appended.
-    if (!absolute && !gauge && unit.size() >= 2 && (unit.back() == 'a' || unit.back() == 'g')) {
-      const std::string base = unit.substr(0, unit.size() - 1);
-      const auto& known = table(dim);
-      if (std::any_of(known.begin(), known.end(), [&](const UnitDef& u) { return u.name == base; })) {
-        absolute = unit.back() == 'a', gauge = unit.back() == 'g';
-        unit = base + (absolute ? "(a)" : "(g)");
-      }
+    // The plant's own spelling, "barg", "psia", "kPag", is the marked one: "bar(g)".
+    if (!unit.empty() && (unit.back() == 'a' || unit.back() == 'g') && find_unit(dim, unit.substr(0, unit.size() - 1))) {
+      unit = unit.substr(0, unit.size() - 1) + "(" + unit.back() + ")";
     }
+    const bool absolute = unit.size() >= 3 && unit.compare(unit.size() - 3, 3, "(a)") == 0;
+    const bool gauge = unit.size() >= 3 && unit.compare(unit.size() - 3, 3, "(g)") == 0;
     if (!absolute && !gauge) {
       throw UnitError(fmt::format("pressure unit '{}' must say (a) for absolute or (g) for gauge, "
                                   "e.g. '1.5 bar(a)' or '0.5 bar(g)' (also written bara, barg)",
@@ -210,9 +212,7 @@ double to_si(Dimension dim, const Split& q, double molar_mass_kg_mol) {
     if (molar_mass_kg_mol <= 0.0) throw UnitError("mg/L needs a molar mass here");
     return q.value * 1e-3 / molar_mass_kg_mol;  // mg/L = g/m3
   }
-  for (const auto& u : table(dim)) {
-    if (u.name == unit) return q.value * u.factor + u.offset + offset_pa;
-  }
+  if (const UnitDef* u = find_unit(dim, unit)) return q.value * u->factor + u->offset + offset_pa;
   if (unit.empty()) throw UnitError(fmt::format("missing unit; expected one of {}", accepted(dim)));
   throw UnitError(fmt::format("unknown unit '{}'; expected one of {}", unit, accepted(dim)));
 }

@@ -73,7 +73,6 @@ TEST(ScaleUp, ToASmallerVesselSearchesOnlyTheSpeedsACaseMayGive) {
   const auto s = study_scale_up(demo("tall-3rushton.toml"), demo("pilot-300L.toml"), {});
   ASSERT_EQ(s.rows.size(), 7u);
   for (size_t i = 1; i < s.rows.size(); ++i) EXPECT_TRUE(s.rows[i].reached) << s.rows[i].criterion << ": " << s.rows[i].note;
-  EXPECT_TRUE(s.rows[2].reached);
   EXPECT_NEAR(s.rows[2].production.tip_speed_m_s / s.pilot.tip_speed_m_s, 1.0, 1e-3);  // bisection to 1e-5 in ln N
 }
 
